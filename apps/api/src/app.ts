@@ -1,0 +1,97 @@
+import { existsSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import type { Database } from '@tierscope/db';
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import { authRoutes } from './features/auth/auth.routes';
+import { createAuthService } from './features/auth/auth.service';
+import { farmsRoutes } from './features/farms/farms.routes';
+import { createFarmsService } from './features/farms/farms.service';
+import { pingDatabase } from './features/health/health.repository';
+import { healthRoutes } from './features/health/health.routes';
+import { housesRoutes } from './features/houses/houses.routes';
+import { createHousesService } from './features/houses/houses.service';
+import { loadActiveUser } from './features/users/users.repository';
+import { usersRoutes } from './features/users/users.routes';
+import { createUsersService } from './features/users/users.service';
+import { createAuthenticator } from './platform/auth';
+import type { AppConfig } from './platform/config';
+import { AppError, errorMiddleware } from './platform/errors';
+import { buildOpenApiDocument } from './platform/openapi';
+import { createTokenService } from './platform/tokens';
+
+export const API_VERSION = '0.1.0';
+
+export interface AppDeps {
+  db: Database;
+  config: Pick<
+    AppConfig,
+    'jwtSecret' | 'tokenTtlSeconds' | 'loginMaxFailures' | 'loginWindowSeconds' | 'webDist'
+  >;
+  log?: (message: string, error?: unknown) => void;
+}
+
+/** Builds the whole HTTP app without listening, so tests run it in-process. */
+export function createApp({ db, config, log = defaultLog }: AppDeps): Express {
+  const app = express();
+  app.disable('x-powered-by');
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          // Angular Material sets inline style attributes; scripts stay same-origin only.
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'connect-src': ["'self'"],
+        },
+      },
+    }),
+  );
+  app.use(express.json({ limit: '2mb' }));
+
+  const tokens = createTokenService(config.jwtSecret, config.tokenTtlSeconds);
+  const authenticate = createAuthenticator(tokens, (id) => loadActiveUser(db, id));
+  const openApi = buildOpenApiDocument(API_VERSION);
+
+  app.use('/api', healthRoutes(() => pingDatabase(db), API_VERSION));
+
+  const v1 = express.Router();
+  v1.get('/openapi.json', (_req, res) => {
+    res.json(openApi);
+  });
+  v1.use(
+    '/auth',
+    authRoutes(createAuthService(db, tokens), authenticate, {
+      maxFailures: config.loginMaxFailures,
+      windowSeconds: config.loginWindowSeconds,
+    }),
+  );
+  v1.use(authenticate);
+  v1.use(farmsRoutes(createFarmsService(db)));
+  v1.use(housesRoutes(createHousesService(db)));
+  v1.use(usersRoutes(createUsersService(db)));
+  app.use('/api/v1', v1);
+  app.use('/api', (_req, _res, next) => {
+    next(new AppError('not_found', 'No such API route'));
+  });
+
+  if (config.webDist) serveWebApp(app, config.webDist);
+  app.use(errorMiddleware(log));
+  return app;
+}
+
+/** Serves the built Angular app, answering deep links with index.html so the router can take them. */
+function serveWebApp(app: Express, dist: string): void {
+  const root = resolve(dist);
+  if (!existsSync(join(root, 'index.html'))) {
+    throw new Error(`WEB_DIST ${root} has no index.html: build the web app first (npm run build:web)`);
+  }
+  app.use(express.static(root, { index: false, maxAge: '1h' }));
+  app.get('/{*path}', (_req, res) => {
+    res.sendFile(join(root, 'index.html'));
+  });
+}
+
+function defaultLog(message: string, error?: unknown): void {
+  console.error(`[api] ${message}`, error ?? '');
+}

@@ -1,0 +1,47 @@
+import { z } from 'zod';
+
+const configSchema = z.object({
+  DATABASE_URL: z.string().url('DATABASE_URL must be a postgres:// URL'),
+  PORT: z.coerce.number().int().min(0).max(65535).default(8080),
+  HOST: z.string().default('127.0.0.1'),
+  JWT_SECRET: z.string().min(32, 'JWT_SECRET must be at least 32 characters'),
+  TOKEN_TTL_SECONDS: z.coerce.number().int().positive().default(12 * 3600),
+  LOGIN_MAX_FAILURES: z.coerce.number().int().positive().default(10),
+  LOGIN_WINDOW_SECONDS: z.coerce.number().int().positive().default(15 * 60),
+  WEB_DIST: z.string().optional(),
+  PUBLIC_URL: z.string().optional(),
+});
+
+export interface AppConfig {
+  databaseUrl: string;
+  port: number;
+  host: string;
+  jwtSecret: string;
+  tokenTtlSeconds: number;
+  loginMaxFailures: number;
+  loginWindowSeconds: number;
+  /** Folder of the built web app to serve; the API alone when absent. */
+  webDist: string | undefined;
+  publicUrl: string;
+}
+
+/** Reads the API's settings from the environment; a bad value stops the start with its name. */
+export function loadConfig(env: NodeJS.ProcessEnv): AppConfig {
+  const parsed = configSchema.safeParse(env);
+  if (!parsed.success) {
+    const problems = parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ');
+    throw new Error(`Invalid configuration: ${problems}`);
+  }
+  const c = parsed.data;
+  return {
+    databaseUrl: c.DATABASE_URL,
+    port: c.PORT,
+    host: c.HOST,
+    jwtSecret: c.JWT_SECRET,
+    tokenTtlSeconds: c.TOKEN_TTL_SECONDS,
+    loginMaxFailures: c.LOGIN_MAX_FAILURES,
+    loginWindowSeconds: c.LOGIN_WINDOW_SECONDS,
+    webDist: c.WEB_DIST,
+    publicUrl: c.PUBLIC_URL ?? `http://${c.HOST}:${c.PORT}`,
+  };
+}

@@ -1,0 +1,30 @@
+import jwt from 'jsonwebtoken';
+
+const ISSUER = 'tierscope';
+const AUDIENCE = 'tierscope-user';
+
+export interface TokenService {
+  sign(userId: number): { token: string; expiresAt: Date };
+  readonly secret: string;
+  readonly issuer: string;
+  readonly audience: string;
+}
+
+/** Signed (HS256), expiring user tokens; the API never keeps sessions. */
+export function createTokenService(secret: string, ttlSeconds: number): TokenService {
+  return {
+    secret,
+    issuer: ISSUER,
+    audience: AUDIENCE,
+    sign(userId) {
+      const token = jwt.sign({}, secret, {
+        algorithm: 'HS256',
+        subject: String(userId),
+        issuer: ISSUER,
+        audience: AUDIENCE,
+        expiresIn: ttlSeconds,
+      });
+      return { token, expiresAt: new Date(Date.now() + ttlSeconds * 1000) };
+    },
+  };
+}

@@ -1,0 +1,24 @@
+import { openDatabase, runMigrations } from '@tierscope/db';
+import { createApp } from './app';
+import { loadConfig } from './platform/config';
+
+/** Starts the API on its own (npm run api); `npm start` starts it through scripts/start.ts instead. */
+async function main(): Promise<void> {
+  const config = loadConfig(process.env);
+  const database = openDatabase(config.databaseUrl);
+  await runMigrations(database.db);
+  const app = createApp({ db: database.db, config });
+  const server = app.listen(config.port, config.host, () => {
+    console.log(`[api] listening on http://${config.host}:${config.port}`);
+  });
+  const stop = () => {
+    server.close(() => void database.close().then(() => process.exit(0)));
+  };
+  process.on('SIGINT', stop);
+  process.on('SIGTERM', stop);
+}
+
+void main().catch((error: unknown) => {
+  console.error(error instanceof Error ? error.message : error);
+  process.exit(1);
+});

@@ -1,0 +1,4 @@
+export * as schema from './schema/index';
+export * from './client';
+export * from './migrate';
+export * from './house-records';

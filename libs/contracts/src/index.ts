@@ -1,0 +1,6 @@
+export * from './error.schema';
+export * from './auth.schema';
+export * from './farm.schema';
+export * from './house.schema';
+export * from './user.schema';
+export * from './health.schema';

@@ -1,0 +1,3 @@
+export * from './roles';
+export * from './house-layout';
+export * from './clock';
