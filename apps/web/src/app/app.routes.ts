@@ -1,0 +1,37 @@
+import type { Routes } from '@angular/router';
+import { permissionGuard, signedInGuard } from './core/auth/auth-guards';
+
+export const routes: Routes = [
+  {
+    path: 'sign-in',
+    title: 'Sign in · Tierscope',
+    loadComponent: () => import('./features/sign-in/sign-in-page').then((m) => m.SignInPage),
+  },
+  {
+    path: '',
+    canActivate: [signedInGuard],
+    loadComponent: () => import('./core/shell/shell').then((m) => m.Shell),
+    children: [
+      { path: '', pathMatch: 'full', redirectTo: 'farms' },
+      {
+        path: 'farms',
+        title: 'Farms · Tierscope',
+        loadComponent: () => import('./features/farms/farms-page').then((m) => m.FarmsPage),
+      },
+      {
+        path: 'houses/:houseId/settings',
+        title: 'House settings · Tierscope',
+        canActivate: [permissionGuard('house.update')],
+        loadComponent: () =>
+          import('./features/house-settings/house-settings-page').then((m) => m.HouseSettingsPage),
+      },
+      {
+        path: 'users',
+        title: 'Users · Tierscope',
+        canActivate: [permissionGuard('users.manage')],
+        loadComponent: () => import('./features/users/users-page').then((m) => m.UsersPage),
+      },
+    ],
+  },
+  { path: '**', redirectTo: 'farms' },
+];

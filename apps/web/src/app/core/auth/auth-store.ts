@@ -1,0 +1,66 @@
+import { HttpClient } from '@angular/common/http';
+import { computed, inject, Injectable, signal } from '@angular/core';
+import {
+  loginResponseSchema,
+  type LoginRequest,
+  type Membership,
+  type Session,
+} from '@tierscope/contracts';
+import { can, type Permission } from '@tierscope/domain';
+import { firstValueFrom } from 'rxjs';
+
+const STORAGE_KEY = 'tierscope.session';
+
+interface StoredSession extends Session {
+  token: string;
+  expiresAt: string;
+}
+
+/** Who is signed in, their token and their farm roles; the one source the app asks "may I show this?". */
+@Injectable({ providedIn: 'root' })
+export class AuthStore {
+  private readonly http = inject(HttpClient);
+  private readonly stored = signal<StoredSession | null>(readStored());
+
+  readonly session = this.stored.asReadonly();
+  readonly isSignedIn = computed(() => {
+    const s = this.stored();
+    return s !== null && new Date(s.expiresAt).getTime() > Date.now();
+  });
+  readonly user = computed(() => this.stored()?.user ?? null);
+  readonly memberships = computed<Membership[]>(() => this.stored()?.memberships ?? []);
+  readonly token = computed(() => this.stored()?.token ?? null);
+
+  /** True when the user holds `permission` on at least one farm (or on `farmId` when given). */
+  hasPermission(permission: Permission, farmId?: number): boolean {
+    return this.memberships().some(
+      (m) => (farmId === undefined || m.farmId === farmId) && can(m.role, permission),
+    );
+  }
+
+  async signIn(credentials: LoginRequest): Promise<void> {
+    const response = loginResponseSchema.parse(
+      await firstValueFrom(this.http.post('/api/v1/auth/login', credentials)),
+    );
+    const session: StoredSession = response;
+    localStorage.setItem(STORAGE_KEY, JSON.stringify(session));
+    this.stored.set(session);
+  }
+
+  signOut(): void {
+    localStorage.removeItem(STORAGE_KEY);
+    this.stored.set(null);
+  }
+}
+
+function readStored(): StoredSession | null {
+  try {
+    const raw = localStorage.getItem(STORAGE_KEY);
+    if (!raw) return null;
+    const parsed = loginResponseSchema.safeParse(JSON.parse(raw));
+    return parsed.success ? parsed.data : null;
+  } catch {
+    // Storage blocked or corrupt: behave as signed out.
+    return null;
+  }
+}

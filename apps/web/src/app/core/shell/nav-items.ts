@@ -1,0 +1,14 @@
+import type { Permission } from '@tierscope/domain';
+
+export interface NavItem {
+  readonly label: string;
+  readonly icon: string;
+  readonly link: string;
+  /** Shown only to users holding this permission on some farm. */
+  readonly permission: Permission;
+}
+
+export const NAV_ITEMS: readonly NavItem[] = [
+  { label: 'Farms', icon: 'agriculture', link: '/farms', permission: 'farm.read' },
+  { label: 'Users', icon: 'group', link: '/users', permission: 'users.manage' },
+];

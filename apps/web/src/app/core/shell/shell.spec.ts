@@ -1,0 +1,37 @@
+import { provideHttpClient } from '@angular/common/http';
+import { TestBed } from '@angular/core/testing';
+import { provideRouter } from '@angular/router';
+import { Shell } from './shell';
+
+function renderAs(role: 'admin' | 'manager' | 'crew' | 'integrator'): HTMLElement {
+  localStorage.setItem(
+    'tierscope.session',
+    JSON.stringify({
+      token: 't',
+      expiresAt: new Date(Date.now() + 60_000).toISOString(),
+      user: { id: 1, email: 'a@example.test', name: 'Avery' },
+      memberships: [{ farmId: 1, farmName: 'North Ridge', role }],
+    }),
+  );
+  TestBed.configureTestingModule({ imports: [Shell], providers: [provideRouter([]), provideHttpClient()] });
+  const fixture = TestBed.createComponent(Shell);
+  fixture.detectChanges();
+  return fixture.nativeElement as HTMLElement;
+}
+
+const navLabels = (element: HTMLElement) =>
+  Array.from(element.querySelectorAll('mat-nav-list a [matListItemTitle]')).map((a) => a.textContent?.trim());
+
+describe('Shell', () => {
+  it('offers the Users page to admins', () => {
+    expect(navLabels(renderAs('admin'))).toEqual(['Farms', 'Users']);
+  });
+
+  it('does not offer the Users page to the crew', () => {
+    expect(navLabels(renderAs('crew'))).toEqual(['Farms']);
+  });
+
+  it('shows who is signed in', () => {
+    expect(renderAs('manager').textContent).toContain('Avery');
+  });
+});

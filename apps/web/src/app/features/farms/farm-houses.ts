@@ -1,0 +1,35 @@
+import { httpResource } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCardModule } from '@angular/material/card';
+import { MatIconModule } from '@angular/material/icon';
+import { RouterLink } from '@angular/router';
+import { houseSchema } from '@tierscope/contracts';
+import { z } from 'zod';
+import { AuthStore } from '../../core/auth/auth-store';
+import { describeApiError } from '../../core/http/api-error';
+import { LoadState } from '../../shared/ui/load-state';
+
+/** The house cards of one farm. */
+@Component({
+  selector: 'ts-farm-houses',
+  imports: [MatCardModule, MatButtonModule, MatIconModule, RouterLink, LoadState],
+  templateUrl: './farm-houses.html',
+  styleUrl: './farm-houses.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class FarmHouses {
+  private readonly auth = inject(AuthStore);
+  readonly farmId = input.required<number>();
+
+  protected readonly houses = httpResource(() => `/api/v1/farms/${this.farmId()}/houses`, {
+    parse: z.array(houseSchema).parse,
+  });
+  protected readonly state = computed(() => {
+    if (this.houses.error()) return 'error';
+    if (this.houses.isLoading() && !this.houses.hasValue()) return 'loading';
+    return (this.houses.value()?.length ?? 0) === 0 ? 'empty' : 'ready';
+  });
+  protected readonly errorText = computed(() => describeApiError(this.houses.error()));
+  protected readonly canEdit = computed(() => this.auth.hasPermission('house.update', this.farmId()));
+}

@@ -1,0 +1,134 @@
+import { httpResource, HttpClient } from '@angular/common/http';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  effect,
+  inject,
+  input,
+  numberAttribute,
+  signal,
+} from '@angular/core';
+import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { MatAutocompleteModule } from '@angular/material/autocomplete';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSnackBar, MatSnackBarModule } from '@angular/material/snack-bar';
+import { RouterLink } from '@angular/router';
+import { houseCreateSchema, houseWithCountersSchema, type HouseUpdate } from '@tierscope/contracts';
+import { firstValueFrom } from 'rxjs';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
+import { LoadState } from '../../shared/ui/load-state';
+import { firstError, zodValidator } from '../../shared/ui/zod-validator';
+
+const fields = houseCreateSchema.shape;
+const ALL_ZONES: readonly string[] = Intl.supportedValuesOf('timeZone');
+
+/** A house's layout, clock and shortfall threshold. */
+@Component({
+  selector: 'ts-house-settings-page',
+  imports: [
+    ReactiveFormsModule,
+    RouterLink,
+    MatFormFieldModule,
+    MatInputModule,
+    MatButtonModule,
+    MatIconModule,
+    MatAutocompleteModule,
+    MatSnackBarModule,
+    LoadState,
+  ],
+  templateUrl: './house-settings-page.html',
+  styleUrl: './house-settings-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class HouseSettingsPage {
+  private readonly http = inject(HttpClient);
+  private readonly snackBar = inject(MatSnackBar);
+
+  /** Route parameter. */
+  readonly houseId = input.required({ transform: numberAttribute });
+
+  protected readonly house = httpResource(() => `/api/v1/houses/${this.houseId()}`, {
+    parse: houseWithCountersSchema.parse,
+  });
+  protected readonly state = computed(() => {
+    if (this.house.error()) return 'error';
+    return this.house.hasValue() ? 'ready' : 'loading';
+  });
+  protected readonly errorText = computed(() => describeApiError(this.house.error()));
+
+  protected readonly form = inject(NonNullableFormBuilder).group({
+    name: ['', [Validators.required, zodValidator(fields.name)]],
+    rows: [1, [Validators.required, zodValidator(fields.rows)]],
+    tiers: [1, [Validators.required, zodValidator(fields.tiers)]],
+    timezone: ['', [Validators.required, zodValidator(fields.timezone)]],
+    lightsOn: ['04:00', [Validators.required, zodValidator(fields.lightsOn)]],
+    photoperiodHours: [16, [Validators.required, zodValidator(fields.photoperiodHours)]],
+    shortfallThresholdPct: [10, [Validators.required, zodValidator(fields.shortfallThresholdPct)]],
+  });
+  protected readonly firstError = firstError;
+  protected readonly isSaving = signal(false);
+  protected readonly saveError = signal<string | null>(null);
+
+  private readonly zoneQuery = toSignal(this.form.controls.timezone.valueChanges, { initialValue: '' });
+  protected readonly zoneOptions = computed(() => {
+    const query = this.zoneQuery().toLowerCase();
+    return ALL_ZONES.filter((zone) => zone.toLowerCase().includes(query)).slice(0, 30);
+  });
+
+  constructor() {
+    // Fill the form whenever the house (re)loads.
+    effect(() => {
+      const house = this.house.value();
+      if (!house) return;
+      this.form.reset({
+        name: house.name,
+        rows: house.rows,
+        tiers: house.tiers,
+        timezone: house.timezone,
+        lightsOn: house.lightsOn,
+        photoperiodHours: house.photoperiodHours,
+        shortfallThresholdPct: house.shortfallThresholdPct,
+      });
+    });
+  }
+
+  protected async save(): Promise<void> {
+    const house = this.house.value();
+    if (!house) return;
+    if (this.form.invalid) {
+      this.form.markAllAsTouched();
+      return;
+    }
+    const value = this.form.getRawValue();
+    const changes: HouseUpdate = Object.fromEntries(
+      Object.entries(value).filter(([key, v]) => house[key as keyof typeof value] !== v),
+    );
+    if (Object.keys(changes).length === 0) {
+      this.snackBar.open('Nothing to save: no setting was changed', undefined, { duration: 3000 });
+      return;
+    }
+    this.isSaving.set(true);
+    this.saveError.set(null);
+    try {
+      const saved = houseWithCountersSchema.parse(
+        await firstValueFrom(this.http.patch(`/api/v1/houses/${house.id}`, changes)),
+      );
+      this.house.set(saved);
+      this.snackBar.open(`${saved.name} saved`, undefined, { duration: 3000 });
+    } catch (error) {
+      this.saveError.set(describeApiError(error));
+      for (const [path, message] of Object.entries(fieldErrorsOf(error))) {
+        const control = this.form.get(path);
+        control?.setErrors({ server: message });
+        control?.markAsTouched();
+      }
+    } finally {
+      this.isSaving.set(false);
+    }
+  }
+}

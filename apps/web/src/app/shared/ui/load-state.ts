@@ -1,0 +1,47 @@
+import { ChangeDetectionStrategy, Component, input, output } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
+import { MatProgressSpinnerModule } from '@angular/material/progress-spinner';
+
+/** The loading, error and empty states every list shares, so each says what is happening the same way. */
+@Component({
+  selector: 'ts-load-state',
+  imports: [MatProgressSpinnerModule, MatIconModule, MatButtonModule],
+  template: `
+    @switch (state()) {
+      @case ('loading') {
+        <div class="ts-state" role="status">
+          <mat-spinner diameter="24" />
+          <span>{{ loadingText() }}</span>
+        </div>
+      }
+      @case ('error') {
+        <div class="ts-state error" role="alert">
+          <mat-icon>cloud_off</mat-icon>
+          <span>{{ errorText() }}</span>
+          <button mat-button type="button" (click)="retry.emit()">Try again</button>
+        </div>
+      }
+      @case ('empty') {
+        <div class="ts-state" role="status">
+          <mat-icon>inbox</mat-icon>
+          <span>{{ emptyText() }}</span>
+        </div>
+      }
+    }
+  `,
+  styles: `
+    .error {
+      background: var(--mat-sys-error-container);
+      color: var(--mat-sys-on-error-container);
+    }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class LoadState {
+  readonly state = input.required<'loading' | 'error' | 'empty' | 'ready'>();
+  readonly loadingText = input('Loading…');
+  readonly errorText = input('This could not be loaded.');
+  readonly emptyText = input('Nothing here yet.');
+  readonly retry = output();
+}

@@ -1,0 +1,130 @@
+/**
+ * `npm start`: the whole product with its demo on this machine.
+ * PostgreSQL (private cluster in .data/, loopback only) → migrations → demo seed (empty database only) →
+ * web build → API serving it. Prints the URL and the demo sign-ins; Ctrl-C stops everything it started.
+ * `npm start -- --reset` starts over with a fresh demo database.
+ */
+import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { randomBytes } from 'node:crypto';
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { openDatabase, runMigrations } from '@tierscope/db';
+import { DEMO_PASSWORD, DEMO_USERS, isEmpty, seedDemo } from '@tierscope/db/seed';
+import { recreateDatabase, startCluster } from './postgres';
+
+const ROOT = new URL('..', import.meta.url).pathname;
+const DATA = join(ROOT, '.data');
+const PG_PORT = Number(process.env['TIERSCOPE_PG_PORT'] ?? 54320);
+const PORT = Number(process.env['PORT'] ?? 8080);
+const DATABASE = 'tierscope';
+const isReset = process.argv.includes('--reset');
+
+const children: ChildProcess[] = [];
+let stopDatabase: (() => void) | null = null;
+let isStopping = false;
+
+function log(line: string): void {
+  console.log(`[start] ${line}`);
+}
+
+/** A secret made on first start and kept in .data/, so tokens survive restarts but never enter the repo. */
+function jwtSecret(): string {
+  const fromEnv = process.env['JWT_SECRET'];
+  if (fromEnv) return fromEnv;
+  const file = join(DATA, 'jwt-secret');
+  if (!existsSync(file)) writeFileSync(file, randomBytes(48).toString('hex'), { mode: 0o600 });
+  return readFileSync(file, 'utf8').trim();
+}
+
+function stopAll(code: number): void {
+  if (isStopping) return;
+  isStopping = true;
+  log('stopping…');
+  for (const child of children) child.kill('SIGTERM');
+  try {
+    stopDatabase?.();
+    log('database stopped');
+  } catch (error) {
+    console.error(error);
+  }
+  process.exit(code);
+}
+
+async function waitForHealth(url: string, timeoutMs: number): Promise<void> {
+  const deadline = Date.now() + timeoutMs;
+  while (Date.now() < deadline) {
+    try {
+      const response = await fetch(url);
+      if (response.ok) return;
+    } catch {
+      // Not listening yet: try again shortly.
+    }
+    await new Promise((resolve) => setTimeout(resolve, 250));
+  }
+  throw new Error(`the API did not answer ${url} within ${timeoutMs / 1000} s`);
+}
+
+async function main(): Promise<void> {
+  process.on('SIGINT', () => stopAll(0));
+  process.on('SIGTERM', () => stopAll(0));
+  mkdirSync(DATA, { recursive: true });
+
+  log(`PostgreSQL on 127.0.0.1:${PG_PORT} (data in .data/pg)`);
+  const cluster = startCluster({ dir: join(DATA, 'pg'), port: PG_PORT, databases: [DATABASE] });
+  stopDatabase = cluster.stop;
+  if (isReset) {
+    log('--reset: recreating the database');
+    recreateDatabase(PG_PORT, DATABASE);
+  }
+  const databaseUrl = process.env['DATABASE_URL'] ?? cluster.url(DATABASE);
+
+  const database = openDatabase(databaseUrl, { max: 2 });
+  await runMigrations(database.db);
+  log('migrations applied');
+  if (await isEmpty(database.db)) {
+    await seedDemo(database.db);
+    log('demo farms, houses and sign-ins seeded');
+  } else {
+    log('database already has data: demo seed skipped (npm start -- --reset to start over)');
+  }
+  await database.close();
+
+  if (!process.argv.includes('--skip-build')) {
+    log('building the web app…');
+    const build = spawnSync('npx', ['ng', 'build', 'web'], { cwd: ROOT, stdio: ['ignore', 'inherit', 'inherit'] });
+    if (build.status !== 0) throw new Error('the web build failed');
+  }
+
+  const env = {
+    ...process.env,
+    DATABASE_URL: databaseUrl,
+    PORT: String(PORT),
+    HOST: process.env['HOST'] ?? '127.0.0.1',
+    JWT_SECRET: jwtSecret(),
+    WEB_DIST: join(ROOT, 'dist/web/browser'),
+  };
+  const api = spawn('npx', ['tsx', 'apps/api/src/server.ts'], { cwd: ROOT, env, stdio: 'inherit' });
+  children.push(api);
+  api.on('exit', (code) => {
+    if (!isStopping) {
+      console.error(`[start] the API exited (${code}); stopping`);
+      stopAll(1);
+    }
+  });
+  const url = `http://127.0.0.1:${PORT}`;
+  await waitForHealth(`${url}/api/health`, 60_000);
+
+  console.log('');
+  console.log(`  Tierscope is running at ${url}`);
+  console.log('');
+  console.log(`  Demo sign-ins (password for all: ${DEMO_PASSWORD}):`);
+  for (const user of DEMO_USERS) console.log(`    ${user.role.padEnd(11)} ${user.email}`);
+  console.log('');
+  console.log('  Ctrl-C stops the app and its database.');
+  console.log('');
+}
+
+void main().catch((error: unknown) => {
+  console.error(`[start] ${error instanceof Error ? error.message : String(error)}`);
+  stopAll(1);
+});
