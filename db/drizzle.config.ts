@@ -4,5 +4,7 @@ export default defineConfig({
   dialect: 'postgresql',
   schema: './db/schema/index.ts',
   out: './db/migrations',
-  dbCredentials: { url: process.env['DATABASE_URL'] ?? 'postgres://postgres@127.0.0.1:54320/tierscope' },
+  dbCredentials: {
+    url: process.env['DATABASE_URL'] ?? 'postgres://postgres@127.0.0.1:54320/tierscope',
+  },
 });

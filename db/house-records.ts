@@ -1,4 +1,8 @@
-import { defaultBeltCounterId, defaultCollectorCounterId, sectionPositions } from '@tierscope/domain';
+import {
+  defaultBeltCounterId,
+  defaultCollectorCounterId,
+  sectionPositions,
+} from '@tierscope/domain';
 import { eq } from 'drizzle-orm';
 import type { Database } from './client';
 import { counters, houses, sections } from './schema/index';

@@ -6,10 +6,14 @@ import pg from 'pg';
  * A fresh, migrated database of its own for one test file, on the throwaway cluster that `npm test`
  * starts (TEST_PG_URL points at its server). Never a shared seeded database.
  */
-export async function createTestDatabase(): Promise<DatabaseHandle & { url: string; drop(): Promise<void> }> {
+export async function createTestDatabase(): Promise<
+  DatabaseHandle & { url: string; drop(): Promise<void> }
+> {
   const server = process.env['TEST_PG_URL'];
   if (!server) {
-    throw new Error('TEST_PG_URL is not set: run the suites through `npm test`, which starts PostgreSQL');
+    throw new Error(
+      'TEST_PG_URL is not set: run the suites through `npm test`, which starts PostgreSQL',
+    );
   }
   const name = `t_${randomBytes(6).toString('hex')}`;
   await adminQuery(server, `create database ${name}`);

@@ -40,7 +40,10 @@ export function ensurePostgres(log: (line: string) => void = console.log): strin
   run('apt-get', ['update', '-qq']);
   run('apt-get', ['install', '-y', '-qq', 'postgresql'], { DEBIAN_FRONTEND: 'noninteractive' });
   bin = serverBinDir();
-  if (!bin) throw new Error('apt-get installed postgresql but no pg_ctl was found under /usr/lib/postgresql');
+  if (!bin)
+    throw new Error(
+      'apt-get installed postgresql but no pg_ctl was found under /usr/lib/postgresql',
+    );
   return bin;
 }
 
@@ -77,7 +80,16 @@ export function startCluster(options: { dir: string; port: number; databases: st
   giveToOwner(socketDir);
   if (!existsSync(join(dataDir, 'PG_VERSION'))) {
     giveToOwner(dataDir);
-    asOwner(bin, 'initdb', ['-D', dataDir, '-U', 'postgres', '--auth=trust', '-E', 'UTF8', '--locale=C.UTF-8']);
+    asOwner(bin, 'initdb', [
+      '-D',
+      dataDir,
+      '-U',
+      'postgres',
+      '--auth=trust',
+      '-E',
+      'UTF8',
+      '--locale=C.UTF-8',
+    ]);
   }
   const logFile = join(options.dir, 'postgres.log');
   writeFileSync(logFile, '', { flag: 'a' });
@@ -116,7 +128,15 @@ export function startCluster(options: { dir: string; port: number; databases: st
       'postgres',
     ]).trim();
     if (exists !== '1') {
-      run(join(bin, 'createdb'), ['-h', '127.0.0.1', '-p', String(options.port), '-U', 'postgres', database]);
+      run(join(bin, 'createdb'), [
+        '-h',
+        '127.0.0.1',
+        '-p',
+        String(options.port),
+        '-U',
+        'postgres',
+        database,
+      ]);
     }
   }
   return {

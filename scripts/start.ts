@@ -65,13 +65,19 @@ async function waitForHealth(url: string, timeoutMs: number): Promise<void> {
 }
 
 async function main(): Promise<void> {
-  process.on('SIGINT', () => stopAll(0));
-  process.on('SIGTERM', () => stopAll(0));
+  process.on('SIGINT', () => {
+    stopAll(0);
+  });
+  process.on('SIGTERM', () => {
+    stopAll(0);
+  });
   mkdirSync(DATA, { recursive: true });
 
   log(`PostgreSQL on 127.0.0.1:${PG_PORT} (data in .data/pg)`);
   const cluster = startCluster({ dir: join(DATA, 'pg'), port: PG_PORT, databases: [DATABASE] });
-  stopDatabase = cluster.stop;
+  stopDatabase = () => {
+    cluster.stop();
+  };
   if (isReset) {
     log('--reset: recreating the database');
     recreateDatabase(PG_PORT, DATABASE);
@@ -91,7 +97,10 @@ async function main(): Promise<void> {
 
   if (!process.argv.includes('--skip-build')) {
     log('building the web app…');
-    const build = spawnSync('npx', ['ng', 'build', 'web'], { cwd: ROOT, stdio: ['ignore', 'inherit', 'inherit'] });
+    const build = spawnSync('npx', ['ng', 'build', 'web'], {
+      cwd: ROOT,
+      stdio: ['ignore', 'inherit', 'inherit'],
+    });
     if (build.status !== 0) throw new Error('the web build failed');
   }
 

@@ -20,10 +20,17 @@ interface StageResult {
 }
 
 const ROOT = new URL('..', import.meta.url).pathname;
-const only = process.argv.find((a) => a.startsWith('--only='))?.slice('--only='.length).split(',');
+const only = process.argv
+  .find((a) => a.startsWith('--only='))
+  ?.slice('--only='.length)
+  .split(',');
 const wants = (stage: string) => !only || only.includes(stage);
 
-function run(cmd: string, args: string[], env: NodeJS.ProcessEnv): Promise<{ code: number; output: string }> {
+function run(
+  cmd: string,
+  args: string[],
+  env: NodeJS.ProcessEnv,
+): Promise<{ code: number; output: string }> {
   return new Promise((resolve) => {
     const child = spawn(cmd, args, { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'pipe'] });
     let output = '';
@@ -31,32 +38,55 @@ function run(cmd: string, args: string[], env: NodeJS.ProcessEnv): Promise<{ cod
       output += chunk.toString();
       stream.write(chunk);
     };
-    child.stdout.on('data', (c: Buffer) => forward(c, process.stdout));
-    child.stderr.on('data', (c: Buffer) => forward(c, process.stderr));
-    child.on('close', (code) => resolve({ code: code ?? 1, output }));
+    child.stdout.on('data', (c: Buffer) => {
+      forward(c, process.stdout);
+    });
+    child.stderr.on('data', (c: Buffer) => {
+      forward(c, process.stderr);
+    });
+    child.on('close', (code) => {
+      resolve({ code: code ?? 1, output });
+    });
   });
 }
 
 /** Counts from vitest's JSON report, which is the reliable source (its console summary is for people). */
 function countsFromJson(file: string): { passed: number; failed: number } | null {
   if (!existsSync(file)) return null;
-  const report = JSON.parse(readFileSync(file, 'utf8')) as { numPassedTests: number; numFailedTests: number };
+  const report = JSON.parse(readFileSync(file, 'utf8')) as {
+    numPassedTests: number;
+    numFailedTests: number;
+  };
   return { passed: report.numPassedTests, failed: report.numFailedTests };
 }
 
 /** `ng test` prints vitest's summary; read "Tests  N passed | M failed (T)" from it. */
 function countsFromSummary(output: string): { passed: number; failed: number } | null {
   const plain = output.replace(/\u001b\[[0-9;]*m/g, '');
-  const line = plain.split('\n').reverse().find((l) => /^\s*Tests\s+/.test(l));
+  const line = plain
+    .split('\n')
+    .reverse()
+    .find((l) => /^\s*Tests\s+/.test(l));
   if (!line) return null;
   const passed = Number(/(\d+) passed/.exec(line)?.[1] ?? 0);
   const failed = Number(/(\d+) failed/.exec(line)?.[1] ?? 0);
   return { passed, failed };
 }
 
-async function vitestStage(name: string, projects: string[], env: NodeJS.ProcessEnv): Promise<StageResult> {
+async function vitestStage(
+  name: string,
+  projects: string[],
+  env: NodeJS.ProcessEnv,
+): Promise<StageResult> {
   const reportFile = join(env['TEST_TMP'] ?? tmpdir(), `${name}-report.json`);
-  const args = ['vitest', 'run', ...projects.flatMap((p) => ['--project', p]), '--reporter=default', '--reporter=json', `--outputFile.json=${reportFile}`];
+  const args = [
+    'vitest',
+    'run',
+    ...projects.flatMap((p) => ['--project', p]),
+    '--reporter=default',
+    '--reporter=json',
+    `--outputFile.json=${reportFile}`,
+  ];
   const { code } = await run('npx', args, env);
   const counts = countsFromJson(reportFile) ?? { passed: 0, failed: 1 };
   return { name, ...counts, exitCode: code };
@@ -102,10 +132,15 @@ async function main(): Promise<void> {
     rmSync(tmp, { recursive: true, force: true });
   }
   const passed = results.reduce((n, r) => n + r.passed, 0);
-  const failed = results.reduce((n, r) => n + r.failed + (r.exitCode !== 0 && r.failed === 0 ? 1 : 0), 0);
+  const failed = results.reduce(
+    (n, r) => n + r.failed + (r.exitCode !== 0 && r.failed === 0 ? 1 : 0),
+    0,
+  );
   console.log('');
   for (const r of results) {
-    console.log(`[test] ${r.name}: ${r.passed} passed, ${r.failed} failed${r.exitCode !== 0 ? ` (exit ${r.exitCode})` : ''}`);
+    console.log(
+      `[test] ${r.name}: ${r.passed} passed, ${r.failed} failed${r.exitCode !== 0 ? ` (exit ${r.exitCode})` : ''}`,
+    );
   }
   console.log(`[test] took ${Math.round((Date.now() - started) / 1000)} s`);
   console.log(`${passed} passed, ${failed} failed`);

@@ -40,6 +40,9 @@ export const counters = pgTable(
     // A house's counter list.
     index('counters_house_idx').on(t.houseId),
     // A collector counts the whole house, never one section.
-    check('counters_collector_has_no_section', sql`${t.kind} <> 'collector' OR ${t.sectionId} IS NULL`),
+    check(
+      'counters_collector_has_no_section',
+      sql`${t.kind} <> 'collector' OR ${t.sectionId} IS NULL`,
+    ),
   ],
 );

@@ -1,4 +1,13 @@
-import { index, integer, pgTable, real, serial, text, timestamp, unique } from 'drizzle-orm/pg-core';
+import {
+  index,
+  integer,
+  pgTable,
+  real,
+  serial,
+  text,
+  timestamp,
+  unique,
+} from 'drizzle-orm/pg-core';
 import { farms } from './farms';
 
 export const houses = pgTable(

@@ -13,7 +13,13 @@ describe('migrations and the demo seed', () => {
       expect(farms.map((f) => f.name).sort()).toEqual(['North Ridge', 'Willow Creek']);
       const houses = await database.db.query.houses.findMany();
       expect(houses).toHaveLength(5);
-      for (const house of houses) expect([house.rows, house.tiers, house.lightsOn, house.photoperiodHours]).toEqual([6, 3, '04:00', 16]);
+      for (const house of houses)
+        expect([house.rows, house.tiers, house.lightsOn, house.photoperiodHours]).toEqual([
+          6,
+          3,
+          '04:00',
+          16,
+        ]);
       const counters = await database.db.query.counters.findMany();
       expect(counters).toHaveLength(5 * 19);
       const flocks = await database.db.query.flocks.findMany();

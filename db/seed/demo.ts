@@ -8,15 +8,43 @@ import { farms, flocks, memberships, users } from '../schema/index';
 export const DEMO_PASSWORD = 'tierscope-demo';
 
 export const DEMO_USERS = [
-  { email: 'admin@bramblewood.test', name: 'Avery Admin', role: 'admin', farms: ['North Ridge', 'Willow Creek'] },
-  { email: 'manager@bramblewood.test', name: 'Morgan Manager', role: 'manager', farms: ['North Ridge', 'Willow Creek'] },
+  {
+    email: 'admin@bramblewood.test',
+    name: 'Avery Admin',
+    role: 'admin',
+    farms: ['North Ridge', 'Willow Creek'],
+  },
+  {
+    email: 'manager@bramblewood.test',
+    name: 'Morgan Manager',
+    role: 'manager',
+    farms: ['North Ridge', 'Willow Creek'],
+  },
   { email: 'crew@bramblewood.test', name: 'Casey Crew', role: 'crew', farms: ['North Ridge'] },
-  { email: 'integrator@bramblewood.test', name: 'Indra Integrator', role: 'integrator', farms: ['North Ridge', 'Willow Creek'] },
+  {
+    email: 'integrator@bramblewood.test',
+    name: 'Indra Integrator',
+    role: 'integrator',
+    farms: ['North Ridge', 'Willow Creek'],
+  },
 ] as const;
 
 const DEMO_FARMS = [
-  { name: 'North Ridge', houses: [{ name: 'House 1', hens: 36000 }, { name: 'House 2', hens: 42000 }, { name: 'House 3', hens: 30000 }] },
-  { name: 'Willow Creek', houses: [{ name: 'House A', hens: 38000 }, { name: 'House B', hens: 33000 }] },
+  {
+    name: 'North Ridge',
+    houses: [
+      { name: 'House 1', hens: 36000 },
+      { name: 'House 2', hens: 42000 },
+      { name: 'House 3', hens: 30000 },
+    ],
+  },
+  {
+    name: 'Willow Creek',
+    houses: [
+      { name: 'House A', hens: 38000 },
+      { name: 'House B', hens: 33000 },
+    ],
+  },
 ] as const;
 
 export const DEMO_TIMEZONE = 'America/Chicago';
@@ -28,7 +56,10 @@ export async function isEmpty(db: Database): Promise<boolean> {
 }
 
 /** Seeds the demo farms, houses, flocks and sign-ins. `today` fixes flock dates (ISO date). */
-export async function seedDemo(db: Database, today: string = new Date().toISOString().slice(0, 10)) {
+export async function seedDemo(
+  db: Database,
+  today: string = new Date().toISOString().slice(0, 10),
+) {
   const passwordHashes = await Promise.all(DEMO_USERS.map(() => hash(DEMO_PASSWORD)));
   await db.transaction(async (tx) => {
     const farmIds = new Map<string, number>();

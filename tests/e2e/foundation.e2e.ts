@@ -18,7 +18,13 @@ describe('signing in', () => {
     await page.getByRole('heading', { name: 'Willow Creek' }).waitFor();
     await page.locator('[data-house-id]').nth(4).waitFor();
     const houses = await page.locator('[data-house-id] mat-card-title').allTextContents();
-    expect(houses.map((h) => h.trim()).sort()).toEqual(['House 1', 'House 2', 'House 3', 'House A', 'House B']);
+    expect(houses.map((h) => h.trim()).sort()).toEqual([
+      'House 1',
+      'House 2',
+      'House 3',
+      'House A',
+      'House B',
+    ]);
     // Managers may change house settings, so each card offers them.
     expect(await page.getByRole('link', { name: 'Settings' }).count()).toBe(5);
     // Managers do not manage users.

@@ -21,7 +21,10 @@ async function freePort(): Promise<number> {
     const server = createServer();
     server.listen(0, '127.0.0.1', () => {
       const address = server.address();
-      server.close(() => (typeof address === 'object' && address ? resolve(address.port) : reject(new Error('no port'))));
+      server.close(() => {
+        if (typeof address === 'object' && address) resolve(address.port);
+        else reject(new Error('no port'));
+      });
     });
   });
 }
@@ -29,7 +32,9 @@ async function freePort(): Promise<number> {
 export async function startHarness(): Promise<Harness> {
   const webDist = join(ROOT, 'dist/web/browser');
   if (!existsSync(join(webDist, 'index.html'))) {
-    throw new Error('dist/web/browser is missing: `npm test` builds the web app before the browser suites');
+    throw new Error(
+      'dist/web/browser is missing: `npm test` builds the web app before the browser suites',
+    );
   }
   mkdirSync(ARTIFACTS, { recursive: true });
   const database = await createTestDatabase();
@@ -86,7 +91,12 @@ export async function startHarness(): Promise<Harness> {
   };
 }
 
-export async function signIn(page: Page, baseUrl: string, email: string, password = 'tierscope-demo'): Promise<void> {
+export async function signIn(
+  page: Page,
+  baseUrl: string,
+  email: string,
+  password = 'tierscope-demo',
+): Promise<void> {
   await page.goto(`${baseUrl}/sign-in`);
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password', { exact: true }).fill(password);

@@ -29,30 +29,129 @@ afterAll(async () => {
 
 type Call = (bearer: string) => request.Test;
 
-const layout = { rows: 2, tiers: 2, timezone: 'Europe/Amsterdam', lightsOn: '03:30', photoperiodHours: 16 };
+const layout = {
+  rows: 2,
+  tiers: 2,
+  timezone: 'Europe/Amsterdam',
+  lightsOn: '03:30',
+  photoperiodHours: 16,
+};
 
 /** A house nobody depends on, so a delete that is allowed has something to delete. */
 async function spareHouse(farmId: number): Promise<number> {
   counter += 1;
-  const house = await insertHouseWithLayout(database.db, farmId, { name: `spare ${counter}`, ...layout, shortfallThresholdPct: 10 });
+  const house = await insertHouseWithLayout(database.db, farmId, {
+    name: `spare ${counter}`,
+    ...layout,
+    shortfallThresholdPct: 10,
+  });
   return house.id;
 }
 
-const ownFarmRoutes: { name: string; call: () => Promise<Call>; allowed: Record<Role, number> }[] = [
-  { name: 'GET /farms', call: async () => (b) => request(app).get('/api/v1/farms').set('Authorization', b), allowed: { admin: 200, manager: 200, crew: 200, integrator: 200 } },
-  { name: 'POST /farms', call: async () => (b) => request(app).post('/api/v1/farms').set('Authorization', b).send({ name: `New ${++counter}` }), allowed: { admin: 201, manager: 403, crew: 403, integrator: 403 } },
-  { name: 'GET /farms/:id', call: async () => (b) => request(app).get(`/api/v1/farms/${fixture.farmA}`).set('Authorization', b), allowed: { admin: 200, manager: 200, crew: 200, integrator: 200 } },
-  { name: 'PATCH /farms/:id', call: async () => (b) => request(app).patch(`/api/v1/farms/${fixture.farmA}`).set('Authorization', b).send({ name: 'Farm A' }), allowed: { admin: 200, manager: 403, crew: 403, integrator: 403 } },
-  { name: 'GET /farms/:id/houses', call: async () => (b) => request(app).get(`/api/v1/farms/${fixture.farmA}/houses`).set('Authorization', b), allowed: { admin: 200, manager: 200, crew: 200, integrator: 200 } },
-  { name: 'POST /farms/:id/houses', call: async () => (b) => request(app).post(`/api/v1/farms/${fixture.farmA}/houses`).set('Authorization', b).send({ name: `House ${++counter}`, ...layout }), allowed: { admin: 201, manager: 403, crew: 403, integrator: 403 } },
-  { name: 'GET /houses/:id', call: async () => (b) => request(app).get(`/api/v1/houses/${fixture.houseA}`).set('Authorization', b), allowed: { admin: 200, manager: 200, crew: 200, integrator: 200 } },
-  { name: 'GET /houses/:id/counters', call: async () => (b) => request(app).get(`/api/v1/houses/${fixture.houseA}/counters`).set('Authorization', b), allowed: { admin: 200, manager: 200, crew: 200, integrator: 200 } },
-  { name: 'PATCH /houses/:id', call: async () => (b) => request(app).patch(`/api/v1/houses/${fixture.houseA}`).set('Authorization', b).send({ shortfallThresholdPct: 12 }), allowed: { admin: 200, manager: 200, crew: 403, integrator: 403 } },
-  { name: 'DELETE /houses/:id', call: async () => { const id = await spareHouse(fixture.farmA); return (b) => request(app).delete(`/api/v1/houses/${id}`).set('Authorization', b); }, allowed: { admin: 204, manager: 403, crew: 403, integrator: 403 } },
-  { name: 'GET /users', call: async () => (b) => request(app).get('/api/v1/users').set('Authorization', b), allowed: { admin: 200, manager: 403, crew: 403, integrator: 403 } },
-  { name: 'POST /users', call: async () => (b) => request(app).post('/api/v1/users').set('Authorization', b).send({ email: `u${++counter}@farm-a.test`, name: 'New user', password: 'long enough password', memberships: [{ farmId: fixture.farmA, role: 'crew' }] }), allowed: { admin: 201, manager: 403, crew: 403, integrator: 403 } },
-  { name: 'PATCH /users/:id', call: async () => (b) => request(app).patch(`/api/v1/users/${fixture.usersA.crew.id}`).set('Authorization', b).send({ name: 'crew of A' }), allowed: { admin: 200, manager: 403, crew: 403, integrator: 403 } },
-];
+const ownFarmRoutes: { name: string; call: () => Promise<Call>; allowed: Record<Role, number> }[] =
+  [
+    {
+      name: 'GET /farms',
+      call: async () => (b) => request(app).get('/api/v1/farms').set('Authorization', b),
+      allowed: { admin: 200, manager: 200, crew: 200, integrator: 200 },
+    },
+    {
+      name: 'POST /farms',
+      call: async () => (b) =>
+        request(app)
+          .post('/api/v1/farms')
+          .set('Authorization', b)
+          .send({ name: `New ${++counter}` }),
+      allowed: { admin: 201, manager: 403, crew: 403, integrator: 403 },
+    },
+    {
+      name: 'GET /farms/:id',
+      call: async () => (b) =>
+        request(app).get(`/api/v1/farms/${fixture.farmA}`).set('Authorization', b),
+      allowed: { admin: 200, manager: 200, crew: 200, integrator: 200 },
+    },
+    {
+      name: 'PATCH /farms/:id',
+      call: async () => (b) =>
+        request(app)
+          .patch(`/api/v1/farms/${fixture.farmA}`)
+          .set('Authorization', b)
+          .send({ name: 'Farm A' }),
+      allowed: { admin: 200, manager: 403, crew: 403, integrator: 403 },
+    },
+    {
+      name: 'GET /farms/:id/houses',
+      call: async () => (b) =>
+        request(app).get(`/api/v1/farms/${fixture.farmA}/houses`).set('Authorization', b),
+      allowed: { admin: 200, manager: 200, crew: 200, integrator: 200 },
+    },
+    {
+      name: 'POST /farms/:id/houses',
+      call: async () => (b) =>
+        request(app)
+          .post(`/api/v1/farms/${fixture.farmA}/houses`)
+          .set('Authorization', b)
+          .send({ name: `House ${++counter}`, ...layout }),
+      allowed: { admin: 201, manager: 403, crew: 403, integrator: 403 },
+    },
+    {
+      name: 'GET /houses/:id',
+      call: async () => (b) =>
+        request(app).get(`/api/v1/houses/${fixture.houseA}`).set('Authorization', b),
+      allowed: { admin: 200, manager: 200, crew: 200, integrator: 200 },
+    },
+    {
+      name: 'GET /houses/:id/counters',
+      call: async () => (b) =>
+        request(app).get(`/api/v1/houses/${fixture.houseA}/counters`).set('Authorization', b),
+      allowed: { admin: 200, manager: 200, crew: 200, integrator: 200 },
+    },
+    {
+      name: 'PATCH /houses/:id',
+      call: async () => (b) =>
+        request(app)
+          .patch(`/api/v1/houses/${fixture.houseA}`)
+          .set('Authorization', b)
+          .send({ shortfallThresholdPct: 12 }),
+      allowed: { admin: 200, manager: 200, crew: 403, integrator: 403 },
+    },
+    {
+      name: 'DELETE /houses/:id',
+      call: async () => {
+        const id = await spareHouse(fixture.farmA);
+        return (b) => request(app).delete(`/api/v1/houses/${id}`).set('Authorization', b);
+      },
+      allowed: { admin: 204, manager: 403, crew: 403, integrator: 403 },
+    },
+    {
+      name: 'GET /users',
+      call: async () => (b) => request(app).get('/api/v1/users').set('Authorization', b),
+      allowed: { admin: 200, manager: 403, crew: 403, integrator: 403 },
+    },
+    {
+      name: 'POST /users',
+      call: async () => (b) =>
+        request(app)
+          .post('/api/v1/users')
+          .set('Authorization', b)
+          .send({
+            email: `u${++counter}@farm-a.test`,
+            name: 'New user',
+            password: 'long enough password',
+            memberships: [{ farmId: fixture.farmA, role: 'crew' }],
+          }),
+      allowed: { admin: 201, manager: 403, crew: 403, integrator: 403 },
+    },
+    {
+      name: 'PATCH /users/:id',
+      call: async () => (b) =>
+        request(app)
+          .patch(`/api/v1/users/${fixture.usersA.crew.id}`)
+          .set('Authorization', b)
+          .send({ name: 'crew of A' }),
+      allowed: { admin: 200, manager: 403, crew: 403, integrator: 403 },
+    },
+  ];
 
 describe('on their own farm', () => {
   for (const route of ownFarmRoutes) {
@@ -69,14 +168,57 @@ describe('on their own farm', () => {
 
 describe('on a farm they do not belong to', () => {
   const otherFarmRoutes: { name: string; call: () => Promise<Call> }[] = [
-    { name: 'GET /farms/:id', call: async () => (b) => request(app).get(`/api/v1/farms/${fixture.farmB}`).set('Authorization', b) },
-    { name: 'PATCH /farms/:id', call: async () => (b) => request(app).patch(`/api/v1/farms/${fixture.farmB}`).set('Authorization', b).send({ name: 'Mine now' }) },
-    { name: 'GET /farms/:id/houses', call: async () => (b) => request(app).get(`/api/v1/farms/${fixture.farmB}/houses`).set('Authorization', b) },
-    { name: 'POST /farms/:id/houses', call: async () => (b) => request(app).post(`/api/v1/farms/${fixture.farmB}/houses`).set('Authorization', b).send({ name: 'Intruder', ...layout }) },
-    { name: 'GET /houses/:id', call: async () => (b) => request(app).get(`/api/v1/houses/${fixture.houseB}`).set('Authorization', b) },
-    { name: 'GET /houses/:id/counters', call: async () => (b) => request(app).get(`/api/v1/houses/${fixture.houseB}/counters`).set('Authorization', b) },
-    { name: 'PATCH /houses/:id', call: async () => (b) => request(app).patch(`/api/v1/houses/${fixture.houseB}`).set('Authorization', b).send({ name: 'Taken' }) },
-    { name: 'DELETE /houses/:id', call: async () => { const id = await spareHouse(fixture.farmB); return (b) => request(app).delete(`/api/v1/houses/${id}`).set('Authorization', b); } },
+    {
+      name: 'GET /farms/:id',
+      call: async () => (b) =>
+        request(app).get(`/api/v1/farms/${fixture.farmB}`).set('Authorization', b),
+    },
+    {
+      name: 'PATCH /farms/:id',
+      call: async () => (b) =>
+        request(app)
+          .patch(`/api/v1/farms/${fixture.farmB}`)
+          .set('Authorization', b)
+          .send({ name: 'Mine now' }),
+    },
+    {
+      name: 'GET /farms/:id/houses',
+      call: async () => (b) =>
+        request(app).get(`/api/v1/farms/${fixture.farmB}/houses`).set('Authorization', b),
+    },
+    {
+      name: 'POST /farms/:id/houses',
+      call: async () => (b) =>
+        request(app)
+          .post(`/api/v1/farms/${fixture.farmB}/houses`)
+          .set('Authorization', b)
+          .send({ name: 'Intruder', ...layout }),
+    },
+    {
+      name: 'GET /houses/:id',
+      call: async () => (b) =>
+        request(app).get(`/api/v1/houses/${fixture.houseB}`).set('Authorization', b),
+    },
+    {
+      name: 'GET /houses/:id/counters',
+      call: async () => (b) =>
+        request(app).get(`/api/v1/houses/${fixture.houseB}/counters`).set('Authorization', b),
+    },
+    {
+      name: 'PATCH /houses/:id',
+      call: async () => (b) =>
+        request(app)
+          .patch(`/api/v1/houses/${fixture.houseB}`)
+          .set('Authorization', b)
+          .send({ name: 'Taken' }),
+    },
+    {
+      name: 'DELETE /houses/:id',
+      call: async () => {
+        const id = await spareHouse(fixture.farmB);
+        return (b) => request(app).delete(`/api/v1/houses/${id}`).set('Authorization', b);
+      },
+    },
   ];
   for (const route of otherFarmRoutes) {
     for (const role of ROLES) {
@@ -90,9 +232,13 @@ describe('on a farm they do not belong to', () => {
 
   it('leaves farm B untouched after all those attempts', async () => {
     const adminB = await bearerFor(app, fixture.adminB.email);
-    const farm = await request(app).get(`/api/v1/farms/${fixture.farmB}`).set('Authorization', adminB);
+    const farm = await request(app)
+      .get(`/api/v1/farms/${fixture.farmB}`)
+      .set('Authorization', adminB);
     expect(farm.body.name).toBe('Farm B');
-    const houses = await request(app).get(`/api/v1/farms/${fixture.farmB}/houses`).set('Authorization', adminB);
+    const houses = await request(app)
+      .get(`/api/v1/farms/${fixture.farmB}/houses`)
+      .set('Authorization', adminB);
     expect(houses.body.map((h: { name: string }) => h.name)).not.toContain('Intruder');
     expect(houses.body.map((h: { name: string }) => h.name)).toContain('B1');
   });
@@ -111,14 +257,25 @@ describe('on a farm they do not belong to', () => {
     const response = await request(app)
       .post('/api/v1/users')
       .set('Authorization', bearers.admin)
-      .send({ email: 'sneaky@farm-a.test', name: 'Sneaky', password: 'long enough password', memberships: [{ farmId: fixture.farmB, role: 'admin' }] });
+      .send({
+        email: 'sneaky@farm-a.test',
+        name: 'Sneaky',
+        password: 'long enough password',
+        memberships: [{ farmId: fixture.farmB, role: 'admin' }],
+      });
     expect(response.status).toBe(400);
     expect(response.body.error.fields[0].path).toBe('memberships');
   });
 });
 
 describe('without a token', () => {
-  const protectedRoutes = ['/api/v1/farms', `/api/v1/users`, '/api/v1/auth/me', '/api/v1/houses/1', '/api/v1/farms/1/houses'];
+  const protectedRoutes = [
+    '/api/v1/farms',
+    `/api/v1/users`,
+    '/api/v1/auth/me',
+    '/api/v1/houses/1',
+    '/api/v1/farms/1/houses',
+  ];
   for (const path of protectedRoutes) {
     it(`GET ${path} answers 401`, async () => {
       const response = await request(app).get(path);

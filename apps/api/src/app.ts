@@ -53,7 +53,10 @@ export function createApp({ db, config, log = defaultLog }: AppDeps): Express {
   const authenticate = createAuthenticator(tokens, (id) => loadActiveUser(db, id));
   const openApi = buildOpenApiDocument(API_VERSION);
 
-  app.use('/api', healthRoutes(() => pingDatabase(db), API_VERSION));
+  app.use(
+    '/api',
+    healthRoutes(() => pingDatabase(db), API_VERSION),
+  );
 
   const v1 = express.Router();
   v1.get('/openapi.json', (_req, res) => {
@@ -84,7 +87,9 @@ export function createApp({ db, config, log = defaultLog }: AppDeps): Express {
 function serveWebApp(app: Express, dist: string): void {
   const root = resolve(dist);
   if (!existsSync(join(root, 'index.html'))) {
-    throw new Error(`WEB_DIST ${root} has no index.html: build the web app first (npm run build:web)`);
+    throw new Error(
+      `WEB_DIST ${root} has no index.html: build the web app first (npm run build:web)`,
+    );
   }
   app.use(express.static(root, { index: false, maxAge: '1h' }));
   app.get('/{*path}', (_req, res) => {

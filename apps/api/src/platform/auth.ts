@@ -30,7 +30,10 @@ declare module 'express-serve-static-core' {
  * Bearer-token authentication through passport-jwt. The user is re-read on every request, so a
  * disabled user or a changed role takes effect at once, not when the token expires.
  */
-export function createAuthenticator(tokens: TokenService, loadUser: LoadActiveUser): RequestHandler {
+export function createAuthenticator(
+  tokens: TokenService,
+  loadUser: LoadActiveUser,
+): RequestHandler {
   const passport = new Passport();
   passport.use(
     new JwtStrategy(
@@ -48,8 +51,12 @@ export function createAuthenticator(tokens: TokenService, loadUser: LoadActiveUs
           return;
         }
         loadUser(userId).then(
-          (user) => done(null, user ?? false),
-          (error: unknown) => done(error),
+          (user) => {
+            done(null, user ?? false);
+          },
+          (error: unknown) => {
+            done(error);
+          },
         );
       },
     ),
@@ -57,18 +64,29 @@ export function createAuthenticator(tokens: TokenService, loadUser: LoadActiveUs
   const authenticate = passport.initialize();
   return (req, res, next) => {
     authenticate(req, res, () => {
-      passport.authenticate('jwt', { session: false }, (error: unknown, user: AuthUser | false) => {
-        if (error) {
-          next(error);
-          return;
-        }
-        if (!user) {
-          next(new AppError('unauthenticated', 'Sign in again: your session is missing or has expired'));
-          return;
-        }
-        req.ctx = { user };
-        next();
-      })(req, res, next);
+      // passport types the custom-callback form as `any`; it returns the middleware to call.
+      const middleware = passport.authenticate(
+        'jwt',
+        { session: false },
+        (error: unknown, user: AuthUser | false) => {
+          if (error) {
+            next(error);
+            return;
+          }
+          if (!user) {
+            next(
+              new AppError(
+                'unauthenticated',
+                'Sign in again: your session is missing or has expired',
+              ),
+            );
+            return;
+          }
+          req.ctx = { user };
+          next();
+        },
+      ) as RequestHandler;
+      void middleware(req, res, next);
     });
   };
 }

@@ -1,13 +1,21 @@
 import { z } from 'zod';
 
 const configSchema = z.object({
-  DATABASE_URL: z.string().url('DATABASE_URL must be a postgres:// URL'),
+  DATABASE_URL: z.url('DATABASE_URL must be a postgres:// URL'),
   PORT: z.coerce.number().int().min(0).max(65535).default(8080),
   HOST: z.string().default('127.0.0.1'),
   JWT_SECRET: z.string().min(32, 'JWT_SECRET must be at least 32 characters'),
-  TOKEN_TTL_SECONDS: z.coerce.number().int().positive().default(12 * 3600),
+  TOKEN_TTL_SECONDS: z.coerce
+    .number()
+    .int()
+    .positive()
+    .default(12 * 3600),
   LOGIN_MAX_FAILURES: z.coerce.number().int().positive().default(10),
-  LOGIN_WINDOW_SECONDS: z.coerce.number().int().positive().default(15 * 60),
+  LOGIN_WINDOW_SECONDS: z.coerce
+    .number()
+    .int()
+    .positive()
+    .default(15 * 60),
   WEB_DIST: z.string().optional(),
   PUBLIC_URL: z.string().optional(),
 });

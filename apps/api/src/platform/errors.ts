@@ -41,10 +41,15 @@ export class AppError extends Error {
 }
 
 export const notFound = (what: string) => new AppError('not_found', `${what} not found`);
-export const forbidden = (message = 'Your role does not allow this') => new AppError('forbidden', message);
+export const forbidden = (message = 'Your role does not allow this') =>
+  new AppError('forbidden', message);
 
 /** Validates input against a contract schema, turning zod issues into field-level 400s. */
-export function parseInput<S extends z.ZodType>(schema: S, value: unknown, where = 'body'): z.infer<S> {
+export function parseInput<S extends z.ZodType>(
+  schema: S,
+  value: unknown,
+  where = 'body',
+): z.infer<S> {
   const result = schema.safeParse(value);
   if (result.success) return result.data;
   throw new AppError(
@@ -68,7 +73,9 @@ export function errorBody(error: AppError): ApiError {
 }
 
 /** The one error middleware: typed errors keep their status, body-parser errors become 400/413, the rest 500. */
-export function errorMiddleware(log: (message: string, error: unknown) => void): ErrorRequestHandler {
+export function errorMiddleware(
+  log: (message: string, error: unknown) => void,
+): ErrorRequestHandler {
   return (error: unknown, _req, res, next) => {
     if (res.headersSent) {
       next(error);

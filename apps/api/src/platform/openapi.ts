@@ -41,22 +41,127 @@ export function buildOpenApiDocument(version: string) {
     404: error('Not found, or not on a farm of yours'),
   };
   const routes: RouteDoc[] = [
-    { method: 'get', path: '/api/health', summary: 'Database reachability', responses: { 200: ok(healthSchema), 503: ok(healthSchema, 'Database down') } },
-    { method: 'post', path: '/api/v1/auth/login', summary: 'Sign in', body: loginRequestSchema, responses: { 200: ok(loginResponseSchema), 400: errors[400], 401: error('Wrong e-mail or password'), 403: error('Account disabled'), 429: error('Too many failed sign-ins') } },
-    { method: 'get', path: '/api/v1/auth/me', summary: 'The signed-in user and their farm roles', responses: { 200: ok(sessionSchema), 401: errors[401] } },
-    { method: 'get', path: '/api/v1/farms', summary: 'Farms you belong to', responses: { 200: ok(z.array(farmSchema)), 401: errors[401] } },
-    { method: 'post', path: '/api/v1/farms', summary: 'Add a farm (administrators)', body: farmCreateSchema, responses: { 201: ok(farmSchema, 'Created'), ...errors } },
-    { method: 'get', path: '/api/v1/farms/{farmId}', summary: 'One farm', responses: { 200: ok(farmSchema), ...errors } },
-    { method: 'patch', path: '/api/v1/farms/{farmId}', summary: 'Rename a farm', body: farmUpdateSchema, responses: { 200: ok(farmSchema), ...errors } },
-    { method: 'get', path: '/api/v1/farms/{farmId}/houses', summary: 'Houses of a farm', responses: { 200: ok(z.array(houseSchema)), ...errors } },
-    { method: 'post', path: '/api/v1/farms/{farmId}/houses', summary: 'Add a house with its sections and counters', body: houseCreateSchema, responses: { 201: ok(houseWithCountersSchema, 'Created'), ...errors, 409: error('Name already used') } },
-    { method: 'get', path: '/api/v1/houses/{houseId}', summary: 'One house with its counters', responses: { 200: ok(houseWithCountersSchema), ...errors } },
-    { method: 'get', path: '/api/v1/houses/{houseId}/counters', summary: "A house's counters", responses: { 200: ok(z.array(counterSchema)), ...errors } },
-    { method: 'patch', path: '/api/v1/houses/{houseId}', summary: 'Change house settings', body: houseUpdateSchema, responses: { 200: ok(houseWithCountersSchema), ...errors, 409: error('Layout locked by readings, or name used') } },
-    { method: 'delete', path: '/api/v1/houses/{houseId}', summary: 'Delete a house that has no readings', responses: { 204: { description: 'Deleted' }, ...errors, 409: error('The house has readings') } },
-    { method: 'get', path: '/api/v1/users', summary: 'Users of the farms you administer', responses: { 200: ok(z.array(userSchema)), 401: errors[401], 403: errors[403] } },
-    { method: 'post', path: '/api/v1/users', summary: 'Create a user with farm roles', body: userCreateSchema, responses: { 201: ok(userSchema, 'Created'), ...errors, 409: error('E-mail in use') } },
-    { method: 'patch', path: '/api/v1/users/{userId}', summary: "Rename, disable or change a user's roles", body: userUpdateSchema, responses: { 200: ok(userSchema), ...errors } },
+    {
+      method: 'get',
+      path: '/api/health',
+      summary: 'Database reachability',
+      responses: { 200: ok(healthSchema), 503: ok(healthSchema, 'Database down') },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/auth/login',
+      summary: 'Sign in',
+      body: loginRequestSchema,
+      responses: {
+        200: ok(loginResponseSchema),
+        400: errors[400],
+        401: error('Wrong e-mail or password'),
+        403: error('Account disabled'),
+        429: error('Too many failed sign-ins'),
+      },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/auth/me',
+      summary: 'The signed-in user and their farm roles',
+      responses: { 200: ok(sessionSchema), 401: errors[401] },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/farms',
+      summary: 'Farms you belong to',
+      responses: { 200: ok(z.array(farmSchema)), 401: errors[401] },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/farms',
+      summary: 'Add a farm (administrators)',
+      body: farmCreateSchema,
+      responses: { 201: ok(farmSchema, 'Created'), ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/farms/{farmId}',
+      summary: 'One farm',
+      responses: { 200: ok(farmSchema), ...errors },
+    },
+    {
+      method: 'patch',
+      path: '/api/v1/farms/{farmId}',
+      summary: 'Rename a farm',
+      body: farmUpdateSchema,
+      responses: { 200: ok(farmSchema), ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/farms/{farmId}/houses',
+      summary: 'Houses of a farm',
+      responses: { 200: ok(z.array(houseSchema)), ...errors },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/farms/{farmId}/houses',
+      summary: 'Add a house with its sections and counters',
+      body: houseCreateSchema,
+      responses: {
+        201: ok(houseWithCountersSchema, 'Created'),
+        ...errors,
+        409: error('Name already used'),
+      },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/houses/{houseId}',
+      summary: 'One house with its counters',
+      responses: { 200: ok(houseWithCountersSchema), ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/houses/{houseId}/counters',
+      summary: "A house's counters",
+      responses: { 200: ok(z.array(counterSchema)), ...errors },
+    },
+    {
+      method: 'patch',
+      path: '/api/v1/houses/{houseId}',
+      summary: 'Change house settings',
+      body: houseUpdateSchema,
+      responses: {
+        200: ok(houseWithCountersSchema),
+        ...errors,
+        409: error('Layout locked by readings, or name used'),
+      },
+    },
+    {
+      method: 'delete',
+      path: '/api/v1/houses/{houseId}',
+      summary: 'Delete a house that has no readings',
+      responses: {
+        204: { description: 'Deleted' },
+        ...errors,
+        409: error('The house has readings'),
+      },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/users',
+      summary: 'Users of the farms you administer',
+      responses: { 200: ok(z.array(userSchema)), 401: errors[401], 403: errors[403] },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/users',
+      summary: 'Create a user with farm roles',
+      body: userCreateSchema,
+      responses: { 201: ok(userSchema, 'Created'), ...errors, 409: error('E-mail in use') },
+    },
+    {
+      method: 'patch',
+      path: '/api/v1/users/{userId}',
+      summary: "Rename, disable or change a user's roles",
+      body: userUpdateSchema,
+      responses: { 200: ok(userSchema), ...errors },
+    },
   ];
   const jsonSchema = (schema: z.ZodType, io: 'input' | 'output') =>
     z.toJSONSchema(schema, { io, unrepresentable: 'any', target: 'draft-2020-12' });
@@ -69,20 +174,27 @@ export function buildOpenApiDocument(version: string) {
       required: true,
       schema: { type: 'integer', minimum: 1 },
     }));
-    paths[route.path] ??= {};
-    paths[route.path]![route.method] = {
+    const operations = (paths[route.path] ??= {});
+    operations[route.method] = {
       summary: route.summary,
       ...(parameters.length ? { parameters } : {}),
       ...(isPublic ? {} : { security: [{ bearer: [] }] }),
       ...(route.body
-        ? { requestBody: { required: true, content: { 'application/json': { schema: jsonSchema(route.body, 'input') } } } }
+        ? {
+            requestBody: {
+              required: true,
+              content: { 'application/json': { schema: jsonSchema(route.body, 'input') } },
+            },
+          }
         : {}),
       responses: Object.fromEntries(
         Object.entries(route.responses).map(([status, r]) => [
           status,
           {
             description: r.description,
-            ...(r.schema ? { content: { 'application/json': { schema: jsonSchema(r.schema, 'output') } } } : {}),
+            ...(r.schema
+              ? { content: { 'application/json': { schema: jsonSchema(r.schema, 'output') } } }
+              : {}),
           },
         ]),
       ),
@@ -90,8 +202,14 @@ export function buildOpenApiDocument(version: string) {
   }
   return {
     openapi: '3.1.0',
-    info: { title: 'Tierscope API', version, description: 'Egg-production monitor for multi-tier houses' },
-    components: { securitySchemes: { bearer: { type: 'http', scheme: 'bearer', bearerFormat: 'JWT' } } },
+    info: {
+      title: 'Tierscope API',
+      version,
+      description: 'Egg-production monitor for multi-tier houses',
+    },
+    components: {
+      securitySchemes: { bearer: { type: 'http', scheme: 'bearer', bearerFormat: 'JWT' } },
+    },
     paths,
   };
 }

@@ -22,13 +22,23 @@ export async function seedFixture(db: Database): Promise<Fixture> {
   const [farmA] = await db.insert(schema.farms).values({ name: 'Farm A' }).returning();
   const [farmB] = await db.insert(schema.farms).values({ name: 'Farm B' }).returning();
   if (!farmA || !farmB) throw new Error('fixture farms not created');
-  const layout = { rows: 4, tiers: 3, timezone: 'America/Chicago', lightsOn: '04:00', photoperiodHours: 16, shortfallThresholdPct: 10 };
+  const layout = {
+    rows: 4,
+    tiers: 3,
+    timezone: 'America/Chicago',
+    lightsOn: '04:00',
+    photoperiodHours: 16,
+    shortfallThresholdPct: 10,
+  };
   const houseA = await insertHouseWithLayout(db, farmA.id, { name: 'A1', ...layout });
   const houseB = await insertHouseWithLayout(db, farmB.id, { name: 'B1', ...layout });
   const usersA = {} as Record<Role, { id: number; email: string }>;
   for (const role of ROLES) {
     const email = `${role}@farm-a.test`;
-    const [user] = await db.insert(schema.users).values({ email, name: `${role} of A`, passwordHash }).returning();
+    const [user] = await db
+      .insert(schema.users)
+      .values({ email, name: `${role} of A`, passwordHash })
+      .returning();
     if (!user) throw new Error('fixture user not created');
     await db.insert(schema.memberships).values({ userId: user.id, farmId: farmA.id, role });
     usersA[role] = { id: user.id, email };
@@ -38,7 +48,9 @@ export async function seedFixture(db: Database): Promise<Fixture> {
     .values({ email: 'admin@farm-b.test', name: 'admin of B', passwordHash })
     .returning();
   if (!adminB) throw new Error('fixture user not created');
-  await db.insert(schema.memberships).values({ userId: adminB.id, farmId: farmB.id, role: 'admin' });
+  await db
+    .insert(schema.memberships)
+    .values({ userId: adminB.id, farmId: farmB.id, role: 'admin' });
   return {
     farmA: farmA.id,
     farmB: farmB.id,

@@ -29,7 +29,9 @@ describe('POST /api/v1/auth/login', () => {
       .send({ email: fixture.usersA.manager.email, password: FIXTURE_PASSWORD });
     expect(response.status).toBe(200);
     expect(response.body.user.email).toBe(fixture.usersA.manager.email);
-    expect(response.body.memberships).toEqual([{ farmId: fixture.farmA, farmName: 'Farm A', role: 'manager' }]);
+    expect(response.body.memberships).toEqual([
+      { farmId: fixture.farmA, farmName: 'Farm A', role: 'manager' },
+    ]);
     const claims = jwt.verify(response.body.token, TEST_JWT_SECRET) as jwt.JwtPayload;
     expect(claims.sub).toBe(String(fixture.usersA.manager.id));
     // 3600 s is the test app's token lifetime.
@@ -60,7 +62,12 @@ describe('POST /api/v1/auth/login', () => {
   it('refuses a disabled user even with the right password', async () => {
     const [user] = await database.db
       .insert(schema.users)
-      .values({ email: 'gone@farm-a.test', name: 'Gone', passwordHash: hashSync(FIXTURE_PASSWORD), disabled: true })
+      .values({
+        email: 'gone@farm-a.test',
+        name: 'Gone',
+        passwordHash: hashSync(FIXTURE_PASSWORD),
+        disabled: true,
+      })
       .returning();
     expect(user).toBeDefined();
     const response = await request(app)
@@ -80,7 +87,9 @@ describe('POST /api/v1/auth/login', () => {
   it('limits repeated failed sign-ins for one address and e-mail, and counts only failures', async () => {
     const limited = createTestApp(database.db, { loginMaxFailures: 3 });
     const attempt = (password: string) =>
-      request(limited).post('/api/v1/auth/login').send({ email: fixture.usersA.admin.email, password });
+      request(limited)
+        .post('/api/v1/auth/login')
+        .send({ email: fixture.usersA.admin.email, password });
     expect((await attempt(FIXTURE_PASSWORD)).status).toBe(200);
     for (let i = 0; i < 3; i++) expect((await attempt('wrong password')).status).toBe(401);
     const blocked = await attempt(FIXTURE_PASSWORD);
@@ -116,15 +125,22 @@ describe('bearer tokens', () => {
       audience: 'tierscope-user',
       expiresIn: -10,
     });
-    const response = await request(app).get('/api/v1/farms').set('Authorization', `Bearer ${expired}`);
+    const response = await request(app)
+      .get('/api/v1/farms')
+      .set('Authorization', `Bearer ${expired}`);
     expect(response.status).toBe(401);
   });
 
   it('refuses a tampered token', async () => {
     const token = (await bearerFor(app, fixture.usersA.crew.email)).slice('Bearer '.length);
     const [header, payload, signature] = token.split('.') as [string, string, string];
-    const claims = JSON.parse(Buffer.from(payload, 'base64url').toString()) as Record<string, unknown>;
-    const forged = Buffer.from(JSON.stringify({ ...claims, sub: String(fixture.usersA.admin.id) })).toString('base64url');
+    const claims = JSON.parse(Buffer.from(payload, 'base64url').toString()) as Record<
+      string,
+      unknown
+    >;
+    const forged = Buffer.from(
+      JSON.stringify({ ...claims, sub: String(fixture.usersA.admin.id) }),
+    ).toString('base64url');
     const response = await request(app)
       .get('/api/v1/auth/me')
       .set('Authorization', `Bearer ${header}.${forged}.${signature}`);
@@ -137,18 +153,28 @@ describe('bearer tokens', () => {
       issuer: 'tierscope',
       audience: 'tierscope-user',
     });
-    const response = await request(app).get('/api/v1/farms').set('Authorization', `Bearer ${foreign}`);
+    const response = await request(app)
+      .get('/api/v1/farms')
+      .set('Authorization', `Bearer ${foreign}`);
     expect(response.status).toBe(401);
   });
 
   it('stops honouring the token of a user who is disabled after signing in', async () => {
     const [user] = await database.db
       .insert(schema.users)
-      .values({ email: 'soon-gone@farm-a.test', name: 'Soon gone', passwordHash: hashSync(FIXTURE_PASSWORD) })
+      .values({
+        email: 'soon-gone@farm-a.test',
+        name: 'Soon gone',
+        passwordHash: hashSync(FIXTURE_PASSWORD),
+      })
       .returning();
     const bearer = await bearerFor(app, 'soon-gone@farm-a.test');
-    expect((await request(app).get('/api/v1/auth/me').set('Authorization', bearer)).status).toBe(200);
+    expect((await request(app).get('/api/v1/auth/me').set('Authorization', bearer)).status).toBe(
+      200,
+    );
     await updateUser(database.db, user?.id ?? 0, { disabled: true });
-    expect((await request(app).get('/api/v1/auth/me').set('Authorization', bearer)).status).toBe(401);
+    expect((await request(app).get('/api/v1/auth/me').set('Authorization', bearer)).status).toBe(
+      401,
+    );
   });
 });

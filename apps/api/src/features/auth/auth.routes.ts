@@ -24,7 +24,14 @@ function loginLimiter(maxFailures: number, windowSeconds: number) {
     handler: (_req, res) => {
       res
         .status(429)
-        .json(errorBody(new AppError('too_many_requests', 'Too many failed sign-ins: wait a few minutes and try again')));
+        .json(
+          errorBody(
+            new AppError(
+              'too_many_requests',
+              'Too many failed sign-ins: wait a few minutes and try again',
+            ),
+          ),
+        );
     },
   });
 }
@@ -35,9 +42,13 @@ export function authRoutes(
   limits: { maxFailures: number; windowSeconds: number },
 ): Router {
   const router = Router();
-  router.post('/login', loginLimiter(limits.maxFailures, limits.windowSeconds), async (req, res) => {
-    res.json(await service.login(parseInput(loginRequestSchema, req.body)));
-  });
+  router.post(
+    '/login',
+    loginLimiter(limits.maxFailures, limits.windowSeconds),
+    async (req, res) => {
+      res.json(await service.login(parseInput(loginRequestSchema, req.body)));
+    },
+  );
   router.get('/me', authenticate, async (req, res) => {
     res.json(await service.session(contextOf(req)));
   });

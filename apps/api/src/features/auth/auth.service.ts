@@ -20,7 +20,10 @@ export function createAuthService(db: Database, tokens: TokenService): AuthServi
       const user = await findUserByEmail(db, email);
       const isMatch = await verify(user?.passwordHash ?? (await timingDecoy), password);
       if (!user || !isMatch) {
-        throw new AppError('invalid_credentials', 'That e-mail and password do not match an account');
+        throw new AppError(
+          'invalid_credentials',
+          'That e-mail and password do not match an account',
+        );
       }
       if (user.disabled) {
         throw new AppError('account_disabled', 'This account is disabled: ask your administrator');

@@ -4,7 +4,13 @@ import { farmsWith, requireFarmPermission } from '../../platform/access';
 import type { RequestContext } from '../../platform/auth';
 import { forbidden, notFound } from '../../platform/errors';
 import { recordAudit } from '../audit/audit.repository';
-import { addMembership, findFarm, insertFarm, listFarmsOfUser, renameFarm } from './farms.repository';
+import {
+  addMembership,
+  findFarm,
+  insertFarm,
+  listFarmsOfUser,
+  renameFarm,
+} from './farms.repository';
 
 export interface FarmsService {
   list(ctx: RequestContext): Promise<Farm[]>;
@@ -47,7 +53,13 @@ export function createFarmsService(db: Database): FarmsService {
         });
         return created;
       });
-      return { id: farm.id, name: farm.name, role: 'admin', houseCount: 0, createdAt: farm.createdAt.toISOString() };
+      return {
+        id: farm.id,
+        name: farm.name,
+        role: 'admin',
+        houseCount: 0,
+        createdAt: farm.createdAt.toISOString(),
+      };
     },
 
     async update(ctx, farmId, input) {

@@ -36,8 +36,12 @@ describe('GET /api/v1/openapi.json', () => {
     expect(response.body.openapi).toBe('3.1.0');
     const create = response.body.paths['/api/v1/farms/{farmId}/houses'].post;
     const bodySchema = create.requestBody.content['application/json'].schema;
-    expect(bodySchema.required).toEqual(expect.arrayContaining(['name', 'rows', 'tiers', 'timezone', 'lightsOn']));
+    expect(bodySchema.required).toEqual(
+      expect.arrayContaining(['name', 'rows', 'tiers', 'timezone', 'lightsOn']),
+    );
     expect(bodySchema.properties.tiers.maximum).toBe(4);
-    expect(Object.keys(create.responses)).toEqual(expect.arrayContaining(['201', '400', '401', '403', '404']));
+    expect(Object.keys(create.responses)).toEqual(
+      expect.arrayContaining(['201', '400', '401', '403', '404']),
+    );
   });
 });

@@ -6,7 +6,11 @@ export function healthRoutes(pingDatabase: () => Promise<boolean>, version: stri
   const router = Router();
   router.get('/health', async (_req, res) => {
     const isUp = await pingDatabase();
-    const body: Health = { status: isUp ? 'ok' : 'degraded', database: isUp ? 'up' : 'down', version };
+    const body: Health = {
+      status: isUp ? 'ok' : 'degraded',
+      database: isUp ? 'up' : 'down',
+      version,
+    };
     res.status(isUp ? 200 : 503).json(body);
   });
   return router;

@@ -1,4 +1,10 @@
-import { insertHouseWithLayout, layOutHouse, schema, type NewHouse, type Queryable } from '@tierscope/db';
+import {
+  insertHouseWithLayout,
+  layOutHouse,
+  schema,
+  type NewHouse,
+  type Queryable,
+} from '@tierscope/db';
 import { asc, eq, sql } from 'drizzle-orm';
 
 const { houses, counters, sections, readings } = schema;
@@ -30,7 +36,11 @@ export async function countersOfHouse(db: Queryable, houseId: number) {
     .orderBy(sql`${counters.kind} = 'collector'`, asc(sections.row), asc(sections.tier));
 }
 
-export async function createHouse(db: Queryable, farmId: number, input: NewHouse): Promise<HouseRow> {
+export async function createHouse(
+  db: Queryable,
+  farmId: number,
+  input: NewHouse,
+): Promise<HouseRow> {
   return insertHouseWithLayout(db, farmId, input);
 }
 
@@ -56,7 +66,12 @@ export async function houseHasReadings(db: Queryable, houseId: number): Promise<
   return result.rows[0]?.found === true;
 }
 
-export async function houseNameTaken(db: Queryable, farmId: number, name: string, exceptId?: number) {
+export async function houseNameTaken(
+  db: Queryable,
+  farmId: number,
+  name: string,
+  exceptId?: number,
+) {
   const result = await db.execute<{ found: boolean }>(
     sql`select exists (select 1 from ${houses} where farm_id = ${farmId} and name = ${name}
         and id <> ${exceptId ?? 0}) as found`,

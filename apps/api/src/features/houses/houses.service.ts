@@ -1,4 +1,10 @@
-import type { Counter, House, HouseCreate, HouseUpdate, HouseWithCounters } from '@tierscope/contracts';
+import type {
+  Counter,
+  House,
+  HouseCreate,
+  HouseUpdate,
+  HouseWithCounters,
+} from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
 import { requireFarmPermission } from '../../platform/access';
 import type { RequestContext } from '../../platform/auth';
@@ -21,7 +27,11 @@ export interface HousesService {
   listByFarm(ctx: RequestContext, farmId: number): Promise<House[]>;
   get(ctx: RequestContext, houseId: number): Promise<HouseWithCounters>;
   counters(ctx: RequestContext, houseId: number): Promise<Counter[]>;
-  create(ctx: RequestContext, farmId: number, input: Required<HouseCreate>): Promise<HouseWithCounters>;
+  create(
+    ctx: RequestContext,
+    farmId: number,
+    input: Required<HouseCreate>,
+  ): Promise<HouseWithCounters>;
   update(ctx: RequestContext, houseId: number, input: HouseUpdate): Promise<HouseWithCounters>;
   remove(ctx: RequestContext, houseId: number): Promise<void>;
 }
@@ -33,7 +43,11 @@ const nameTaken = () =>
 
 export function createHousesService(db: Database): HousesService {
   /** Loads a house and checks the caller's role on its farm; a house of another farm is "not found". */
-  async function houseFor(ctx: RequestContext, houseId: number, permission: Parameters<typeof requireFarmPermission>[2]) {
+  async function houseFor(
+    ctx: RequestContext,
+    houseId: number,
+    permission: Parameters<typeof requireFarmPermission>[2],
+  ) {
     const house = await findHouse(db, houseId);
     if (!house || !ctx.user.roles.has(house.farmId)) throw notFound('House');
     requireFarmPermission(ctx, house.farmId, permission, 'House');
@@ -79,7 +93,10 @@ export function createHousesService(db: Database): HousesService {
 
     async update(ctx, houseId, input) {
       const before = await houseFor(ctx, houseId, 'house.update');
-      if (input.name !== undefined && (await houseNameTaken(db, before.farmId, input.name, houseId))) {
+      if (
+        input.name !== undefined &&
+        (await houseNameTaken(db, before.farmId, input.name, houseId))
+      ) {
         throw nameTaken();
       }
       const isLayoutChange =
@@ -87,9 +104,16 @@ export function createHousesService(db: Database): HousesService {
         (input.tiers !== undefined && input.tiers !== before.tiers);
       const updated = await db.transaction(async (tx) => {
         if (isLayoutChange && (await houseHasReadings(tx, houseId))) {
-          throw new AppError('conflict', 'Rows and tiers cannot change once the house has counted eggs', [
-            { path: input.rows !== undefined ? 'rows' : 'tiers', message: 'The house already has readings' },
-          ]);
+          throw new AppError(
+            'conflict',
+            'Rows and tiers cannot change once the house has counted eggs',
+            [
+              {
+                path: input.rows !== undefined ? 'rows' : 'tiers',
+                message: 'The house already has readings',
+              },
+            ],
+          );
         }
         const row = await updateHouse(tx, houseId, input);
         if (!row) throw notFound('House');
@@ -112,7 +136,10 @@ export function createHousesService(db: Database): HousesService {
       const house = await houseFor(ctx, houseId, 'house.delete');
       await db.transaction(async (tx) => {
         if (await houseHasReadings(tx, houseId)) {
-          throw new AppError('conflict', 'A house that has counted eggs keeps its history and cannot be deleted');
+          throw new AppError(
+            'conflict',
+            'A house that has counted eggs keeps its history and cannot be deleted',
+          );
         }
         await deleteHouse(tx, houseId);
         await recordAudit(tx, {

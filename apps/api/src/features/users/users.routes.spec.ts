@@ -25,12 +25,21 @@ describe('users', () => {
     const created = await request(app)
       .post('/api/v1/users')
       .set('Authorization', admin)
-      .send({ email: 'new.crew@farm-a.test', name: 'New Crew', password: 'a long password', memberships: [{ farmId: fixture.farmA, role: 'crew' }] });
+      .send({
+        email: 'new.crew@farm-a.test',
+        name: 'New Crew',
+        password: 'a long password',
+        memberships: [{ farmId: fixture.farmA, role: 'crew' }],
+      });
     expect(created.status).toBe(201);
     expect(created.body.passwordHash).toBeUndefined();
-    const login = await request(app).post('/api/v1/auth/login').send({ email: 'new.crew@farm-a.test', password: 'a long password' });
+    const login = await request(app)
+      .post('/api/v1/auth/login')
+      .send({ email: 'new.crew@farm-a.test', password: 'a long password' });
     expect(login.status).toBe(200);
-    expect(login.body.memberships).toEqual([{ farmId: fixture.farmA, farmName: 'Farm A', role: 'crew' }]);
+    expect(login.body.memberships).toEqual([
+      { farmId: fixture.farmA, farmName: 'Farm A', role: 'crew' },
+    ]);
   });
 
   it('stores a password hash, never the password', async () => {
@@ -44,7 +53,12 @@ describe('users', () => {
     const response = await request(app)
       .post('/api/v1/users')
       .set('Authorization', admin)
-      .send({ email: 'NEW.CREW@farm-a.test', name: 'Twin', password: 'a long password', memberships: [{ farmId: fixture.farmA, role: 'crew' }] });
+      .send({
+        email: 'NEW.CREW@farm-a.test',
+        name: 'Twin',
+        password: 'a long password',
+        memberships: [{ farmId: fixture.farmA, role: 'crew' }],
+      });
     expect(response.status).toBe(409);
   });
 
@@ -60,20 +74,30 @@ describe('users', () => {
 
   it('changes a role and disables a user, who can then no longer sign in', async () => {
     const list = await request(app).get('/api/v1/users').set('Authorization', admin);
-    const target = (list.body as { id: number; email: string }[]).find((u) => u.email === 'new.crew@farm-a.test');
+    const target = (list.body as { id: number; email: string }[]).find(
+      (u) => u.email === 'new.crew@farm-a.test',
+    );
     const promoted = await request(app)
       .patch(`/api/v1/users/${target?.id}`)
       .set('Authorization', admin)
       .send({ memberships: [{ farmId: fixture.farmA, role: 'manager' }] });
     expect(promoted.body.memberships).toEqual([{ farmId: fixture.farmA, role: 'manager' }]);
-    const disabled = await request(app).patch(`/api/v1/users/${target?.id}`).set('Authorization', admin).send({ disabled: true });
+    const disabled = await request(app)
+      .patch(`/api/v1/users/${target?.id}`)
+      .set('Authorization', admin)
+      .send({ disabled: true });
     expect(disabled.body.disabled).toBe(true);
-    const login = await request(app).post('/api/v1/auth/login').send({ email: 'new.crew@farm-a.test', password: 'a long password' });
+    const login = await request(app)
+      .post('/api/v1/auth/login')
+      .send({ email: 'new.crew@farm-a.test', password: 'a long password' });
     expect(login.status).toBe(403);
   });
 
   it('does not let an admin disable themselves', async () => {
-    const response = await request(app).patch(`/api/v1/users/${fixture.usersA.admin.id}`).set('Authorization', admin).send({ disabled: true });
+    const response = await request(app)
+      .patch(`/api/v1/users/${fixture.usersA.admin.id}`)
+      .set('Authorization', admin)
+      .send({ disabled: true });
     expect(response.status).toBe(400);
   });
 });

@@ -10,10 +10,12 @@ export function usersRoutes(service: UsersService): Router {
     res.json(await service.list(contextOf(req)));
   });
   router.post('/users', async (req, res) => {
-    res.status(201).json(await service.create(contextOf(req), parseInput(userCreateSchema, req.body)));
+    res
+      .status(201)
+      .json(await service.create(contextOf(req), parseInput(userCreateSchema, req.body)));
   });
   router.patch('/users/:userId', async (req, res) => {
-    const id = parseInput(idParam, req.params['userId'], 'path');
+    const id = parseInput(idParam, req.params.userId, 'path');
     res.json(await service.update(contextOf(req), id, parseInput(userUpdateSchema, req.body)));
   });
   return router;

@@ -31,18 +31,30 @@ describe('authInterceptor', () => {
     const controller = TestBed.inject(HttpTestingController);
     http.get('/api/v1/farms').subscribe();
     http.get('/assets/logo.svg').subscribe();
-    expect(controller.expectOne('/api/v1/farms').request.headers.get('Authorization')).toBe('Bearer the-token');
-    expect(controller.expectOne('/assets/logo.svg').request.headers.has('Authorization')).toBe(false);
+    expect(controller.expectOne('/api/v1/farms').request.headers.get('Authorization')).toBe(
+      'Bearer the-token',
+    );
+    expect(controller.expectOne('/assets/logo.svg').request.headers.has('Authorization')).toBe(
+      false,
+    );
   });
 
   it('signs the user out and sends them to sign in when the API answers 401', async () => {
     const navigate = vi.spyOn(TestBed.inject(Router), 'navigate').mockResolvedValue(true);
-    const result = firstValueFrom(TestBed.inject(HttpClient).get('/api/v1/farms')).catch((e: unknown) => e);
+    const result = firstValueFrom(TestBed.inject(HttpClient).get('/api/v1/farms')).catch(
+      (e: unknown) => e,
+    );
     TestBed.inject(HttpTestingController)
       .expectOne('/api/v1/farms')
-      .flush({ error: { code: 'unauthenticated', message: 'expired' } }, { status: 401, statusText: 'Unauthorized' });
+      .flush(
+        { error: { code: 'unauthenticated', message: 'expired' } },
+        { status: 401, statusText: 'Unauthorized' },
+      );
     await result;
     expect(TestBed.inject(AuthStore).session()).toBeNull();
-    expect(navigate).toHaveBeenCalledWith(['/sign-in'], expect.objectContaining({ queryParams: expect.objectContaining({ reason: 'expired' }) }));
+    expect(navigate).toHaveBeenCalledWith(
+      ['/sign-in'],
+      expect.objectContaining({ queryParams: expect.objectContaining({ reason: 'expired' }) }),
+    );
   });
 });

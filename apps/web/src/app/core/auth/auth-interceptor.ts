@@ -10,10 +10,15 @@ export const authInterceptor: HttpInterceptorFn = (req, next) => {
   const router = inject(Router);
   const token = auth.token();
   const isApi = req.url.startsWith('/api/');
-  const request = token && isApi ? req.clone({ setHeaders: { Authorization: `Bearer ${token}` } }) : req;
+  const request =
+    token && isApi ? req.clone({ setHeaders: { Authorization: `Bearer ${token}` } }) : req;
   return next(request).pipe(
     catchError((error: unknown) => {
-      if (error instanceof HttpErrorResponse && error.status === 401 && !req.url.endsWith('/auth/login')) {
+      if (
+        error instanceof HttpErrorResponse &&
+        error.status === 401 &&
+        !req.url.endsWith('/auth/login')
+      ) {
         auth.signOut();
         void router.navigate(['/sign-in'], {
           queryParams: { reason: 'expired', returnTo: router.url },

@@ -13,7 +13,9 @@ const session = (role: 'admin' | 'crew', expiresInMs = 3_600_000) => ({
 describe('AuthStore', () => {
   beforeEach(() => {
     localStorage.clear();
-    TestBed.configureTestingModule({ providers: [provideHttpClient(), provideHttpClientTesting()] });
+    TestBed.configureTestingModule({
+      providers: [provideHttpClient(), provideHttpClientTesting()],
+    });
   });
 
   it('signs in through the API and keeps the session across a reload', async () => {
@@ -23,7 +25,9 @@ describe('AuthStore', () => {
     await done;
     expect(store.isSignedIn()).toBe(true);
     expect(store.user()?.name).toBe('Casey');
-    expect(JSON.parse(localStorage.getItem('tierscope.session') ?? '{}').token).toBe('header.payload.signature');
+    expect(JSON.parse(localStorage.getItem('tierscope.session') ?? '{}').token).toBe(
+      'header.payload.signature',
+    );
   });
 
   it('answers permission questions from the farm roles', () => {

@@ -4,7 +4,8 @@ import { apiErrorSchema } from '@tierscope/contracts';
 /** A sentence for the user from whatever an API call failed with. */
 export function describeApiError(error: unknown): string {
   if (error instanceof HttpErrorResponse) {
-    if (error.status === 0) return 'Tierscope cannot be reached. Check the connection and try again.';
+    if (error.status === 0)
+      return 'Tierscope cannot be reached. Check the connection and try again.';
     const parsed = apiErrorSchema.safeParse(error.error);
     if (parsed.success) return parsed.data.error.message;
     return `The server answered ${error.status}. Try again in a moment.`;

@@ -13,14 +13,19 @@ function renderAs(role: 'admin' | 'manager' | 'crew' | 'integrator'): HTMLElemen
       memberships: [{ farmId: 1, farmName: 'North Ridge', role }],
     }),
   );
-  TestBed.configureTestingModule({ imports: [Shell], providers: [provideRouter([]), provideHttpClient()] });
+  TestBed.configureTestingModule({
+    imports: [Shell],
+    providers: [provideRouter([]), provideHttpClient()],
+  });
   const fixture = TestBed.createComponent(Shell);
   fixture.detectChanges();
   return fixture.nativeElement as HTMLElement;
 }
 
 const navLabels = (element: HTMLElement) =>
-  Array.from(element.querySelectorAll('mat-nav-list a [matListItemTitle]')).map((a) => a.textContent?.trim());
+  Array.from(element.querySelectorAll('mat-nav-list a [matListItemTitle]')).map((a) =>
+    a.textContent.trim(),
+  );
 
 describe('Shell', () => {
   it('offers the Users page to admins', () => {

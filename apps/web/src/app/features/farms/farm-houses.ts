@@ -31,5 +31,7 @@ export class FarmHouses {
     return (this.houses.value()?.length ?? 0) === 0 ? 'empty' : 'ready';
   });
   protected readonly errorText = computed(() => describeApiError(this.houses.error()));
-  protected readonly canEdit = computed(() => this.auth.hasPermission('house.update', this.farmId()));
+  protected readonly canEdit = computed(() =>
+    this.auth.hasPermission('house.update', this.farmId()),
+  );
 }

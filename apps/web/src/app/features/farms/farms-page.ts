@@ -16,7 +16,9 @@ import { FarmHouses } from './farm-houses';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class FarmsPage {
-  protected readonly farms = httpResource(() => '/api/v1/farms', { parse: z.array(farmSchema).parse });
+  protected readonly farms = httpResource(() => '/api/v1/farms', {
+    parse: z.array(farmSchema).parse,
+  });
   protected readonly state = computed(() => {
     if (this.farms.error()) return 'error';
     if (this.farms.isLoading() && !this.farms.hasValue()) return 'loading';

@@ -74,7 +74,9 @@ export class HouseSettingsPage {
   protected readonly isSaving = signal(false);
   protected readonly saveError = signal<string | null>(null);
 
-  private readonly zoneQuery = toSignal(this.form.controls.timezone.valueChanges, { initialValue: '' });
+  private readonly zoneQuery = toSignal(this.form.controls.timezone.valueChanges, {
+    initialValue: '',
+  });
   protected readonly zoneOptions = computed(() => {
     const query = this.zoneQuery().toLowerCase();
     return ALL_ZONES.filter((zone) => zone.toLowerCase().includes(query)).slice(0, 30);

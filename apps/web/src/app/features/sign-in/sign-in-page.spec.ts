@@ -47,12 +47,15 @@ describe('SignInPage', () => {
     type('input[type=email]', 'casey@example.test');
     type('input[autocomplete=current-password]', 'wrong');
     await submit();
-    http
-      .expectOne('/api/v1/auth/login')
-      .flush(
-        { error: { code: 'invalid_credentials', message: 'That e-mail and password do not match an account' } },
-        { status: 401, statusText: 'Unauthorized' },
-      );
+    http.expectOne('/api/v1/auth/login').flush(
+      {
+        error: {
+          code: 'invalid_credentials',
+          message: 'That e-mail and password do not match an account',
+        },
+      },
+      { status: 401, statusText: 'Unauthorized' },
+    );
     await settle();
     expect(element.querySelector('[role=alert]')?.textContent).toContain('do not match');
   });

@@ -50,7 +50,9 @@ export class SignInPage {
       await this.auth.signIn(this.form.getRawValue());
       const target = this.returnTo();
       // Only in-app paths: a crafted link must not send a user to another site after sign-in.
-      await this.router.navigateByUrl(target?.startsWith('/') && !target.startsWith('//') ? target : '/farms');
+      await this.router.navigateByUrl(
+        target?.startsWith('/') && !target.startsWith('//') ? target : '/farms',
+      );
     } catch (error) {
       this.error.set(describeApiError(error));
     } finally {

@@ -1,6 +1,11 @@
 import { HttpClient } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
-import { FormControl, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import {
+  FormControl,
+  NonNullableFormBuilder,
+  ReactiveFormsModule,
+  Validators,
+} from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -35,9 +40,22 @@ const fields = userCreateSchema.shape;
   ],
   templateUrl: './user-dialog.html',
   styles: `
-    form { display: flex; flex-direction: column; gap: 4px; min-width: min(420px, 80vw); }
-    h3 { font: var(--mat-sys-title-small); margin: 8px 0; }
-    .error { color: var(--mat-sys-error); display: flex; gap: 6px; align-items: center; }
+    form {
+      display: flex;
+      flex-direction: column;
+      gap: 4px;
+      min-width: min(420px, 80vw);
+    }
+    h3 {
+      font: var(--mat-sys-title-small);
+      margin: 8px 0;
+    }
+    .error {
+      color: var(--mat-sys-error);
+      display: flex;
+      gap: 6px;
+      align-items: center;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -29,7 +29,9 @@ export class UsersPage {
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
 
-  protected readonly users = httpResource(() => '/api/v1/users', { parse: z.array(userSchema).parse });
+  protected readonly users = httpResource(() => '/api/v1/users', {
+    parse: z.array(userSchema).parse,
+  });
   protected readonly state = computed(() => {
     if (this.users.error()) return 'error';
     if (this.users.isLoading() && !this.users.hasValue()) return 'loading';
@@ -44,14 +46,18 @@ export class UsersPage {
 
   protected rolesOf(user: User): string {
     const names = new Map(this.auth.memberships().map((m) => [m.farmId, m.farmName]));
-    return user.memberships.map((m) => `${names.get(m.farmId) ?? `Farm ${m.farmId}`}: ${m.role}`).join(', ');
+    return user.memberships
+      .map((m) => `${names.get(m.farmId) ?? `Farm ${m.farmId}`}: ${m.role}`)
+      .join(', ');
   }
 
   protected async openDialog(user?: User): Promise<void> {
     const data: UserDialogData = { farms: this.adminFarms(), ...(user ? { user } : {}) };
-    const saved = await firstValueFrom(this.dialog.open(UserDialog, { data }).afterClosed());
+    const saved = await firstValueFrom(
+      this.dialog.open<UserDialog, UserDialogData, User>(UserDialog, { data }).afterClosed(),
+    );
     if (saved) {
-      this.snackBar.open(`${(saved as User).name} saved`, undefined, { duration: 3000 });
+      this.snackBar.open(`${saved.name} saved`, undefined, { duration: 3000 });
       this.users.reload();
     }
   }
@@ -59,9 +65,13 @@ export class UsersPage {
   protected async setActive(user: User, isActive: boolean): Promise<void> {
     try {
       await firstValueFrom(this.http.patch(`/api/v1/users/${user.id}`, { disabled: !isActive }));
-      this.snackBar.open(`${user.name} ${isActive ? 'can sign in again' : 'can no longer sign in'}`, undefined, {
-        duration: 3000,
-      });
+      this.snackBar.open(
+        `${user.name} ${isActive ? 'can sign in again' : 'can no longer sign in'}`,
+        undefined,
+        {
+          duration: 3000,
+        },
+      );
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
     }
