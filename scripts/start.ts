@@ -7,6 +7,7 @@
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { createServer } from 'node:net';
 import { join } from 'node:path';
 import { openDatabase, runMigrations } from '@tierscope/db';
 import { DEMO_PASSWORD, DEMO_USERS, isEmpty, seedDemo } from '@tierscope/db/seed';
@@ -48,6 +49,20 @@ function stopAll(code: number): void {
     console.error(error);
   }
   process.exit(code);
+}
+
+function isPortFree(port: number): Promise<boolean> {
+  return new Promise((resolve) => {
+    const probe = createServer();
+    probe.once('error', () => {
+      resolve(false);
+    });
+    probe.listen(port, '127.0.0.1', () => {
+      probe.close(() => {
+        resolve(true);
+      });
+    });
+  });
 }
 
 async function waitForHealth(url: string, timeoutMs: number): Promise<void> {
@@ -104,6 +119,9 @@ async function main(): Promise<void> {
     if (build.status !== 0) throw new Error('the web build failed');
   }
 
+  if (!(await isPortFree(PORT))) {
+    throw new Error(`port ${PORT} is already in use: stop what listens there, or run PORT=8081 npm start`);
+  }
   const env = {
     ...process.env,
     DATABASE_URL: databaseUrl,
@@ -112,7 +130,12 @@ async function main(): Promise<void> {
     JWT_SECRET: jwtSecret(),
     WEB_DIST: join(ROOT, 'dist/web/browser'),
   };
-  const api = spawn('npx', ['tsx', 'apps/api/src/server.ts'], { cwd: ROOT, env, stdio: 'inherit' });
+  // One node process with tsx's loader (not npx → tsx → node), so stopping it stops the API itself.
+  const api = spawn(process.execPath, ['--import', 'tsx', 'apps/api/src/server.ts'], {
+    cwd: ROOT,
+    env,
+    stdio: 'inherit',
+  });
   children.push(api);
   api.on('exit', (code) => {
     if (!isStopping) {

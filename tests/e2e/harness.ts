@@ -40,7 +40,7 @@ export async function startHarness(): Promise<Harness> {
   const database = await createTestDatabase();
   await seedDemo(database.db);
   const port = await freePort();
-  const api: ChildProcess = spawn('npx', ['tsx', 'apps/api/src/server.ts'], {
+  const api: ChildProcess = spawn(process.execPath, ['--import', 'tsx', 'apps/api/src/server.ts'], {
     cwd: ROOT,
     env: {
       ...process.env,
@@ -51,7 +51,7 @@ export async function startHarness(): Promise<Harness> {
       WEB_DIST: webDist,
     },
     stdio: ['ignore', 'inherit', 'inherit'],
-    // Its own process group, so stopping it also stops the node process that npx starts.
+    // Its own process group, so nothing it starts outlives the suite.
     detached: true,
   });
   const baseUrl = `http://127.0.0.1:${port}`;

@@ -11,6 +11,14 @@ async function main(): Promise<void> {
   const server = app.listen(config.port, config.host, () => {
     console.log(`[api] listening on http://${config.host}:${config.port}`);
   });
+  server.on('error', (error: NodeJS.ErrnoException) => {
+    console.error(
+      error.code === 'EADDRINUSE'
+        ? `[api] port ${config.port} is already in use`
+        : `[api] cannot listen: ${error.message}`,
+    );
+    process.exit(1);
+  });
   const stop = () => {
     server.close(() => void database.close().then(() => process.exit(0)));
   };
