@@ -120,7 +120,9 @@ async function main(): Promise<void> {
   }
 
   if (!(await isPortFree(PORT))) {
-    throw new Error(`port ${PORT} is already in use: stop what listens there, or run PORT=8081 npm start`);
+    throw new Error(
+      `port ${PORT} is already in use: stop what listens there, or run PORT=8081 npm start`,
+    );
   }
   const env = {
     ...process.env,
