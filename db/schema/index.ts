@@ -8,3 +8,5 @@ export * from './readings';
 export * from './users';
 export * from './memberships';
 export * from './audit-events';
+export * from './gateways';
+export * from './rollups';

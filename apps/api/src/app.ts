@@ -4,6 +4,10 @@ import type { Database } from '@tierscope/db';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
 import { authRoutes } from './features/auth/auth.routes';
+import { gatewaysRoutes } from './features/gateways/gateways.routes';
+import { createGatewaysService } from './features/gateways/gateways.service';
+import { ingestRoutes } from './features/ingest/ingest.routes';
+import { createIngestService } from './features/ingest/ingest.service';
 import { createAuthService } from './features/auth/auth.service';
 import { farmsRoutes } from './features/farms/farms.routes';
 import { createFarmsService } from './features/farms/farms.service';
@@ -17,6 +21,7 @@ import { createUsersService } from './features/users/users.service';
 import { createAuthenticator } from './platform/auth';
 import type { AppConfig } from './platform/config';
 import { AppError, errorMiddleware } from './platform/errors';
+import { createEventBus, type EventBus } from './platform/events';
 import { buildOpenApiDocument } from './platform/openapi';
 import { createTokenService } from './platform/tokens';
 
@@ -29,10 +34,12 @@ export interface AppDeps {
     'jwtSecret' | 'tokenTtlSeconds' | 'loginMaxFailures' | 'loginWindowSeconds' | 'webDist'
   >;
   log?: (message: string, error?: unknown) => void;
+  /** In-process domain events; tests pass their own to listen. */
+  events?: EventBus;
 }
 
 /** Builds the whole HTTP app without listening, so tests run it in-process. */
-export function createApp({ db, config, log = defaultLog }: AppDeps): Express {
+export function createApp({ db, config, log = defaultLog, events = createEventBus() }: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   app.use(
@@ -47,7 +54,10 @@ export function createApp({ db, config, log = defaultLog }: AppDeps): Express {
       },
     }),
   );
-  app.use(express.json({ limit: '2mb' }));
+  // The ingest route parses its own, larger bodies, after checking the gateway key.
+  const ingest = ingestRoutes(db, createIngestService(db, events));
+  app.use('/api/v1', ingest);
+  app.use(express.json({ limit: '1mb' }));
 
   const tokens = createTokenService(config.jwtSecret, config.tokenTtlSeconds);
   const authenticate = createAuthenticator(tokens, (id) => loadActiveUser(db, id));
@@ -73,6 +83,7 @@ export function createApp({ db, config, log = defaultLog }: AppDeps): Express {
   v1.use(farmsRoutes(createFarmsService(db)));
   v1.use(housesRoutes(createHousesService(db)));
   v1.use(usersRoutes(createUsersService(db)));
+  v1.use(gatewaysRoutes(createGatewaysService(db)));
   app.use('/api/v1', v1);
   app.use('/api', (_req, _res, next) => {
     next(new AppError('not_found', 'No such API route'));

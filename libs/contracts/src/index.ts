@@ -4,3 +4,4 @@ export * from './farm.schema';
 export * from './house.schema';
 export * from './user.schema';
 export * from './health.schema';
+export * from './ingest.schema';

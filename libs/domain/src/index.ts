@@ -1,3 +1,4 @@
 export * from './roles';
 export * from './house-layout';
 export * from './clock';
+export * from './running-totals';

@@ -12,6 +12,7 @@ export type ErrorCode =
   | 'conflict'
   | 'too_many_requests'
   | 'payload_too_large'
+  | 'unavailable'
   | 'internal';
 
 const STATUS: Record<ErrorCode, number> = {
@@ -24,6 +25,7 @@ const STATUS: Record<ErrorCode, number> = {
   conflict: 409,
   too_many_requests: 429,
   payload_too_large: 413,
+  unavailable: 503,
   internal: 500,
 };
 
@@ -84,6 +86,9 @@ export function errorMiddleware(
     let appError: AppError;
     if (error instanceof AppError) {
       appError = error;
+    } else if (isDatabaseUnavailable(error)) {
+      // Clients (gateways above all) retry a 503; nothing was written.
+      appError = new AppError('unavailable', 'The database is not reachable right now: try again shortly');
     } else if (isBodyParserError(error) && error.type === 'entity.too.large') {
       appError = new AppError('payload_too_large', 'The request body is too large');
     } else if (isBodyParserError(error)) {
@@ -96,6 +101,21 @@ export function errorMiddleware(
     }
     res.status(appError.status).json(errorBody(appError));
   };
+}
+
+const UNAVAILABLE_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', '57P01', '57P02', '57P03', '08006', '08001', '08003']);
+
+/** Connection-level failures of PostgreSQL (refused, dropped, shutting down), as pg or drizzle report them. */
+function isDatabaseUnavailable(error: unknown): boolean {
+  for (let e: unknown = error, depth = 0; e && depth < 4; depth++) {
+    const candidate = e as { code?: unknown; message?: unknown; cause?: unknown };
+    if (typeof candidate.code === 'string' && UNAVAILABLE_CODES.has(candidate.code)) return true;
+    if (typeof candidate.message === 'string' && /Connection terminated|connection timeout/i.test(candidate.message)) {
+      return true;
+    }
+    e = candidate.cause;
+  }
+  return false;
 }
 
 function isBodyParserError(error: unknown): error is { type: string; status: number } {

@@ -1,0 +1,34 @@
+import { EventEmitter } from 'node:events';
+
+/** What services announce; the realtime module and the shortfall engine listen. Services never touch sockets. */
+export interface DomainEvents {
+  /** New readings landed for a house (only readings that were actually new). */
+  'readings.accepted': {
+    farmId: number;
+    houseId: number;
+    readingsAdded: number;
+    eggsAdded: number;
+    firstTs: Date;
+    lastTs: Date;
+  };
+}
+
+export interface EventBus {
+  emit<K extends keyof DomainEvents>(name: K, payload: DomainEvents[K]): void;
+  on<K extends keyof DomainEvents>(name: K, listener: (payload: DomainEvents[K]) => void): () => void;
+}
+
+export function createEventBus(): EventBus {
+  const emitter = new EventEmitter();
+  // Many houses and listeners per process are normal, not a leak.
+  emitter.setMaxListeners(0);
+  return {
+    emit(name, payload) {
+      emitter.emit(name, payload);
+    },
+    on(name, listener) {
+      emitter.on(name, listener);
+      return () => emitter.off(name, listener);
+    },
+  };
+}
