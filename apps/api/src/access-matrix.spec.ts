@@ -3,6 +3,7 @@ import { createTestDatabase } from '@tierscope/db/testing';
 import { ROLES, type Role } from '@tierscope/domain';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { insertGateway } from './features/gateways/gateways.repository';
 import { seedFixture, type Fixture } from './testing/fixtures';
 import { bearerFor } from './testing/sign-in';
 import { createTestApp } from './testing/test-app';
@@ -36,6 +37,19 @@ const layout = {
   lightsOn: '03:30',
   photoperiodHours: 16,
 };
+
+/** A gateway nobody depends on, to revoke. */
+async function spareGateway(farmId: number): Promise<number> {
+  counter += 1;
+  const row = await insertGateway(database.db, {
+    farmId,
+    name: `spare gateway ${counter}`,
+    keyHash: `hash-${counter}-${farmId}`,
+    keyPrefix: 'tsg_spare',
+    createdBy: fixture.usersA.admin.id,
+  });
+  return row.id;
+}
 
 /** A house nobody depends on, so a delete that is allowed has something to delete. */
 async function spareHouse(farmId: number): Promise<number> {
@@ -122,6 +136,29 @@ const ownFarmRoutes: { name: string; call: () => Promise<Call>; allowed: Record<
         return (b) => request(app).delete(`/api/v1/houses/${id}`).set('Authorization', b);
       },
       allowed: { admin: 204, manager: 403, crew: 403, integrator: 403 },
+    },
+    {
+      name: 'GET /farms/:id/gateways',
+      call: async () => (b) =>
+        request(app).get(`/api/v1/farms/${fixture.farmA}/gateways`).set('Authorization', b),
+      allowed: { admin: 200, manager: 403, crew: 403, integrator: 200 },
+    },
+    {
+      name: 'POST /farms/:id/gateways',
+      call: async () => (b) =>
+        request(app)
+          .post(`/api/v1/farms/${fixture.farmA}/gateways`)
+          .set('Authorization', b)
+          .send({ name: `Gateway ${++counter}` }),
+      allowed: { admin: 201, manager: 403, crew: 403, integrator: 201 },
+    },
+    {
+      name: 'POST /gateways/:id/revoke',
+      call: async () => {
+        const id = await spareGateway(fixture.farmA);
+        return (b) => request(app).post(`/api/v1/gateways/${id}/revoke`).set('Authorization', b);
+      },
+      allowed: { admin: 200, manager: 403, crew: 403, integrator: 200 },
     },
     {
       name: 'GET /users',
@@ -217,6 +254,26 @@ describe('on a farm they do not belong to', () => {
       call: async () => {
         const id = await spareHouse(fixture.farmB);
         return (b) => request(app).delete(`/api/v1/houses/${id}`).set('Authorization', b);
+      },
+    },
+    {
+      name: 'GET /farms/:id/gateways',
+      call: async () => (b) =>
+        request(app).get(`/api/v1/farms/${fixture.farmB}/gateways`).set('Authorization', b),
+    },
+    {
+      name: 'POST /farms/:id/gateways',
+      call: async () => (b) =>
+        request(app)
+          .post(`/api/v1/farms/${fixture.farmB}/gateways`)
+          .set('Authorization', b)
+          .send({ name: 'Intruder gateway' }),
+    },
+    {
+      name: 'POST /gateways/:id/revoke',
+      call: async () => {
+        const id = await spareGateway(fixture.farmB);
+        return (b) => request(app).post(`/api/v1/gateways/${id}/revoke`).set('Authorization', b);
       },
     },
   ];

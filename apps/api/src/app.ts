@@ -39,7 +39,12 @@ export interface AppDeps {
 }
 
 /** Builds the whole HTTP app without listening, so tests run it in-process. */
-export function createApp({ db, config, log = defaultLog, events = createEventBus() }: AppDeps): Express {
+export function createApp({
+  db,
+  config,
+  log = defaultLog,
+  events = createEventBus(),
+}: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   app.use(

@@ -18,6 +18,7 @@ const configSchema = z.object({
     .default(15 * 60),
   WEB_DIST: z.string().optional(),
   PUBLIC_URL: z.string().optional(),
+  READINGS_RETENTION_MONTHS: z.coerce.number().int().min(1).default(25),
 });
 
 export interface AppConfig {
@@ -31,6 +32,8 @@ export interface AppConfig {
   /** Folder of the built web app to serve; the API alone when absent. */
   webDist: string | undefined;
   publicUrl: string;
+  /** Raw readings older than this many months are dropped; rollups stay. */
+  readingsRetentionMonths: number;
 }
 
 /** Reads the API's settings from the environment; a bad value stops the start with its name. */
@@ -51,5 +54,6 @@ export function loadConfig(env: NodeJS.ProcessEnv): AppConfig {
     loginWindowSeconds: c.LOGIN_WINDOW_SECONDS,
     webDist: c.WEB_DIST,
     publicUrl: c.PUBLIC_URL ?? `http://${c.HOST}:${c.PORT}`,
+    readingsRetentionMonths: c.READINGS_RETENTION_MONTHS,
   };
 }

@@ -88,7 +88,10 @@ export function errorMiddleware(
       appError = error;
     } else if (isDatabaseUnavailable(error)) {
       // Clients (gateways above all) retry a 503; nothing was written.
-      appError = new AppError('unavailable', 'The database is not reachable right now: try again shortly');
+      appError = new AppError(
+        'unavailable',
+        'The database is not reachable right now: try again shortly',
+      );
     } else if (isBodyParserError(error) && error.type === 'entity.too.large') {
       appError = new AppError('payload_too_large', 'The request body is too large');
     } else if (isBodyParserError(error)) {
@@ -103,14 +106,28 @@ export function errorMiddleware(
   };
 }
 
-const UNAVAILABLE_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', '57P01', '57P02', '57P03', '08006', '08001', '08003']);
+const UNAVAILABLE_CODES = new Set([
+  'ECONNREFUSED',
+  'ECONNRESET',
+  'ETIMEDOUT',
+  'EPIPE',
+  '57P01',
+  '57P02',
+  '57P03',
+  '08006',
+  '08001',
+  '08003',
+]);
 
 /** Connection-level failures of PostgreSQL (refused, dropped, shutting down), as pg or drizzle report them. */
 function isDatabaseUnavailable(error: unknown): boolean {
   for (let e: unknown = error, depth = 0; e && depth < 4; depth++) {
     const candidate = e as { code?: unknown; message?: unknown; cause?: unknown };
     if (typeof candidate.code === 'string' && UNAVAILABLE_CODES.has(candidate.code)) return true;
-    if (typeof candidate.message === 'string' && /Connection terminated|connection timeout/i.test(candidate.message)) {
+    if (
+      typeof candidate.message === 'string' &&
+      /Connection terminated|connection timeout/i.test(candidate.message)
+    ) {
       return true;
     }
     e = candidate.cause;

@@ -15,7 +15,10 @@ export interface DomainEvents {
 
 export interface EventBus {
   emit<K extends keyof DomainEvents>(name: K, payload: DomainEvents[K]): void;
-  on<K extends keyof DomainEvents>(name: K, listener: (payload: DomainEvents[K]) => void): () => void;
+  on<K extends keyof DomainEvents>(
+    name: K,
+    listener: (payload: DomainEvents[K]) => void,
+  ): () => void;
 }
 
 export function createEventBus(): EventBus {

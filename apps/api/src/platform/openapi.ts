@@ -2,6 +2,12 @@ import {
   apiErrorSchema,
   counterSchema,
   farmCreateSchema,
+  gatewayCreateSchema,
+  gatewayCreatedSchema,
+  gatewaySchema,
+  ingestResultSchema,
+  readingsBatchSchema,
+  readingInputSchema,
   farmSchema,
   farmUpdateSchema,
   healthSchema,
@@ -162,12 +168,46 @@ export function buildOpenApiDocument(version: string) {
       body: userUpdateSchema,
       responses: { 200: ok(userSchema), ...errors },
     },
+    {
+      method: 'get',
+      path: '/api/v1/farms/{farmId}/gateways',
+      summary: "A farm's gateways (administrators and integrators)",
+      responses: { 200: ok(z.array(gatewaySchema)), ...errors },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/farms/{farmId}/gateways',
+      summary: 'Add a gateway; the answer holds its key, shown this once',
+      body: gatewayCreateSchema,
+      responses: { 201: ok(gatewayCreatedSchema, 'Created'), ...errors },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/gateways/{gatewayId}/revoke',
+      summary: "Revoke a gateway's key",
+      responses: { 200: ok(gatewaySchema), ...errors },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/ingest/readings',
+      summary:
+        'Post up to 10,000 counter readings with a gateway key. Each reading carries eggs (since the previous reading) or total (running total). Re-sending never counts twice.',
+      body: readingsBatchSchema.extend({ readings: z.array(readingInputSchema).max(10_000) }),
+      responses: {
+        200: ok(ingestResultSchema),
+        400: errors[400],
+        401: error('Missing, unknown or revoked gateway key'),
+        413: error('More than 10,000 readings, or a body over 4 MB'),
+        503: error('Database unreachable: retry'),
+      },
+    },
   ];
   const jsonSchema = (schema: z.ZodType, io: 'input' | 'output') =>
     z.toJSONSchema(schema, { io, unrepresentable: 'any', target: 'draft-2020-12' });
   const paths: Record<string, Record<string, unknown>> = {};
   for (const route of routes) {
     const isPublic = route.path === '/api/health' || route.path === '/api/v1/auth/login';
+    const isGateway = route.path === '/api/v1/ingest/readings';
     const parameters = [...route.path.matchAll(/\{(\w+)\}/g)].map((m) => ({
       name: m[1],
       in: 'path',
@@ -178,7 +218,7 @@ export function buildOpenApiDocument(version: string) {
     operations[route.method] = {
       summary: route.summary,
       ...(parameters.length ? { parameters } : {}),
-      ...(isPublic ? {} : { security: [{ bearer: [] }] }),
+      ...(isPublic ? {} : { security: [isGateway ? { gatewayKey: [] } : { bearer: [] }] }),
       ...(route.body
         ? {
             requestBody: {
@@ -208,7 +248,10 @@ export function buildOpenApiDocument(version: string) {
       description: 'Egg-production monitor for multi-tier houses',
     },
     components: {
-      securitySchemes: { bearer: { type: 'http', scheme: 'bearer', bearerFormat: 'JWT' } },
+      securitySchemes: {
+        bearer: { type: 'http', scheme: 'bearer', bearerFormat: 'JWT' },
+        gatewayKey: { type: 'http', scheme: 'bearer', description: 'A gateway key (tsg_…)' },
+      },
     },
     paths,
   };

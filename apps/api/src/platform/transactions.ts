@@ -10,7 +10,8 @@ export async function withRetryOnConflict<T>(work: () => Promise<T>, attempts = 
     try {
       return await work();
     } catch (error) {
-      const code = (error as { code?: unknown; cause?: { code?: unknown } } | null)?.code ??
+      const code =
+        (error as { code?: unknown; cause?: { code?: unknown } } | null)?.code ??
         (error as { cause?: { code?: unknown } } | null)?.cause?.code;
       if (attempt >= attempts || typeof code !== 'string' || !RETRYABLE.has(code)) throw error;
       await new Promise((resolve) => setTimeout(resolve, 10 * attempt + Math.random() * 20));

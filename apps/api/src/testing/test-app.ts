@@ -5,7 +5,10 @@ import type { EventBus } from '../platform/events';
 export const TEST_JWT_SECRET = 'test-secret-that-is-long-enough-for-hs256-0123456789';
 
 /** The real app in-process, as `npm start` builds it, minus the web files. */
-export function createTestApp(db: Database, overrides: { loginMaxFailures?: number; events?: EventBus } = {}) {
+export function createTestApp(
+  db: Database,
+  overrides: { loginMaxFailures?: number; events?: EventBus } = {},
+) {
   return createApp({
     db,
     config: {

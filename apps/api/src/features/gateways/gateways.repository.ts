@@ -6,7 +6,11 @@ const { gateways } = schema;
 export type GatewayRow = typeof gateways.$inferSelect;
 
 export async function listGateways(db: Queryable, farmId: number): Promise<GatewayRow[]> {
-  return db.select().from(gateways).where(eq(gateways.farmId, farmId)).orderBy(asc(gateways.name), asc(gateways.id));
+  return db
+    .select()
+    .from(gateways)
+    .where(eq(gateways.farmId, farmId))
+    .orderBy(asc(gateways.name), asc(gateways.id));
 }
 
 export async function findGateway(db: Queryable, id: number): Promise<GatewayRow | undefined> {

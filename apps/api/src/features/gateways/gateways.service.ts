@@ -5,7 +5,13 @@ import type { RequestContext } from '../../platform/auth';
 import { notFound } from '../../platform/errors';
 import { newGatewayKey } from '../../platform/gateway-keys';
 import { recordAudit } from '../audit/audit.repository';
-import { findGateway, insertGateway, listGateways, revokeGateway, type GatewayRow } from './gateways.repository';
+import {
+  findGateway,
+  insertGateway,
+  listGateways,
+  revokeGateway,
+  type GatewayRow,
+} from './gateways.repository';
 
 export interface GatewaysService {
   list(ctx: RequestContext, farmId: number): Promise<Gateway[]>;

@@ -96,9 +96,18 @@ export async function insertReadings(
   db: Queryable,
   farmId: number,
   rows: ReadingRows,
-): Promise<{ added: number; perHouse: { houseId: number; added: number; eggs: number; firstTs: Date; lastTs: Date }[] }> {
+): Promise<{
+  added: number;
+  perHouse: { houseId: number; added: number; eggs: number; firstTs: Date; lastTs: Date }[];
+}> {
   if (rows.counterIds.length === 0) return { added: 0, perHouse: [] };
-  const result = await db.execute<{ house_id: number | null; added: number; eggs: number; first_ts: Date; last_ts: Date }>(sql`
+  const result = await db.execute<{
+    house_id: number | null;
+    added: number;
+    eggs: number;
+    first_ts: Date;
+    last_ts: Date;
+  }>(sql`
     WITH input AS (
       SELECT * FROM unnest(${sql.param(rows.counterIds)}::int[], ${sql.param(rows.ts)}::timestamptz[],
                            ${sql.param(rows.eggs)}::int[], ${sql.param(rows.totals)}::int[])
@@ -121,7 +130,13 @@ export async function insertReadings(
   for (const row of result.rows) {
     added += row.added;
     if (row.house_id !== null) {
-      perHouse.push({ houseId: row.house_id, added: row.added, eggs: row.eggs, firstTs: new Date(row.first_ts), lastTs: new Date(row.last_ts) });
+      perHouse.push({
+        houseId: row.house_id,
+        added: row.added,
+        eggs: row.eggs,
+        firstTs: new Date(row.first_ts),
+        lastTs: new Date(row.last_ts),
+      });
     }
   }
   return { added, perHouse };
@@ -151,11 +166,19 @@ export async function adjustReadings(
 
 /** Locks counters (in id order, so concurrent batches cannot deadlock on them) for running-total work. */
 export async function lockCounters(db: Queryable, ids: number[]): Promise<void> {
-  await db.execute(sql`SELECT id FROM counters WHERE id = ANY(${sql.param(ids)}::int[]) ORDER BY id FOR UPDATE`);
+  await db.execute(
+    sql`SELECT id FROM counters WHERE id = ANY(${sql.param(ids)}::int[]) ORDER BY id FOR UPDATE`,
+  );
 }
 
 /** A counter's stored readings from the last one before `from` to the first one after `to`. */
-export async function readingsAround(db: Queryable, farmId: number, counterId: number, from: Date, to: Date) {
+export async function readingsAround(
+  db: Queryable,
+  farmId: number,
+  counterId: number,
+  from: Date,
+  to: Date,
+) {
   const result = await db.execute<{ ts: Date; eggs: number; total: number | null }>(sql`
     (SELECT ts, eggs, total FROM readings WHERE farm_id = ${farmId} AND counter_id = ${counterId} AND ts < ${from}
        ORDER BY ts DESC LIMIT 1)
@@ -171,7 +194,10 @@ export async function readingsAround(db: Queryable, farmId: number, counterId: n
 }
 
 /** Drops raw readings of months that ended before `before`; rollups stay. Returns the dropped partitions. */
-export async function dropReadingPartitionsBefore(db: Queryable, before: string): Promise<string[]> {
+export async function dropReadingPartitionsBefore(
+  db: Queryable,
+  before: string,
+): Promise<string[]> {
   const result = await db.execute<{ name: string }>(
     sql`SELECT drop_readings_partitions_before(${before}::date) AS name`,
   );

@@ -14,10 +14,19 @@ let app: ReturnType<typeof createTestApp>;
 const events = createEventBus();
 let keyA: string;
 let keyB: string;
-let countersA: { id: number; externalId: string; kind: string; row: number | null; tier: number | null }[];
+let countersA: {
+  id: number;
+  externalId: string;
+  kind: string;
+  row: number | null;
+  tier: number | null;
+}[];
 
 const post = (key: string, readings: unknown[]) =>
-  request(app).post('/api/v1/ingest/readings').set('Authorization', `Bearer ${key}`).send({ readings });
+  request(app)
+    .post('/api/v1/ingest/readings')
+    .set('Authorization', `Bearer ${key}`)
+    .send({ readings });
 
 /** A fixed morning so tests never depend on the clock: 2026-11-20 09:00 UTC. */
 const at = (minutes: number) => new Date(Date.UTC(2026, 10, 20, 9, minutes)).toISOString();
@@ -33,16 +42,29 @@ beforeAll(async () => {
   app = createTestApp(database.db, { events });
   const adminA = await bearerFor(app, fixture.usersA.admin.email);
   const adminB = await bearerFor(app, fixture.adminB.email);
-  keyA = (await request(app).post(`/api/v1/farms/${fixture.farmA}/gateways`).set('Authorization', adminA).send({ name: 'Barn A gateway' })).body.key;
-  keyB = (await request(app).post(`/api/v1/farms/${fixture.farmB}/gateways`).set('Authorization', adminB).send({ name: 'Barn B gateway' })).body.key;
-  countersA = (await request(app).get(`/api/v1/houses/${fixture.houseA}/counters`).set('Authorization', adminA)).body;
+  keyA = (
+    await request(app)
+      .post(`/api/v1/farms/${fixture.farmA}/gateways`)
+      .set('Authorization', adminA)
+      .send({ name: 'Barn A gateway' })
+  ).body.key;
+  keyB = (
+    await request(app)
+      .post(`/api/v1/farms/${fixture.farmB}/gateways`)
+      .set('Authorization', adminB)
+      .send({ name: 'Barn B gateway' })
+  ).body.key;
+  countersA = (
+    await request(app).get(`/api/v1/houses/${fixture.houseA}/counters`).set('Authorization', adminA)
+  ).body;
   // Readings in November 2026 need its partition; the service makes missing ones itself.
 });
 afterAll(async () => {
   await database.drop();
 });
 
-const belt = (row: number, tier: number) => countersA.find((c) => c.row === row && c.tier === tier)!.externalId;
+const belt = (row: number, tier: number) =>
+  countersA.find((c) => c.row === row && c.tier === tier)!.externalId;
 const collector = () => countersA.find((c) => c.kind === 'collector')!.externalId;
 
 describe('POST /api/v1/ingest/readings', () => {
@@ -56,11 +78,21 @@ describe('POST /api/v1/ingest/readings', () => {
     ]);
     stop();
     expect(response.status).toBe(200);
-    expect(response.body).toEqual({ accepted: 3, duplicates: 0, rejected: [], unmappedCounters: [] });
+    expect(response.body).toEqual({
+      accepted: 3,
+      duplicates: 0,
+      rejected: [],
+      unmappedCounters: [],
+    });
     expect(await scalar(sql`select sum(eggs)::int as n from readings`)).toBe(460);
     // One event for the one house touched, with only the new readings in it.
     expect(received).toEqual([
-      expect.objectContaining({ farmId: fixture.farmA, houseId: fixture.houseA, readingsAdded: 3, eggsAdded: 460 }),
+      expect.objectContaining({
+        farmId: fixture.farmA,
+        houseId: fixture.houseA,
+        readingsAdded: 3,
+        eggsAdded: 460,
+      }),
     ]);
   });
 
@@ -78,7 +110,11 @@ describe('POST /api/v1/ingest/readings', () => {
 
   it('counts a reading repeated inside one batch once', async () => {
     const reading = { counter: belt(3, 1), ts: at(10), eggs: 9 };
-    const response = await post(keyA, [reading, reading, { ...reading, ts: at(10).replace('Z', '+00:00') }]);
+    const response = await post(keyA, [
+      reading,
+      reading,
+      { ...reading, ts: at(10).replace('Z', '+00:00') },
+    ]);
     expect(response.body).toMatchObject({ accepted: 1, duplicates: 2 });
   });
 
@@ -90,16 +126,23 @@ describe('POST /api/v1/ingest/readings', () => {
     ]);
     expect(response.body.accepted).toBe(3);
     const id = countersA.find((c) => c.externalId === belt(4, 1))!.id;
-    const rows = await database.db.execute<{ eggs: number }>(sql`select eggs from readings where counter_id = ${id} order by ts`);
+    const rows = await database.db.execute<{ eggs: number }>(
+      sql`select eggs from readings where counter_id = ${id} order by ts`,
+    );
     expect(rows.rows.map((r) => r.eggs)).toEqual([1, 2, 3]);
   });
 
   it('turns running totals into intervals and treats a lower total as a counter reset', async () => {
     const counter = belt(1, 3);
-    const response = await post(keyA, [100, 130, 160, 20, 50].map((total, i) => ({ counter, ts: at(i * 5), total })));
+    const response = await post(
+      keyA,
+      [100, 130, 160, 20, 50].map((total, i) => ({ counter, ts: at(i * 5), total })),
+    );
     expect(response.body.accepted).toBe(5);
     const id = countersA.find((c) => c.externalId === counter)!.id;
-    const rows = await database.db.execute<{ eggs: number }>(sql`select eggs from readings where counter_id = ${id} order by ts`);
+    const rows = await database.db.execute<{ eggs: number }>(
+      sql`select eggs from readings where counter_id = ${id} order by ts`,
+    );
     // The first total is the baseline (0); 160 → 20 is a reset, so 20 eggs, never −140.
     expect(rows.rows.map((r) => r.eggs)).toEqual([0, 30, 30, 20, 30]);
   });
@@ -107,11 +150,18 @@ describe('POST /api/v1/ingest/readings', () => {
   it('recounts the next stored total when a total arrives late', async () => {
     const counter = belt(2, 3);
     const id = countersA.find((c) => c.externalId === counter)!.id;
-    await post(keyA, [{ counter, ts: at(0), total: 1000 }, { counter, ts: at(20), total: 1060 }]);
+    await post(keyA, [
+      { counter, ts: at(0), total: 1000 },
+      { counter, ts: at(20), total: 1060 },
+    ]);
     await post(keyA, [{ counter, ts: at(10), total: 1025 }]);
-    const rows = await database.db.execute<{ eggs: number }>(sql`select eggs from readings where counter_id = ${id} order by ts`);
+    const rows = await database.db.execute<{ eggs: number }>(
+      sql`select eggs from readings where counter_id = ${id} order by ts`,
+    );
     expect(rows.rows.map((r) => r.eggs)).toEqual([0, 25, 35]);
-    const hourly = await scalar(sql`select sum(eggs)::int as n from counter_hour_rollups where counter_id = ${id}`);
+    const hourly = await scalar(
+      sql`select sum(eggs)::int as n from counter_hour_rollups where counter_id = ${id}`,
+    );
     expect(hourly).toBe(60);
   });
 
@@ -129,7 +179,9 @@ describe('POST /api/v1/ingest/readings', () => {
     ]);
     expect(response.status).toBe(200);
     expect(response.body.accepted).toBe(2);
-    expect(response.body.rejected.map((r: { index: number }) => r.index)).toEqual([1, 2, 3, 4, 5, 6, 7]);
+    expect(response.body.rejected.map((r: { index: number }) => r.index)).toEqual([
+      1, 2, 3, 4, 5, 6, 7,
+    ]);
     const reasons = response.body.rejected.map((r: { reason: string }) => r.reason);
     expect(reasons[0]).toMatch(/future/);
     expect(reasons[1]).toMatch(/negative/);
@@ -142,13 +194,19 @@ describe('POST /api/v1/ingest/readings', () => {
   it('keeps readings of an unknown counter as an unmapped counter and says so', async () => {
     const response = await post(keyA, [{ counter: 'NEW-BELT-77', ts: at(0), eggs: 5 }]);
     expect(response.body).toMatchObject({ accepted: 1, unmappedCounters: ['NEW-BELT-77'] });
-    const held = await scalar(sql`select count(*)::int as n from readings r join counters c on c.id = r.counter_id where c.external_id = 'NEW-BELT-77' and c.house_id is null`);
+    const held = await scalar(
+      sql`select count(*)::int as n from readings r join counters c on c.id = r.counter_id where c.external_id = 'NEW-BELT-77' and c.house_id is null`,
+    );
     expect(held).toBe(1);
   });
 
   it('refuses a batch of more than 10,000 readings with 413 and keeps none of it', async () => {
     const before = await scalar(sql`select count(*)::int as n from readings`);
-    const readings = Array.from({ length: 10_001 }, (_, i) => ({ counter: belt(3, 2), ts: new Date(Date.UTC(2026, 10, 1) + i * 1000).toISOString(), eggs: 1 }));
+    const readings = Array.from({ length: 10_001 }, (_, i) => ({
+      counter: belt(3, 2),
+      ts: new Date(Date.UTC(2026, 10, 1) + i * 1000).toISOString(),
+      eggs: 1,
+    }));
     const response = await post(keyA, readings);
     expect(response.status).toBe(413);
     expect(await scalar(sql`select count(*)::int as n from readings`)).toBe(before);
@@ -161,34 +219,54 @@ describe('POST /api/v1/ingest/readings', () => {
   });
 
   it("never lets one farm's key write into another farm", async () => {
-    const farmABefore = await scalar(sql`select count(*)::int as n from readings where farm_id = ${fixture.farmA}`);
+    const farmABefore = await scalar(
+      sql`select count(*)::int as n from readings where farm_id = ${fixture.farmA}`,
+    );
     const response = await post(keyB, [{ counter: belt(1, 1), ts: at(45), eggs: 999 }]);
     // Farm B has no counter of that id: it is held as farm B's unmapped counter, not farm A's.
     expect(response.body.unmappedCounters).toEqual([belt(1, 1)]);
-    expect(await scalar(sql`select count(*)::int as n from readings where farm_id = ${fixture.farmA}`)).toBe(farmABefore);
+    expect(
+      await scalar(sql`select count(*)::int as n from readings where farm_id = ${fixture.farmA}`),
+    ).toBe(farmABefore);
   });
 
   it('refuses a revoked key', async () => {
     const admin = await bearerFor(app, fixture.usersA.admin.email);
-    const created = await request(app).post(`/api/v1/farms/${fixture.farmA}/gateways`).set('Authorization', admin).send({ name: 'Old gateway' });
-    expect((await post(created.body.key, [{ counter: belt(1, 1), ts: at(50), eggs: 1 }])).status).toBe(200);
-    await request(app).post(`/api/v1/gateways/${created.body.id}/revoke`).set('Authorization', admin).expect(200);
+    const created = await request(app)
+      .post(`/api/v1/farms/${fixture.farmA}/gateways`)
+      .set('Authorization', admin)
+      .send({ name: 'Old gateway' });
+    expect(
+      (await post(created.body.key, [{ counter: belt(1, 1), ts: at(50), eggs: 1 }])).status,
+    ).toBe(200);
+    await request(app)
+      .post(`/api/v1/gateways/${created.body.id}/revoke`)
+      .set('Authorization', admin)
+      .expect(200);
     const response = await post(created.body.key, [{ counter: belt(1, 1), ts: at(51), eggs: 1 }]);
     expect(response.status).toBe(401);
   });
 
   it('refuses user tokens, and gateway keys anywhere but ingest', async () => {
     const manager = await bearerFor(app, fixture.usersA.manager.email);
-    const asUser = await request(app).post('/api/v1/ingest/readings').set('Authorization', manager).send({ readings: [] });
+    const asUser = await request(app)
+      .post('/api/v1/ingest/readings')
+      .set('Authorization', manager)
+      .send({ readings: [] });
     expect(asUser.status).toBe(401);
-    const asGateway = await request(app).get('/api/v1/farms').set('Authorization', `Bearer ${keyA}`);
+    const asGateway = await request(app)
+      .get('/api/v1/farms')
+      .set('Authorization', `Bearer ${keyA}`);
     expect(asGateway.status).toBe(401);
     const noKey = await request(app).post('/api/v1/ingest/readings').send({ readings: [] });
     expect(noKey.status).toBe(401);
   });
 
   it('answers a malformed envelope with 400', async () => {
-    const response = await request(app).post('/api/v1/ingest/readings').set('Authorization', `Bearer ${keyA}`).send({ readings: 'lots' });
+    const response = await request(app)
+      .post('/api/v1/ingest/readings')
+      .set('Authorization', `Bearer ${keyA}`)
+      .send({ readings: 'lots' });
     expect(response.status).toBe(400);
   });
 });
@@ -197,20 +275,25 @@ describe('rollups', () => {
   it('equal the sum of their raw readings after a messy replay', async () => {
     // Deterministic shuffle (a small LCG) so a failure can be replayed.
     let seed = 42;
-    const random = () => ((seed = (seed * 1103515245 + 12345) % 2 ** 31) / 2 ** 31);
+    const random = () => (seed = (seed * 1103515245 + 12345) % 2 ** 31) / 2 ** 31;
     const belts = countersA.filter((c) => c.kind === 'belt').map((c) => c.externalId);
     const all: { counter: string; ts: string; eggs?: number; total?: number }[] = [];
     // Two production days either side of lights-on (04:00 Chicago = 10:00 UTC in November).
     for (let step = 0; step < 96; step++) {
       const ts = new Date(Date.UTC(2026, 10, 21, 8) + step * 15 * 60_000).toISOString();
-      for (const c of belts.slice(0, 6)) all.push({ counter: c, ts, eggs: Math.floor(random() * 50) });
+      for (const c of belts.slice(0, 6))
+        all.push({ counter: c, ts, eggs: Math.floor(random() * 50) });
       all.push({ counter: collector(), ts, eggs: Math.floor(random() * 300) });
     }
     let total = 0;
     const totalCounter = belts[7]!;
     for (let step = 0; step < 40; step++) {
       total = step === 25 ? 3 : total + Math.floor(random() * 20);
-      all.push({ counter: totalCounter, ts: new Date(Date.UTC(2026, 10, 21, 9) + step * 30 * 60_000).toISOString(), total });
+      all.push({
+        counter: totalCounter,
+        ts: new Date(Date.UTC(2026, 10, 21, 9) + step * 30 * 60_000).toISOString(),
+        total,
+      });
     }
     const shuffled = [...all].sort(() => random() - 0.5);
     const batches: (typeof all)[] = [];
@@ -243,9 +326,12 @@ describe('rollups', () => {
       where raw.eggs is distinct from r.eggs`);
     expect(mismatchedCollectorDays).toBe(0);
     // And nothing was lost or doubled: the database holds exactly the distinct interval readings sent.
-    const sentIntervals = new Map(all.filter((r) => r.eggs !== undefined).map((r) => [`${r.counter}|${r.ts}`, r.eggs!]));
+    const sentIntervals = new Map(
+      all.filter((r) => r.eggs !== undefined).map((r) => [`${r.counter}|${r.ts}`, r.eggs!]),
+    );
     const expected = [...sentIntervals.values()].reduce((a, b) => a + b, 0);
-    const stored = await scalar(sql`select sum(r.eggs)::int as n from readings r join counters c on c.id = r.counter_id
+    const stored =
+      await scalar(sql`select sum(r.eggs)::int as n from readings r join counters c on c.id = r.counter_id
       where r.ts >= '2026-11-21T08:00Z' and c.external_id <> ${totalCounter}`);
     expect(stored).toBe(expected);
   });
@@ -260,7 +346,10 @@ describe('rollups', () => {
     const days = await database.db.execute<{ day: string; eggs: number }>(sql`
       select day::text, eggs from section_day_rollups d join counters c on c.section_id = d.section_id
       where c.id = ${counter.id} and day between '2026-11-24' and '2026-11-25' order by day`);
-    expect(days.rows).toEqual([{ day: '2026-11-24', eggs: 7 }, { day: '2026-11-25', eggs: 11 }]);
+    expect(days.rows).toEqual([
+      { day: '2026-11-24', eggs: 7 },
+      { day: '2026-11-25', eggs: 11 },
+    ]);
   });
 });
 
@@ -269,12 +358,26 @@ describe('retention', () => {
     const counter = belt(3, 2);
     await post(keyA, [{ counter, ts: '2025-03-10T12:00:00Z', eggs: 77 }]);
     const id = countersA.find((c) => c.externalId === counter)!.id;
-    expect(await scalar(sql`select count(*)::int as n from readings where counter_id = ${id} and ts < '2025-06-01'`)).toBe(1);
+    expect(
+      await scalar(
+        sql`select count(*)::int as n from readings where counter_id = ${id} and ts < '2025-06-01'`,
+      ),
+    ).toBe(1);
     const dropped = await dropReadingPartitionsBefore(database.db, '2025-06-01');
     expect(dropped).toContain('readings_2025_03');
-    expect(await scalar(sql`select count(*)::int as n from readings where counter_id = ${id} and ts < '2025-06-01'`)).toBe(0);
-    expect(await scalar(sql`select sum(eggs)::int as n from counter_hour_rollups where counter_id = ${id} and hour < '2025-06-01'`)).toBe(77);
+    expect(
+      await scalar(
+        sql`select count(*)::int as n from readings where counter_id = ${id} and ts < '2025-06-01'`,
+      ),
+    ).toBe(0);
+    expect(
+      await scalar(
+        sql`select sum(eggs)::int as n from counter_hour_rollups where counter_id = ${id} and hour < '2025-06-01'`,
+      ),
+    ).toBe(77);
     // Newer months are untouched.
-    expect(await scalar(sql`select count(*)::int as n from readings where ts >= '2026-11-01'`)).toBeGreaterThan(0);
+    expect(
+      await scalar(sql`select count(*)::int as n from readings where ts >= '2026-11-01'`),
+    ).toBeGreaterThan(0);
   });
 });

@@ -21,7 +21,12 @@ function gatewayAuth(db: Database): RequestHandler {
     const header = req.headers.authorization ?? '';
     const token = header.startsWith('Bearer ') ? header.slice('Bearer '.length).trim() : '';
     if (!looksLikeGatewayKey(token)) {
-      next(new AppError('unauthenticated', 'Send a gateway key as the bearer token; user sign-ins cannot ingest'));
+      next(
+        new AppError(
+          'unauthenticated',
+          'Send a gateway key as the bearer token; user sign-ins cannot ingest',
+        ),
+      );
       return;
     }
     const gateway = await findActiveGatewayByHash(db, hashGatewayKey(token));

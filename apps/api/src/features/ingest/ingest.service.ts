@@ -36,7 +36,11 @@ export interface IngestService {
   ingest(gateway: GatewayContext, readings: unknown[]): Promise<IngestResult>;
 }
 
-export function createIngestService(db: Database, events: EventBus, now: () => Date = () => new Date()): IngestService {
+export function createIngestService(
+  db: Database,
+  events: EventBus,
+  now: () => Date = () => new Date(),
+): IngestService {
   const knownMonths = new Set<string>();
 
   async function ensureMonths(items: Valid[]): Promise<void> {
@@ -51,7 +55,10 @@ export function createIngestService(db: Database, events: EventBus, now: () => D
   return {
     async ingest(gateway, readings) {
       if (readings.length > MAX_READINGS_PER_BATCH) {
-        throw new AppError('payload_too_large', `A batch holds at most ${MAX_READINGS_PER_BATCH} readings`);
+        throw new AppError(
+          'payload_too_large',
+          `A batch holds at most ${MAX_READINGS_PER_BATCH} readings`,
+        );
       }
       const rejected: IngestResult['rejected'] = [];
       const latestAllowed = now().getTime() + MAX_FUTURE_SKEW_MS;
@@ -63,7 +70,14 @@ export function createIngestService(db: Database, events: EventBus, now: () => D
         if (!parsed.success) {
           const issue = parsed.error.issues[0];
           const field = issue?.path.join('.');
-          rejected.push({ index, reason: issue ? (field ? `${field}: ${issue.message}` : issue.message) : 'invalid reading' });
+          rejected.push({
+            index,
+            reason: issue
+              ? field
+                ? `${field}: ${issue.message}`
+                : issue.message
+              : 'invalid reading',
+          });
           return;
         }
         const ts = new Date(parsed.data.ts);
@@ -77,11 +91,22 @@ export function createIngestService(db: Database, events: EventBus, now: () => D
           return;
         }
         seen.add(key);
-        valid.push({ index, counter: parsed.data.counter, ts, eggs: parsed.data.eggs, total: parsed.data.total });
+        valid.push({
+          index,
+          counter: parsed.data.counter,
+          ts,
+          eggs: parsed.data.eggs,
+          total: parsed.data.total,
+        });
       });
 
-      const counters = await resolveCounters(db, gateway.farmId, [...new Set(valid.map((r) => r.counter))]);
-      const unmappedCounters = [...counters.values()].filter((c) => c.houseId === null).map((c) => c.externalId).sort();
+      const counters = await resolveCounters(db, gateway.farmId, [
+        ...new Set(valid.map((r) => r.counter)),
+      ]);
+      const unmappedCounters = [...counters.values()]
+        .filter((c) => c.houseId === null)
+        .map((c) => c.externalId)
+        .sort();
       await ensureMonths(valid);
 
       const outcome = await withRetryOnConflict(() =>
@@ -145,14 +170,19 @@ async function prepareTotals(
   tx: Parameters<Parameters<Database['transaction']>[0]>[0],
   farmId: number,
   byCounter: Map<number, Valid[]>,
-): Promise<{ inserts: ReadingRows; adjustments: { counterIds: number[]; ts: Date[]; deltas: number[] } }> {
+): Promise<{
+  inserts: ReadingRows;
+  adjustments: { counterIds: number[]; ts: Date[]; deltas: number[] };
+}> {
   const inserts: ReadingRows = { counterIds: [], ts: [], eggs: [], totals: [] };
   const adjustments = { counterIds: [] as number[], ts: [] as Date[], deltas: [] as number[] };
   if (byCounter.size === 0) return { inserts, adjustments };
   const ids = [...byCounter.keys()].sort((a, b) => a - b);
   await lockCounters(tx, ids);
   for (const counterId of ids) {
-    const incoming = (byCounter.get(counterId) ?? []).sort((a, b) => a.ts.getTime() - b.ts.getTime());
+    const incoming = (byCounter.get(counterId) ?? []).sort(
+      (a, b) => a.ts.getTime() - b.ts.getTime(),
+    );
     const first = incoming[0];
     const last = incoming.at(-1);
     if (!first || !last) continue;
