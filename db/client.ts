@@ -13,8 +13,12 @@ export interface DatabaseHandle {
 /** One pool per process; the API, scripts and tests all open the database through here. */
 export function openDatabase(url: string, options: { max?: number } = {}): DatabaseHandle {
   const pool = new pg.Pool({ connectionString: url, max: options.max ?? 10 });
-  // An idle client losing its connection (database restart) must not crash the process.
+  // A connection lost to a database restart must not crash the process: the query in progress fails
+  // (and the caller answers 503), idle clients are dropped, and the pool reconnects on the next query.
   pool.on('error', () => undefined);
+  pool.on('connect', (client) => {
+    client.on('error', () => undefined);
+  });
   const db = drizzle({ client: pool, schema });
   return { db, pool, close: () => pool.end() };
 }

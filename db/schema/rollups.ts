@@ -25,7 +25,9 @@ export const counterHourRollups = pgTable(
     eggs: integer('eggs').notNull(),
   },
   // Day curves read a counter's hours in order.
-  (t) => [primaryKey({ name: 'counter_hour_rollups_pk', columns: [t.farmId, t.counterId, t.hour] })],
+  (t) => [
+    primaryKey({ name: 'counter_hour_rollups_pk', columns: [t.farmId, t.counterId, t.hour] }),
+  ],
 );
 
 /** Eggs of one section on one production day (starting at lights-on, in the house's time zone). */

@@ -9,16 +9,22 @@ async function main(): Promise<void> {
   const database = openDatabase(config.databaseUrl);
   await runMigrations(database.db);
   const housekeeping = async () => {
-    const { dropped } = await maintainReadingPartitions(database.db, config.readingsRetentionMonths);
+    const { dropped } = await maintainReadingPartitions(
+      database.db,
+      config.readingsRetentionMonths,
+    );
     if (dropped.length > 0) console.log(`[api] retention: dropped ${dropped.join(', ')}`);
   };
   await housekeeping();
   // Daily; unref'd so it never keeps the process alive on shutdown.
-  setInterval(() => {
-    housekeeping().catch((error: unknown) => {
-      console.error('[api] partition housekeeping failed', error);
-    });
-  }, 24 * 3600 * 1000).unref();
+  setInterval(
+    () => {
+      housekeeping().catch((error: unknown) => {
+        console.error('[api] partition housekeeping failed', error);
+      });
+    },
+    24 * 3600 * 1000,
+  ).unref();
   const app = createApp({ db: database.db, config });
   const server = app.listen(config.port, config.host, () => {
     console.log(`[api] listening on http://${config.host}:${config.port}`);

@@ -5,3 +5,4 @@ export * from './house.schema';
 export * from './user.schema';
 export * from './health.schema';
 export * from './ingest.schema';
+export * from './simulator.schema';

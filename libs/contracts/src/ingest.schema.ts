@@ -11,7 +11,7 @@ export const MAX_EGGS_PER_READING = 1_000_000;
 export const readingInputSchema = z
   .object({
     counter: z.string().trim().min(1, 'counter is empty').max(100, 'counter id is too long'),
-    ts: z.iso.datetime({ offset: true, message: 'ts must be an ISO-8601 time with an offset' }),
+    ts: z.iso.datetime({ offset: true, error: 'ts must be an ISO-8601 time with an offset' }),
     eggs: z
       .number('eggs must be a number')
       .int('eggs must be a whole number')
@@ -26,7 +26,7 @@ export const readingInputSchema = z
       .optional(),
   })
   .refine((r) => (r.eggs === undefined) !== (r.total === undefined), {
-    message: 'give either eggs or total, not both or neither',
+    error: 'give either eggs or total, not both or neither',
   });
 export type ReadingInput = z.infer<typeof readingInputSchema>;
 

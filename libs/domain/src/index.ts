@@ -2,3 +2,4 @@ export * from './roles';
 export * from './house-layout';
 export * from './clock';
 export * from './running-totals';
+export * from './production-day';

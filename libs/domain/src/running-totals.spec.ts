@@ -16,7 +16,12 @@ describe('intervalsFromTotals', () => {
   });
 
   it('never returns a negative count', () => {
-    for (const [previous, total] of [[10, 3], [0, 0], [5, 5], [2 ** 31 - 1, 0]] as const) {
+    for (const [previous, total] of [
+      [10, 3],
+      [0, 0],
+      [5, 5],
+      [2 ** 31 - 1, 0],
+    ] as const) {
       expect(intervalFromTotals(previous, total)).toBeGreaterThanOrEqual(0);
     }
   });

@@ -10,7 +10,10 @@ export function intervalFromTotals(previousTotal: number | null, total: number):
 }
 
 /** Interval counts for a time-ordered run of totals that follows `previousTotal`. */
-export function intervalsFromTotals(previousTotal: number | null, totals: readonly number[]): number[] {
+export function intervalsFromTotals(
+  previousTotal: number | null,
+  totals: readonly number[],
+): number[] {
   const eggs: number[] = [];
   let previous = previousTotal;
   for (const total of totals) {

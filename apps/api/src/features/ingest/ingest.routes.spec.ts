@@ -33,7 +33,7 @@ const at = (minutes: number) => new Date(Date.UTC(2026, 10, 20, 9, minutes)).toI
 
 async function scalar(query: ReturnType<typeof sql>): Promise<number> {
   const result = await database.db.execute<{ n: number | null }>(query);
-  return Number(result.rows[0]?.n ?? 0);
+  return result.rows[0]?.n ?? 0;
 }
 
 beforeAll(async () => {

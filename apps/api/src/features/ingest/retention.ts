@@ -3,7 +3,9 @@ import { dropReadingPartitionsBefore, ensureReadingPartitions } from './ingest.r
 
 /** First day (UTC) of the month `offset` months from `now`, as YYYY-MM-DD. */
 export function monthStart(now: Date, offset: number): string {
-  return new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() + offset, 1)).toISOString().slice(0, 10);
+  return new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() + offset, 1))
+    .toISOString()
+    .slice(0, 10);
 }
 
 /**
@@ -16,7 +18,10 @@ export async function maintainReadingPartitions(
   retentionMonths: number,
   now = new Date(),
 ): Promise<{ dropped: string[] }> {
-  await ensureReadingPartitions(db, [0, 1, 2, 3].map((m) => monthStart(now, m)));
+  await ensureReadingPartitions(
+    db,
+    [0, 1, 2, 3].map((m) => monthStart(now, m)),
+  );
   const dropped = await dropReadingPartitionsBefore(db, monthStart(now, -retentionMonths));
   return { dropped };
 }

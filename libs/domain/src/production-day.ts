@@ -1,0 +1,56 @@
+import { minutesOfDay } from './clock';
+
+/** Wall-clock parts of an instant in an IANA zone. */
+export function localParts(instant: Date, timeZone: string) {
+  const parts = new Intl.DateTimeFormat('en-CA', {
+    timeZone,
+    year: 'numeric',
+    month: '2-digit',
+    day: '2-digit',
+    hour: '2-digit',
+    minute: '2-digit',
+    second: '2-digit',
+    hourCycle: 'h23',
+  }).formatToParts(instant);
+  const get = (type: Intl.DateTimeFormatPartTypes) =>
+    Number(parts.find((p) => p.type === type)?.value);
+  return {
+    year: get('year'),
+    month: get('month'),
+    day: get('day'),
+    hour: get('hour'),
+    minute: get('minute'),
+    second: get('second'),
+  };
+}
+
+/**
+ * Minutes since the most recent lights-on, by the house's own wall clock (0 … 1439). A production day starts
+ * at lights-on in the house's time zone, so this is also how far into its production day an instant is.
+ */
+export function minutesSinceLightsOn(instant: Date, timeZone: string, lightsOn: string): number {
+  const start = minutesOfDay(lightsOn);
+  if (start === null) throw new RangeError(`lights-on "${lightsOn}" is not HH:MM`);
+  const local = localParts(instant, timeZone);
+  const now = local.hour * 60 + local.minute + local.second / 60;
+  return (now - start + 1440) % 1440;
+}
+
+/**
+ * The production day (local calendar date, YYYY-MM-DD) an instant belongs to: the date of the lights-on that
+ * began it. The same rule as the database rollups: ((ts AT TIME ZONE zone) − lights_on)::date.
+ */
+export function productionDayOf(instant: Date, timeZone: string, lightsOn: string): string {
+  const start = minutesOfDay(lightsOn);
+  if (start === null) throw new RangeError(`lights-on "${lightsOn}" is not HH:MM`);
+  const local = localParts(instant, timeZone);
+  const wall = Date.UTC(
+    local.year,
+    local.month - 1,
+    local.day,
+    local.hour,
+    local.minute,
+    local.second,
+  );
+  return new Date(wall - start * 60_000).toISOString().slice(0, 10);
+}
