@@ -10,7 +10,15 @@ import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { join } from 'node:path';
 import { openDatabase, runMigrations } from '@tierscope/db';
-import { DEMO_PASSWORD, DEMO_USERS, isEmpty, seedDemo } from '@tierscope/db/seed';
+import {
+  DEMO_PASSWORD,
+  DEMO_USERS,
+  demoFlocks,
+  hasReadings,
+  isEmpty,
+  seedDemo,
+} from '@tierscope/db/seed';
+import { prepareSimulatorFarms } from './demo-simulator';
 import { recreateDatabase, startCluster } from './postgres';
 
 const ROOT = new URL('..', import.meta.url).pathname;
@@ -108,6 +116,8 @@ async function main(): Promise<void> {
   } else {
     log('database already has data: demo seed skipped (npm start -- --reset to start over)');
   }
+  const flocks = await demoFlocks(database.db);
+  const isHistoryMissing = !(await hasReadings(database.db));
   await database.close();
 
   if (!process.argv.includes('--skip-build')) {
@@ -147,6 +157,40 @@ async function main(): Promise<void> {
   });
   const url = `http://127.0.0.1:${PORT}`;
   await waitForHealth(`${url}/api/health`, 60_000);
+
+  const farmFiles = await prepareSimulatorFarms({ apiUrl: url, dataDir: DATA, flocks });
+  const simulatorArgs = [
+    '--import',
+    'tsx',
+    'simulator/src/main.ts',
+    ...farmFiles.flatMap((file) => ['--farm-file', file]),
+    '--seed',
+    '2026',
+    '--interval',
+    '1',
+    ...(isHistoryMissing ? ['--backfill-days', '14', '--backfill-interval', '15'] : []),
+    // The demo's planted faults (DESIGN.md): a feed-line fault in one row, a dead counter, a slow water
+    // problem on one tier.
+    '--fault',
+    'feed:house=House 2,row=4,drop=0.15,from=-2d',
+    '--fault',
+    'silent:house=House 3,row=2,tier=1,from=-6h',
+    '--fault',
+    'water:house=House A,tier=3,decline=0.003/h,from=-3d',
+  ];
+  const simulator = spawn(process.execPath, simulatorArgs, {
+    cwd: ROOT,
+    env: process.env,
+    stdio: 'inherit',
+  });
+  children.push(simulator);
+  simulator.on('exit', (code) => {
+    if (!isStopping)
+      console.error(`[start] the simulator exited (${code}); the app keeps running without it`);
+  });
+  log(
+    isHistoryMissing ? 'simulator: backfilling 14 days of history, then live' : 'simulator: live',
+  );
 
   console.log('');
   console.log(`  Tierscope is running at ${url}`);

@@ -111,3 +111,28 @@ function shiftDays(isoDate: string, days: number): string {
   date.setUTCDate(date.getUTCDate() + days);
   return date.toISOString().slice(0, 10);
 }
+
+/** Hens and flock age per house, for the simulator to lay the demo's eggs. */
+export async function demoFlocks(db: Database, today = new Date()) {
+  const rows = await db.select().from(flocks);
+  return new Map(
+    rows
+      .filter((f) => f.endedOn === null)
+      .map((f) => {
+        const weeksInHouse =
+          (today.getTime() - new Date(`${f.placedOn}T00:00:00Z`).getTime()) / (7 * 86_400_000);
+        return [
+          f.houseId,
+          { hensHoused: f.hensHoused, flockAgeWeeks: f.ageAtPlacementWeeks + weeksInHouse },
+        ];
+      }),
+  );
+}
+
+/** True once any reading is stored: the demo's history is only backfilled into an empty database. */
+export async function hasReadings(db: Database): Promise<boolean> {
+  const result = await db.execute<{ found: boolean }>(
+    sql`select exists (select 1 from readings) as found`,
+  );
+  return result.rows[0]?.found === true;
+}

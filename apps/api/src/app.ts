@@ -34,6 +34,8 @@ export interface AppDeps {
     'jwtSecret' | 'tokenTtlSeconds' | 'loginMaxFailures' | 'loginWindowSeconds' | 'webDist'
   >;
   log?: (message: string, error?: unknown) => void;
+  /** Operational lines (ingest counts); tests pass a no-op. */
+  info?: (message: string) => void;
   /** In-process domain events; tests pass their own to listen. */
   events?: EventBus;
 }
@@ -43,6 +45,7 @@ export function createApp({
   db,
   config,
   log = defaultLog,
+  info = defaultInfo,
   events = createEventBus(),
 }: AppDeps): Express {
   const app = express();
@@ -60,7 +63,7 @@ export function createApp({
     }),
   );
   // The ingest route parses its own, larger bodies, after checking the gateway key.
-  const ingest = ingestRoutes(db, createIngestService(db, events));
+  const ingest = ingestRoutes(db, createIngestService(db, events), info);
   app.use('/api/v1', ingest);
   app.use(express.json({ limit: '1mb' }));
 
@@ -111,6 +114,10 @@ function serveWebApp(app: Express, dist: string): void {
   app.get('/{*path}', (_req, res) => {
     res.sendFile(join(root, 'index.html'));
   });
+}
+
+function defaultInfo(message: string): void {
+  console.log(`[api] ${message}`);
 }
 
 function defaultLog(message: string, error?: unknown): void {

@@ -29,6 +29,9 @@ async function main(): Promise<void> {
   const server = app.listen(config.port, config.host, () => {
     console.log(`[api] listening on http://${config.host}:${config.port}`);
   });
+  // Longer than clients' keep-alive reuse, so a gateway never sends on a socket the server is closing.
+  server.keepAliveTimeout = 65_000;
+  server.headersTimeout = 66_000;
   server.on('error', (error: NodeJS.ErrnoException) => {
     console.error(
       error.code === 'EADDRINUSE'

@@ -19,6 +19,7 @@ export function createTestApp(
       webDist: undefined,
     },
     log: () => undefined,
+    info: () => undefined,
     ...(overrides.events ? { events: overrides.events } : {}),
   });
 }

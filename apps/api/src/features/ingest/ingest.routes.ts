@@ -41,7 +41,11 @@ function gatewayAuth(db: Database): RequestHandler {
   };
 }
 
-export function ingestRoutes(db: Database, service: IngestService): Router {
+export function ingestRoutes(
+  db: Database,
+  service: IngestService,
+  info: (message: string) => void,
+): Router {
   const router = Router();
   router.post(
     '/ingest/readings',
@@ -51,7 +55,13 @@ export function ingestRoutes(db: Database, service: IngestService): Router {
       const gateway = req.gateway;
       if (!gateway) throw new AppError('unauthenticated', 'Send a gateway key');
       const batch = parseInput(readingsBatchSchema, req.body);
-      res.json(await service.ingest(gateway, batch.readings));
+      const result = await service.ingest(gateway, batch.readings);
+      if (batch.readings.length > 0) {
+        info(
+          `ingest: farm ${gateway.farmId} gateway ${gateway.gatewayId}: ${result.accepted} new, ${result.duplicates} duplicates, ${result.rejected.length} rejected`,
+        );
+      }
+      res.json(result);
     },
   );
   return router;
