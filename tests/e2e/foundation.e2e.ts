@@ -62,6 +62,7 @@ describe('roles in the web app', () => {
     // Crew belong to North Ridge only.
     expect(await page.getByRole('heading', { name: 'Willow Creek' }).count()).toBe(0);
     expect(await page.getByRole('link', { name: 'Users' }).count()).toBe(0);
+    expect(await page.getByRole('link', { name: 'Gateways' }).count()).toBe(0);
     expect(await page.getByRole('link', { name: 'Settings' }).count()).toBe(0);
     await screenshot(page, 'farms-crew');
     await page.goto(`${harness.baseUrl}/users`);

@@ -26,6 +26,13 @@ export const routes: Routes = [
           import('./features/house-settings/house-settings-page').then((m) => m.HouseSettingsPage),
       },
       {
+        path: 'gateways',
+        title: 'Gateways · Tierscope',
+        canActivate: [permissionGuard('gateways.manage')],
+        loadComponent: () =>
+          import('./features/gateways/gateways-page').then((m) => m.GatewaysPage),
+      },
+      {
         path: 'users',
         title: 'Users · Tierscope',
         canActivate: [permissionGuard('users.manage')],

@@ -10,5 +10,6 @@ export interface NavItem {
 
 export const NAV_ITEMS: readonly NavItem[] = [
   { label: 'Farms', icon: 'agriculture', link: '/farms', permission: 'farm.read' },
+  { label: 'Gateways', icon: 'router', link: '/gateways', permission: 'gateways.manage' },
   { label: 'Users', icon: 'group', link: '/users', permission: 'users.manage' },
 ];

@@ -29,11 +29,15 @@ const navLabels = (element: HTMLElement) =>
 
 describe('Shell', () => {
   it('offers the Users page to admins', () => {
-    expect(navLabels(renderAs('admin'))).toEqual(['Farms', 'Users']);
+    expect(navLabels(renderAs('admin'))).toEqual(['Farms', 'Gateways', 'Users']);
   });
 
   it('does not offer the Users page to the crew', () => {
     expect(navLabels(renderAs('crew'))).toEqual(['Farms']);
+  });
+
+  it('offers integrators the gateways but not the users', () => {
+    expect(navLabels(renderAs('integrator'))).toEqual(['Farms', 'Gateways']);
   });
 
   it('shows who is signed in', () => {
