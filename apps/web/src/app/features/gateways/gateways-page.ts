@@ -6,6 +6,7 @@ import {
   inject,
   linkedSignal,
   signal,
+  viewChild,
 } from '@angular/core';
 import { DatePipe } from '@angular/common';
 import {
