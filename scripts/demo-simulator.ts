@@ -49,7 +49,7 @@ export async function prepareSimulatorFarms({
     });
     if (!response.ok)
       throw new Error(`${init.method ?? 'GET'} ${path} answered ${response.status}`);
-    return schema.parse(await response.json()) as z.infer<S>;
+    return schema.parse(await response.json());
   };
   const session = await call(loginResponseSchema, '/api/v1/auth/login', {
     method: 'POST',

@@ -34,6 +34,10 @@ CREATE TABLE "section_day_rollups" (
 	CONSTRAINT "section_day_rollups_pk" PRIMARY KEY("farm_id","section_id","day")
 );
 --> statement-breakpoint
+ALTER TABLE "readings" DROP CONSTRAINT "readings_farm_id_farms_id_fk";
+--> statement-breakpoint
+ALTER TABLE "readings" DROP CONSTRAINT "readings_counter_id_counters_id_fk";
+--> statement-breakpoint
 ALTER TABLE "readings" ADD COLUMN "total" integer;--> statement-breakpoint
 ALTER TABLE "gateways" ADD CONSTRAINT "gateways_farm_id_farms_id_fk" FOREIGN KEY ("farm_id") REFERENCES "public"."farms"("id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "gateways" ADD CONSTRAINT "gateways_created_by_users_id_fk" FOREIGN KEY ("created_by") REFERENCES "public"."users"("id") ON DELETE set null ON UPDATE no action;--> statement-breakpoint

@@ -1,6 +1,7 @@
 -- Raw readings partitioned by month (UTC) on ts, so that old months can be dropped whole by the
 -- retention job while the rollups stay. drizzle-kit cannot express partitioning, hence this hand-written
 -- migration. The table holds no rows yet (ingest arrives with this migration), so it is recreated.
+-- No foreign keys on it: see docs/adr/0003.
 DROP TABLE "readings";
 --> statement-breakpoint
 CREATE TABLE "readings" (
@@ -9,9 +10,7 @@ CREATE TABLE "readings" (
 	"ts" timestamp with time zone NOT NULL,
 	"eggs" integer NOT NULL,
 	"total" integer,
-	CONSTRAINT "readings_pk" PRIMARY KEY("farm_id","counter_id","ts"),
-	CONSTRAINT "readings_farm_id_farms_id_fk" FOREIGN KEY ("farm_id") REFERENCES "public"."farms"("id") ON DELETE cascade,
-	CONSTRAINT "readings_counter_id_counters_id_fk" FOREIGN KEY ("counter_id") REFERENCES "public"."counters"("id") ON DELETE cascade
+	CONSTRAINT "readings_pk" PRIMARY KEY("farm_id","counter_id","ts")
 ) PARTITION BY RANGE ("ts");
 --> statement-breakpoint
 -- Creates the month's partition when it is missing; safe to call concurrently and often.

@@ -1,5 +1,6 @@
 import { schema, type Queryable } from '@tierscope/db';
 import { and, eq, inArray, sql, type SQL } from 'drizzle-orm';
+import { rollupCtes } from './rollup-ctes';
 
 const { counters } = schema;
 
@@ -49,41 +50,16 @@ export async function ensureReadingPartitions(db: Queryable, months: string[]): 
   }
 }
 
-/**
- * Adds each rollup's share of `source` (rows of counter_id, ts, eggs) in the same statement: per counter
- * per hour, per section per production day and per collector per production day. A production day starts
- * at the house's lights-on in its own time zone, so `AT TIME ZONE` handles daylight-saving days.
- */
+/** The rollup CTEs for a farm id that is known to be an integer (it comes from the gateway's row). */
 function rollUp(farmId: number, source: string): SQL {
-  return sql.raw(`
-  hourly AS (
-    INSERT INTO counter_hour_rollups AS r (farm_id, counter_id, hour, eggs)
-    SELECT ${farmId}, counter_id, date_trunc('hour', ts), sum(eggs)::int FROM ${source}
-    GROUP BY counter_id, date_trunc('hour', ts)
-    ON CONFLICT (farm_id, counter_id, hour) DO UPDATE SET eggs = r.eggs + excluded.eggs
-  ),
-  located AS (
-    SELECT c.kind, c.section_id, c.house_id, s.eggs,
-           ((s.ts AT TIME ZONE h.timezone) - h.lights_on::interval)::date AS day
-    FROM ${source} s JOIN counters c ON c.id = s.counter_id JOIN houses h ON h.id = c.house_id
-  ),
-  by_section AS (
-    INSERT INTO section_day_rollups AS r (farm_id, section_id, day, eggs)
-    SELECT ${farmId}, section_id, day, sum(eggs)::int FROM located
-    WHERE kind = 'belt' AND section_id IS NOT NULL GROUP BY section_id, day
-    ON CONFLICT (farm_id, section_id, day) DO UPDATE SET eggs = r.eggs + excluded.eggs
-  ),
-  by_collector AS (
-    INSERT INTO collector_day_rollups AS r (farm_id, house_id, day, eggs)
-    SELECT ${farmId}, house_id, day, sum(eggs)::int FROM located
-    WHERE kind = 'collector' GROUP BY house_id, day
-    ON CONFLICT (farm_id, house_id, day) DO UPDATE SET eggs = r.eggs + excluded.eggs
-  )`);
+  if (!Number.isInteger(farmId)) throw new TypeError('farmId must be an integer');
+  return sql.raw(rollupCtes(String(farmId), source));
 }
 
 export interface ReadingRows {
   counterIds: number[];
-  ts: Date[];
+  /** ISO-8601 instants: cheaper to send than Date objects, which pg formats one by one. */
+  ts: string[];
   eggs: number[];
   totals: (number | null)[];
 }

@@ -118,7 +118,7 @@ export function createIngestService(
             if (!counter) continue;
             if (r.eggs !== undefined) {
               intervals.counterIds.push(counter.id);
-              intervals.ts.push(r.ts);
+              intervals.ts.push(r.ts.toISOString());
               intervals.eggs.push(r.eggs);
               intervals.totals.push(null);
             } else {
@@ -201,7 +201,7 @@ async function prepareTotals(
       if (entry.storedEggs === null) {
         const eggs = entry.total === null ? 0 : intervalFromTotals(previousTotal, entry.total);
         inserts.counterIds.push(counterId);
-        inserts.ts.push(entry.ts);
+        inserts.ts.push(entry.ts.toISOString());
         inserts.eggs.push(eggs);
         inserts.totals.push(entry.total);
         hasNewBefore = true;

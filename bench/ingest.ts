@@ -1,0 +1,297 @@
+/**
+ * npm run bench:ingest [-- --rows 1000000 --clients 4 --batch 10000]
+ *
+ * Loads the same generated readings three ways, each into a fresh database with the same keys, in one run:
+ *   (a) the HTTP ingest API (a separate API process, several concurrent clients, 10,000-reading batches),
+ *   (b) the bulk path the historical importer uses (COPY into staging, then INSERT … ON CONFLICT + rollups),
+ *   (c) psql \copy into a plain table with the same primary key — the baseline.
+ * Prints rows/s, the ratios a/c and b/c and the API's peak RSS; the last line is one JSON object.
+ * A benchmark, not a test: it asserts nothing and CI does not run it.
+ */
+import { spawn, spawnSync } from 'node:child_process';
+import {
+  createReadStream,
+  chmodSync,
+  mkdtempSync,
+  readFileSync,
+  rmSync,
+  writeFileSync,
+} from 'node:fs';
+import { createServer } from 'node:net';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { parseArgs } from 'node:util';
+import { hash } from '@node-rs/argon2';
+import { insertHouseWithLayout, openDatabase, runMigrations, schema } from '@tierscope/db';
+import { createInterface } from 'node:readline';
+import { copyReadingsInChunks } from '../apps/api/src/features/ingest/bulk-ingest.repository';
+import { ensurePostgres, startCluster } from '../scripts/postgres';
+
+const ROOT = new URL('..', import.meta.url).pathname;
+const { values } = parseArgs({
+  options: {
+    rows: { type: 'string', default: '1000000' },
+    clients: { type: 'string', default: '4' },
+    batch: { type: 'string', default: '10000' },
+  },
+});
+const ROWS = Number(values.rows);
+const CLIENTS = Number(values.clients);
+const BATCH = Number(values.batch);
+const HOUSES = 10;
+
+async function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const server = createServer();
+    server.listen(0, '127.0.0.1', () => {
+      const address = server.address();
+      server.close(() => {
+        if (typeof address === 'object' && address) resolve(address.port);
+        else reject(new Error('no free port'));
+      });
+    });
+  });
+}
+
+/** A farm of 10 houses (6 rows × 3 tiers and a collector each): 190 counters. */
+async function prepareFarm(url: string) {
+  const database = openDatabase(url, { max: 4 });
+  await runMigrations(database.db);
+  const [farm] = await database.db.insert(schema.farms).values({ name: 'Bench Farm' }).returning();
+  if (!farm) throw new Error('no farm');
+  for (let h = 1; h <= HOUSES; h++) {
+    await insertHouseWithLayout(database.db, farm.id, {
+      name: `House ${h}`,
+      rows: 6,
+      tiers: 3,
+      timezone: 'America/Chicago',
+      lightsOn: '04:00',
+      photoperiodHours: 16,
+      shortfallThresholdPct: 10,
+    });
+  }
+  const counters = await database.db
+    .select({ id: schema.counters.id, externalId: schema.counters.externalId })
+    .from(schema.counters);
+  return { database, farmId: farm.id, counters: counters.sort((a, b) => a.id - b.id) };
+}
+
+/** The i-th generated reading: counters in turn, one minute apart per round, from 2026-10-01. */
+function reading(i: number, counterCount: number) {
+  const round = Math.floor(i / counterCount);
+  return {
+    counterIndex: i % counterCount,
+    ts: new Date(Date.UTC(2026, 9, 1) + round * 60_000),
+    eggs: (i * 7919) % 37,
+  };
+}
+
+function counterAt<T>(list: T[], index: number): T {
+  const item = list[index];
+  if (item === undefined) throw new Error(`no counter ${index}`);
+  return item;
+}
+
+function peakRssMb(pid: number): number {
+  const status = readFileSync(`/proc/${pid}/status`, 'utf8');
+  const kb = Number(/VmHWM:\s+(\d+)/.exec(status)?.[1] ?? 0);
+  return Math.round(kb / 1024);
+}
+
+async function main(): Promise<void> {
+  const bin = ensurePostgres();
+  const dir = mkdtempSync(join(tmpdir(), 'tierscope-bench-'));
+  chmodSync(dir, 0o755);
+  const pgPort = await freePort();
+  console.log(
+    `[bench] ${ROWS.toLocaleString()} readings; PostgreSQL on 127.0.0.1:${pgPort} (default durability)`,
+  );
+  const cluster = startCluster({
+    dir: join(dir, 'pg'),
+    port: pgPort,
+    databases: ['bench_api', 'bench_bulk', 'bench_copy'],
+  });
+  try {
+    // (a) the API
+    const api = await prepareFarm(cluster.url('bench_api'));
+    const counterCount = api.counters.length;
+    const [user] = await api.database.db
+      .insert(schema.users)
+      .values({
+        email: 'bench@bench.test',
+        name: 'Bench',
+        passwordHash: await hash('bench-password'),
+      })
+      .returning();
+    await api.database.db
+      .insert(schema.memberships)
+      .values({ userId: user!.id, farmId: api.farmId, role: 'integrator' });
+    const port = await freePort();
+    const apiUrl = `http://127.0.0.1:${port}`;
+    const server = spawn(process.execPath, ['--import', 'tsx', 'apps/api/src/server.ts'], {
+      cwd: ROOT,
+      env: {
+        ...process.env,
+        DATABASE_URL: cluster.url('bench_api'),
+        PORT: String(port),
+        JWT_SECRET: 'bench-secret-bench-secret-bench-secret-0123',
+      },
+      stdio: ['ignore', 'ignore', 'inherit'],
+    });
+    for (let i = 0; ; i++) {
+      try {
+        if ((await fetch(`${apiUrl}/api/health`)).ok) break;
+      } catch {
+        // Not up yet.
+      }
+      if (i > 240) throw new Error('API did not start');
+      await new Promise((r) => setTimeout(r, 250));
+    }
+    const login = (await (
+      await fetch(`${apiUrl}/api/v1/auth/login`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json' },
+        body: JSON.stringify({ email: 'bench@bench.test', password: 'bench-password' }),
+      })
+    ).json()) as { token: string };
+    const gateway = (await (
+      await fetch(`${apiUrl}/api/v1/farms/${api.farmId}/gateways`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json', authorization: `Bearer ${login.token}` },
+        body: JSON.stringify({ name: 'bench' }),
+      })
+    ).json()) as { key: string };
+    const batches = Math.ceil(ROWS / BATCH);
+    let next = 0;
+    let accepted = 0;
+    const apiStart = performance.now();
+    await Promise.all(
+      Array.from({ length: CLIENTS }, async () => {
+        for (;;) {
+          const b = next++;
+          if (b >= batches) return;
+          const readings = [];
+          for (let i = b * BATCH; i < Math.min(ROWS, (b + 1) * BATCH); i++) {
+            const r = reading(i, counterCount);
+            readings.push({
+              counter: counterAt(api.counters, r.counterIndex).externalId,
+              ts: r.ts.toISOString(),
+              eggs: r.eggs,
+            });
+          }
+          const response = await fetch(`${apiUrl}/api/v1/ingest/readings`, {
+            method: 'POST',
+            headers: { 'content-type': 'application/json', authorization: `Bearer ${gateway.key}` },
+            body: JSON.stringify({ readings }),
+          });
+          if (!response.ok)
+            throw new Error(`ingest answered ${response.status}: ${await response.text()}`);
+          accepted += ((await response.json()) as { accepted: number }).accepted;
+        }
+      }),
+    );
+    const apiSeconds = (performance.now() - apiStart) / 1000;
+    const apiRss = server.pid ? peakRssMb(server.pid) : 0;
+    server.kill('SIGTERM');
+    await api.database.close();
+    if (accepted !== ROWS) throw new Error(`API accepted ${accepted} of ${ROWS}`);
+    console.log(
+      `[bench] (a) API, ${CLIENTS} clients × ${BATCH}/batch: ${apiSeconds.toFixed(1)} s, ${Math.round(ROWS / apiSeconds).toLocaleString()} rows/s, API peak RSS ${apiRss} MB`,
+    );
+
+    // The same rows as CSV for (b) and (c): counter ids are equal in all three databases (same creation order).
+    const csvFile = join(dir, 'readings.csv');
+    const copyFile = join(dir, 'readings-copy.csv');
+    const lines: string[] = [];
+    const copyLines: string[] = [];
+    for (let i = 0; i < ROWS; i++) {
+      const r = reading(i, counterCount);
+      const id = counterAt(api.counters, r.counterIndex).id;
+      lines.push(`${id},${r.ts.toISOString()},${r.eggs},`);
+      copyLines.push(`${api.farmId},${id},${r.ts.toISOString()},${r.eggs}`);
+    }
+    writeFileSync(csvFile, lines.join('\n') + '\n');
+    writeFileSync(copyFile, copyLines.join('\n') + '\n');
+    lines.length = 0;
+    copyLines.length = 0;
+
+    // (b) the bulk path
+    const bulk = await prepareFarm(cluster.url('bench_bulk'));
+    await bulk.database.pool.query(
+      `SELECT ensure_readings_partition(m::date) FROM generate_series('2026-10-01'::date, '2027-01-01', '1 month') m`,
+    );
+    const bulkStart = performance.now();
+    const { added } = await copyReadingsInChunks(
+      bulk.database.pool,
+      bulk.farmId,
+      createInterface({ input: createReadStream(csvFile), crlfDelay: Infinity }),
+    );
+    const bulkSeconds = (performance.now() - bulkStart) / 1000;
+    await bulk.database.close();
+    if (added !== ROWS) throw new Error(`bulk path added ${added} of ${ROWS}`);
+    console.log(
+      `[bench] (b) bulk path (COPY → staging → INSERT … ON CONFLICT + rollups, 100k-row chunks on 2 connections): ${bulkSeconds.toFixed(1)} s, ${Math.round(ROWS / bulkSeconds).toLocaleString()} rows/s`,
+    );
+
+    // (c) the baseline: psql \copy into a plain table with the same key
+    const psql = (command: string) => {
+      const result = spawnSync(
+        join(bin, 'psql'),
+        [
+          '-h',
+          '127.0.0.1',
+          '-p',
+          String(pgPort),
+          '-U',
+          'postgres',
+          '-d',
+          'bench_copy',
+          '-v',
+          'ON_ERROR_STOP=1',
+          '-qc',
+          command,
+        ],
+        { encoding: 'utf8' },
+      );
+      if (result.status !== 0) throw new Error(result.stderr);
+    };
+    psql(
+      'CREATE TABLE readings_copy (farm_id int NOT NULL, counter_id int NOT NULL, ts timestamptz NOT NULL, eggs int NOT NULL, PRIMARY KEY (farm_id, counter_id, ts))',
+    );
+    const copyStart = performance.now();
+    psql(`\\copy readings_copy FROM '${copyFile}' WITH (FORMAT csv)`);
+    const copySeconds = (performance.now() - copyStart) / 1000;
+    console.log(
+      `[bench] (c) psql \\copy baseline: ${copySeconds.toFixed(1)} s, ${Math.round(ROWS / copySeconds).toLocaleString()} rows/s`,
+    );
+
+    const apiRate = ROWS / apiSeconds;
+    const bulkRate = ROWS / bulkSeconds;
+    const copyRate = ROWS / copySeconds;
+    console.log(
+      `[bench] API / COPY = ${(apiRate / copyRate).toFixed(2)} (target ≥ 0.35); bulk / COPY = ${(bulkRate / copyRate).toFixed(2)} (target ≥ 0.5)`,
+    );
+    console.log(
+      JSON.stringify({
+        bench: 'ingest',
+        rows: ROWS,
+        clients: CLIENTS,
+        batch: BATCH,
+        api_rows_per_s: Math.round(apiRate),
+        bulk_rows_per_s: Math.round(bulkRate),
+        copy_rows_per_s: Math.round(copyRate),
+        api_vs_copy: Number((apiRate / copyRate).toFixed(3)),
+        bulk_vs_copy: Number((bulkRate / copyRate).toFixed(3)),
+        api_peak_rss_mb: apiRss,
+      }),
+    );
+  } finally {
+    cluster.stop();
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+void main().catch((error: unknown) => {
+  console.error(error);
+  process.exit(1);
+});
