@@ -123,9 +123,10 @@ async function main(): Promise<void> {
         passwordHash: await hash('bench-password'),
       })
       .returning();
+    if (!user) throw new Error('no user');
     await api.database.db
       .insert(schema.memberships)
-      .values({ userId: user!.id, farmId: api.farmId, role: 'integrator' });
+      .values({ userId: user.id, farmId: api.farmId, role: 'integrator' });
     const port = await freePort();
     const apiUrl = `http://127.0.0.1:${port}`;
     const server = spawn(process.execPath, ['--import', 'tsx', 'apps/api/src/server.ts'], {
