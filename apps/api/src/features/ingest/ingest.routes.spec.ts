@@ -1,6 +1,7 @@
 import { createTestDatabase } from '@tierscope/db/testing';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { productionDayOf } from '@tierscope/domain';
 import { sql } from 'drizzle-orm';
 import { createEventBus, type DomainEvents } from '../../platform/events';
 import { seedFixture, type Fixture } from '../../testing/fixtures';
@@ -350,6 +351,35 @@ describe('rollups', () => {
       { day: '2026-11-24', eggs: 7 },
       { day: '2026-11-25', eggs: 11 },
     ]);
+  });
+});
+
+describe('production days', () => {
+  it('agree between the database rollups and the domain rule across a daylight-saving change', async () => {
+    // US clocks went forward on 2026-03-08; lights-on stays at 04:00 local (10:00 UTC before, 09:00 UTC after).
+    const counter = countersA.find((c) => c.row === 4 && c.tier === 3)!;
+    const instants = [
+      '2026-03-07T09:55:00Z',
+      '2026-03-07T10:05:00Z',
+      '2026-03-08T08:55:00Z',
+      '2026-03-08T09:05:00Z',
+      '2026-03-09T08:59:00Z',
+    ];
+    await post(
+      keyA,
+      instants.map((ts, i) => ({ counter: counter.externalId, ts, eggs: 10 ** i })),
+    );
+    const rows = await database.db.execute<{ day: string; eggs: number }>(sql`
+      select day::text, eggs from section_day_rollups d join counters c on c.section_id = d.section_id
+      where c.id = ${counter.id} and day between '2026-03-01' and '2026-03-31' order by day`);
+    const expected = new Map<string, number>();
+    instants.forEach((ts, i) => {
+      const day = productionDayOf(new Date(ts), 'America/Chicago', '04:00');
+      expected.set(day, (expected.get(day) ?? 0) + 10 ** i);
+    });
+    expect(rows.rows).toEqual([...expected].map(([day, eggs]) => ({ day, eggs })));
+    // And the rule itself: 08:55 UTC on the 8th is 03:55 CDT, still the 7th's production day.
+    expect(expected.get('2026-03-07')).toBe(10 + 100);
   });
 });
 
