@@ -93,7 +93,11 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  if (api.pid) process.kill(-api.pid, 'SIGTERM');
+  try {
+    if (api.pid) process.kill(-api.pid, 'SIGTERM');
+  } catch {
+    // Already gone (it may have failed the test by exiting): nothing to stop.
+  }
   cluster.stop();
   rmSync(dir, { recursive: true, force: true });
 });
