@@ -62,6 +62,23 @@ export default tseslint.config(
     },
   },
   {
+    // Domain specs check the computations against general-purpose reference libraries.
+    files: ['libs/domain/**/*.spec.ts'],
+    rules: {
+      '@typescript-eslint/no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            {
+              regex: '^(?!\\.|vitest$|simple-statistics$|jstat$)',
+              message: 'Domain specs may use only reference libraries.',
+            },
+          ],
+        },
+      ],
+    },
+  },
+  {
     files: ['libs/contracts/**/*.ts'],
     rules: {
       '@typescript-eslint/no-restricted-imports': [

@@ -26,6 +26,8 @@ export const houses = pgTable(
     lightsOn: text('lights_on').notNull(),
     photoperiodHours: real('photoperiod_hours').notNull(),
     shortfallThresholdPct: real('shortfall_threshold_pct').notNull().default(10),
+    /** Price per dozen eggs, for the value of eggs lost; none set means no money figure. */
+    eggPricePerDozen: real('egg_price_per_dozen'),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [

@@ -10,3 +10,4 @@ export * from './memberships';
 export * from './audit-events';
 export * from './gateways';
 export * from './rollups';
+export * from './exceptions';

@@ -23,7 +23,17 @@ import type { AppConfig } from './platform/config';
 import { AppError, errorMiddleware } from './platform/errors';
 import { createEventBus, type EventBus } from './platform/events';
 import { buildOpenApiDocument } from './platform/openapi';
-import { createTokenService } from './platform/tokens';
+import { createTokenService, type TokenService } from './platform/tokens';
+import { EvaluationScheduler } from './features/evaluation/evaluation-scheduler';
+import {
+  createEvaluationService,
+  type EvaluationService,
+} from './features/evaluation/evaluation.service';
+import { exceptionsRoutes } from './features/exceptions/exceptions.routes';
+import {
+  createExceptionsService,
+  type ExceptionsService,
+} from './features/exceptions/exceptions.service';
 
 export const API_VERSION = '0.1.0';
 
@@ -40,14 +50,37 @@ export interface AppDeps {
   events?: EventBus;
 }
 
-/** Builds the whole HTTP app without listening, so tests run it in-process. */
-export function createApp({
+/** The long-lived parts shared by the HTTP app, the live socket and the timers. */
+export interface Runtime {
+  events: EventBus;
+  tokens: TokenService;
+  evaluation: EvaluationService;
+  exceptions: ExceptionsService;
+  scheduler: EvaluationScheduler;
+}
+
+export function createRuntime({
   db,
   config,
   log = defaultLog,
-  info = defaultInfo,
   events = createEventBus(),
-}: AppDeps): Express {
+}: Pick<AppDeps, 'db' | 'config' | 'log' | 'events'>): Runtime {
+  const tokens = createTokenService(config.jwtSecret, config.tokenTtlSeconds);
+  const evaluation = createEvaluationService(db, events);
+  return {
+    events,
+    tokens,
+    evaluation,
+    exceptions: createExceptionsService(db, evaluation, events),
+    scheduler: new EvaluationScheduler(db, evaluation, events, log),
+  };
+}
+
+/** Builds the whole HTTP app without listening, so tests run it in-process. */
+export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
+  const { db, config, log = defaultLog, info = defaultInfo } = deps;
+  const runtime = deps.runtime ?? createRuntime(deps);
+  const { events, tokens } = runtime;
   const app = express();
   app.disable('x-powered-by');
   app.use(
@@ -67,7 +100,6 @@ export function createApp({
   app.use('/api/v1', ingest);
   app.use(express.json({ limit: '1mb' }));
 
-  const tokens = createTokenService(config.jwtSecret, config.tokenTtlSeconds);
   const authenticate = createAuthenticator(tokens, (id) => loadActiveUser(db, id));
   const openApi = buildOpenApiDocument(API_VERSION);
 
@@ -92,6 +124,7 @@ export function createApp({
   v1.use(housesRoutes(createHousesService(db)));
   v1.use(usersRoutes(createUsersService(db)));
   v1.use(gatewaysRoutes(createGatewaysService(db)));
+  v1.use(exceptionsRoutes(runtime.exceptions));
   app.use('/api/v1', v1);
   app.use('/api', (_req, _res, next) => {
     next(new AppError('not_found', 'No such API route'));

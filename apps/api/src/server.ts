@@ -1,5 +1,7 @@
 import { openDatabase, runMigrations } from '@tierscope/db';
-import { createApp } from './app';
+import { createApp, createRuntime } from './app';
+import { allHouseIds } from './features/evaluation/evaluation.repository';
+import { attachLive } from './realtime/live';
 import { maintainReadingPartitions } from './features/ingest/retention';
 import { loadConfig } from './platform/config';
 
@@ -25,10 +27,24 @@ async function main(): Promise<void> {
     },
     24 * 3600 * 1000,
   ).unref();
-  const app = createApp({ db: database.db, config });
+  const log = (message: string, error?: unknown) => {
+    console.error(`[api] ${message}`, error ?? '');
+  };
+  const runtime = createRuntime({ db: database.db, config, log });
+  const app = createApp({ db: database.db, config, runtime, log });
   const server = app.listen(config.port, config.host, () => {
     console.log(`[api] listening on http://${config.host}:${config.port}`);
   });
+  const live = attachLive(server, { db: database.db, ...runtime, log });
+  // Silent counters need time to pass, not data: every house is evaluated each minute too.
+  const evaluateAll = setInterval(() => {
+    allHouseIds(database.db)
+      .then((ids) => runtime.scheduler.tick(ids))
+      .catch((error: unknown) => {
+        log('periodic evaluation failed', error);
+      });
+  }, 60_000);
+  evaluateAll.unref();
   // Longer than clients' keep-alive reuse, so a gateway never sends on a socket the server is closing.
   server.keepAliveTimeout = 65_000;
   server.headersTimeout = 66_000;
@@ -41,6 +57,9 @@ async function main(): Promise<void> {
     process.exit(1);
   });
   const stop = () => {
+    clearInterval(evaluateAll);
+    live.close();
+    runtime.scheduler.dispose();
     server.close(() => void database.close().then(() => process.exit(0)));
   };
   process.on('SIGINT', stop);

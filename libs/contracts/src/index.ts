@@ -6,3 +6,4 @@ export * from './user.schema';
 export * from './health.schema';
 export * from './ingest.schema';
 export * from './simulator.schema';
+export * from './live.schema';

@@ -26,7 +26,11 @@ function house(scale = 1, adjust: (row: number, tier: number) => number = () => 
       const endRow = row === 1 || row === ROWS ? 0.92 : 1;
       // A little day-to-day wobble so the peers are not identical.
       const wobble = 1 + (((row * 7 + tier * 3) % 5) - 2) / 200;
-      cells.push({ row, tier, eggs: Math.round((TIER_LEVEL[tier - 1] ?? 0) * endRow * wobble * scale * adjust(row, tier)) });
+      cells.push({
+        row,
+        tier,
+        eggs: Math.round((TIER_LEVEL[tier - 1] ?? 0) * endRow * wobble * scale * adjust(row, tier)),
+      });
     }
   }
   return cells;
@@ -41,7 +45,14 @@ function history(days = 7, adjust?: (row: number, tier: number) => number): Hist
 }
 
 const judged = (current: SectionCount[], hist = history(), silent?: Set<string>) =>
-  judgeHouse({ rows: ROWS, tiers: TIERS, thresholdPct: 10, current, history: hist, ...(silent ? { silent } : {}) });
+  judgeHouse({
+    rows: ROWS,
+    tiers: TIERS,
+    thresholdPct: 10,
+    current,
+    history: hist,
+    ...(silent ? { silent } : {}),
+  });
 const shorts = (j: ReturnType<typeof judged>) => j.candidates.filter((c) => c.isShort);
 
 /** Runs a candidate through consecutive evaluations; returns whether it opened. */
@@ -96,27 +107,54 @@ describe('judgeHouse: sections', () => {
   });
 
   it('treats a dead counter as a silent counter, not a shortfall', () => {
-    const j = judged(house(1, (r, t) => (r === 2 && t === 3 ? 0 : 1)), history(), new Set([sectionKey(2, 3)]));
+    const j = judged(
+      house(1, (r, t) => (r === 2 && t === 3 ? 0 : 1)),
+      history(),
+      new Set([sectionKey(2, 3)]),
+    );
     expect(shorts(j).filter((f) => f.scope === 'section')).toEqual([]);
-    expect(isSilentCounter({ eggsLast30: 0, peerEggsLast30: [40, 38, 45, 41, 39], minutesIntoDay: 240, photoperiodHours: 16 })).toBe(true);
+    expect(
+      isSilentCounter({
+        eggsLast30: 0,
+        peerEggsLast30: [40, 38, 45, 41, 39],
+        minutesIntoDay: 240,
+        photoperiodHours: 16,
+      }),
+    ).toBe(true);
     // At night nobody lays: not silent.
-    expect(isSilentCounter({ eggsLast30: 0, peerEggsLast30: [0, 0, 1], minutesIntoDay: 1100, photoperiodHours: 16 })).toBe(false);
+    expect(
+      isSilentCounter({
+        eggsLast30: 0,
+        peerEggsLast30: [0, 0, 1],
+        minutesIntoDay: 1100,
+        photoperiodHours: 16,
+      }),
+    ).toBe(false);
   });
 
   it('does not learn a fault as normal: days with an open exception are skipped', () => {
     const faulty = history(7, (r, t) => (r === 3 && t === 2 ? 0.8 : 1));
     const clean = history(7);
-    const faultyDays = faulty.map((d, i) => (i < 5 ? { ...d, excluded: new Set([sectionKey(3, 2)]) } : clean[i]!));
+    const faultyDays = faulty.map((d, i) =>
+      i < 5 ? { ...d, excluded: new Set([sectionKey(3, 2)]) } : clean[i]!,
+    );
     // Five of seven days were faulty and excluded; the two clean ones say the section is normal.
-    const j = judged(house(1, (r, t) => (r === 3 && t === 2 ? 0.8 : 1)), faultyDays);
+    const j = judged(
+      house(1, (r, t) => (r === 3 && t === 2 ? 0.8 : 1)),
+      faultyDays,
+    );
     expect(shorts(j).map((f) => [f.row, f.tier])).toEqual([[3, 2]]);
     // Had those days been learned, the fault would look normal.
-    const learned = judged(house(1, (r, t) => (r === 3 && t === 2 ? 0.8 : 1)), faulty);
+    const learned = judged(
+      house(1, (r, t) => (r === 3 && t === 2 ? 0.8 : 1)),
+      faulty,
+    );
     expect(shorts(learned)).toEqual([]);
   });
 
   it('compares per hen when the section bird counts are known', () => {
-    const withBirds = (cells: SectionCount[]) => cells.map((c) => ({ ...c, birds: c.row === 5 ? 2400 : 2000 }));
+    const withBirds = (cells: SectionCount[]) =>
+      cells.map((c) => ({ ...c, birds: c.row === 5 ? 2400 : 2000 }));
     // Row 5 holds 20 % more hens and lays 20 % more: per hen it is normal.
     const current = withBirds(house(1, (r) => (r === 5 ? 1.2 : 1)));
     const hist = history().map((d) => ({ ...d, sections: withBirds(d.sections) }));

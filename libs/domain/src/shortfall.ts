@@ -9,7 +9,12 @@ export const SIGNIFICANCE = 0.01;
 export const MIN_HISTORY_DAYS = 3;
 export const BASELINE_DAYS = 7;
 
-export const EXCEPTION_KINDS = ['shortfall', 'silent_counter', 'collector_gap', 'house_dip'] as const;
+export const EXCEPTION_KINDS = [
+  'shortfall',
+  'silent_counter',
+  'collector_gap',
+  'house_dip',
+] as const;
 export type ExceptionKind = (typeof EXCEPTION_KINDS)[number];
 export const EXCEPTION_SCOPES = ['section', 'row', 'tier', 'house'] as const;
 export type ExceptionScope = (typeof EXCEPTION_SCOPES)[number];
@@ -115,9 +120,11 @@ export interface HouseJudgement {
   candidates: Finding[];
 }
 
-export const findingKey = (f: Pick<Finding, 'scope' | 'row' | 'tier'>) => `${f.scope}:${f.row ?? '-'}:${f.tier ?? '-'}`;
+export const findingKey = (f: { scope: ExceptionScope; row: number | null; tier: number | null }) =>
+  `${f.scope}:${f.row ?? '-'}:${f.tier ?? '-'}`;
 
-const rateOf = (s: SectionCount, perHen: boolean) => (perHen && s.birds ? s.eggs / s.birds : s.eggs);
+const rateOf = (s: SectionCount, perHen: boolean) =>
+  perHen && s.birds ? s.eggs / s.birds : s.eggs;
 
 /** The section's usual ratio to its tier peers: median of its daily ratios, skipping excluded days; 1 without history. */
 function baselineRatio(
@@ -130,7 +137,9 @@ function baselineRatio(
   for (const day of history) {
     if (day.excluded.has(sectionKey(row, tier))) continue;
     const own = day.sections.find((s) => s.row === row && s.tier === tier);
-    const peers = day.sections.filter((s) => s.tier === tier && s.row !== row).map((s) => rateOf(s, perHen));
+    const peers = day.sections
+      .filter((s) => s.tier === tier && s.row !== row)
+      .map((s) => rateOf(s, perHen));
     const peerMedian = median(peers);
     if (own && peerMedian > 0) ratios.push(rateOf(own, perHen) / peerMedian);
   }
@@ -155,7 +164,9 @@ function tierTotals(sections: SectionCount[]): Map<number, number> {
  * choose to nest). A short row or tier absorbs the sections in it, and a silent counter is not a shortfall.
  */
 export function judgeHouse(input: HouseInput): HouseJudgement {
-  const history = [...input.history].sort((a, b) => b.day.localeCompare(a.day)).slice(0, BASELINE_DAYS);
+  const history = [...input.history]
+    .sort((a, b) => b.day.localeCompare(a.day))
+    .slice(0, BASELINE_DAYS);
   const current = input.current;
   const silent = input.silent ?? new Set<string>();
   const cells: CellResult[] = [];
@@ -168,15 +179,36 @@ export function judgeHouse(input: HouseInput): HouseJudgement {
       const perHen = tierSections.length > 0 && tierSections.every((s) => (s.birds ?? 0) > 0);
       const peers = tierSections.filter((s) => s.row !== row).map((s) => rateOf(s, perHen));
       if (!own || peers.length === 0) {
-        cells.push({ row, tier, eggs: own?.eggs ?? null, expected: null, ratio: null, pValue: null });
+        cells.push({
+          row,
+          tier,
+          eggs: own?.eggs ?? null,
+          expected: null,
+          ratio: null,
+          pValue: null,
+        });
         continue;
       }
       const baseline = baselineRatio(history, row, tier, perHen);
       const expected = median(peers) * baseline.ratio * (perHen ? (own.birds ?? 0) : 1);
       const verdict = judge(own.eggs, expected, input.thresholdPct);
-      cells.push({ row, tier, eggs: own.eggs, expected, ratio: verdict.ratio, pValue: verdict.pValue });
+      cells.push({
+        row,
+        tier,
+        eggs: own.eggs,
+        expected,
+        ratio: verdict.ratio,
+        pValue: verdict.pValue,
+      });
       if (!silent.has(sectionKey(row, tier))) {
-        sectionCandidates.push({ kind: 'shortfall', scope: 'section', row, tier, isLearning: baseline.days < MIN_HISTORY_DAYS, ...verdict });
+        sectionCandidates.push({
+          kind: 'shortfall',
+          scope: 'section',
+          row,
+          tier,
+          isLearning: baseline.days < MIN_HISTORY_DAYS,
+          ...verdict,
+        });
       }
     }
   }
@@ -196,7 +228,14 @@ export function judgeHouse(input: HouseInput): HouseJudgement {
       if (!isExcluded && own !== undefined && peerMedian > 0) ratios.push(own / peerMedian);
     }
     const expected = median(peers) * (ratios.length ? median(ratios) : 1);
-    rowCandidates.push({ kind: 'shortfall', scope: 'row', row, tier: null, isLearning: ratios.length < MIN_HISTORY_DAYS, ...judge(eggs, expected, input.thresholdPct) });
+    rowCandidates.push({
+      kind: 'shortfall',
+      scope: 'row',
+      row,
+      tier: null,
+      isLearning: ratios.length < MIN_HISTORY_DAYS,
+      ...judge(eggs, expected, input.thresholdPct),
+    });
   }
 
   // Each tier's share of the house against its own recent share.
@@ -211,7 +250,14 @@ export function judgeHouse(input: HouseInput): HouseJudgement {
     }
     // Without history there is no fair comparison for a tier: tiers differ by design.
     if (shares.length === 0 || houseTotal === 0) continue;
-    tierCandidates.push({ kind: 'shortfall', scope: 'tier', row: null, tier, isLearning: shares.length < MIN_HISTORY_DAYS, ...judge(eggs, median(shares) * houseTotal, input.thresholdPct) });
+    tierCandidates.push({
+      kind: 'shortfall',
+      scope: 'tier',
+      row: null,
+      tier,
+      isLearning: shares.length < MIN_HISTORY_DAYS,
+      ...judge(eggs, median(shares) * houseTotal, input.thresholdPct),
+    });
   }
 
   const shortRows = new Set(rowCandidates.filter((f) => f.isShort).map((f) => f.row));
@@ -232,8 +278,14 @@ export function isSilentCounter(input: {
   minutesIntoDay: number;
   photoperiodHours: number;
 }): boolean {
-  const isLayingTime = input.minutesIntoDay >= 60 && input.minutesIntoDay <= input.photoperiodHours * 60;
-  return isLayingTime && input.eggsLast30 === 0 && input.peerEggsLast30.length > 0 && median(input.peerEggsLast30) >= 5;
+  const isLayingTime =
+    input.minutesIntoDay >= 60 && input.minutesIntoDay <= input.photoperiodHours * 60;
+  return (
+    isLayingTime &&
+    input.eggsLast30 === 0 &&
+    input.peerEggsLast30.length > 0 &&
+    median(input.peerEggsLast30) >= 5
+  );
 }
 
 /** The collector and the sum of the belts disagree by more than `pct` %, by more than chance. */
@@ -241,13 +293,22 @@ export function judgeCollectorGap(collector: number, belts: number, pct = 3) {
   const diffPct = belts > 0 ? ((collector - belts) / belts) * 100 : 0;
   const z = collector + belts > 0 ? Math.abs(collector - belts) / Math.sqrt(collector + belts) : 0;
   const pValue = Math.min(1, 2 * normalUpperTail(z));
-  return { diffPct, pValue, isGap: belts >= 500 && Math.abs(diffPct) > pct && pValue < SIGNIFICANCE };
+  return {
+    diffPct,
+    pValue,
+    isGap: belts >= 500 && Math.abs(diffPct) > pct && pValue < SIGNIFICANCE,
+  };
 }
 
 /** Hen-day production more than 5 % below its own 7-day average: a flock-level matter. */
 export function judgeHouseDip(henDayPct: number, previous: number[], pct = 5) {
-  const average = previous.length ? previous.reduce((a, b) => a + b, 0) / previous.length : Number.NaN;
-  return { average, isDip: previous.length >= MIN_HISTORY_DAYS && henDayPct < average * (1 - pct / 100) };
+  const average = previous.length
+    ? previous.reduce((a, b) => a + b, 0) / previous.length
+    : Number.NaN;
+  return {
+    average,
+    isDip: previous.length >= MIN_HISTORY_DAYS && henDayPct < average * (1 - pct / 100),
+  };
 }
 
 /** Eggs lost: what was expected and not laid (never negative), and its value at a price per dozen. */
@@ -260,15 +321,34 @@ export function lostValue(eggs: number, pricePerDozen: number | null): number | 
 
 /** Where the crew should look first, from the exception's shape. */
 export function likelyChecks(kind: ExceptionKind, scope: ExceptionScope): string[] {
-  if (kind === 'silent_counter') return ['Egg counter on this belt (power, sensor, cable)', 'Egg belt drive: is the belt moving?'];
-  if (kind === 'collector_gap') return ['Calibrate the collector counter', 'Check the belt counters against a hand count'];
-  if (kind === 'house_dip') return ['Flock health walk', 'Feed delivered and its quality', 'House climate: temperature and ventilation', 'Water use against yesterday'];
+  if (kind === 'silent_counter')
+    return [
+      'Egg counter on this belt (power, sensor, cable)',
+      'Egg belt drive: is the belt moving?',
+    ];
+  if (kind === 'collector_gap')
+    return ['Calibrate the collector counter', 'Check the belt counters against a hand count'];
+  if (kind === 'house_dip')
+    return [
+      'Flock health walk',
+      'Feed delivered and its quality',
+      'House climate: temperature and ventilation',
+      'Water use against yesterday',
+    ];
   switch (scope) {
     case 'row':
-      return ["This row's feed line (chain, hoppers, feed level)", "This row's water line (pressure, drinkers)"];
+      return [
+        "This row's feed line (chain, hoppers, feed level)",
+        "This row's water line (pressure, drinkers)",
+      ];
     case 'tier':
       return ["This tier's lighting (lamps, dimming, schedule)", "This tier's feed loop"];
     default:
-      return ['Drinkers in this section', 'Feeders in this section', 'Nests in this section (curtains, floor, dirt)', 'The belt counter of this section'];
+      return [
+        'Drinkers in this section',
+        'Feeders in this section',
+        'Nests in this section (curtains, floor, dirt)',
+        'The belt counter of this section',
+      ];
   }
 }

@@ -25,15 +25,27 @@ describe('median', () => {
 describe('poissonLowerTail', () => {
   // Checked against jStat's Poisson CDF (a general-purpose reference library from the registry).
   it('agrees with jStat for small and moderate means', () => {
-    for (const [k, lambda] of [[0, 1], [3, 5], [10, 10], [20, 25], [85, 100]] as const) {
+    for (const [k, lambda] of [
+      [0, 1],
+      [3, 5],
+      [10, 10],
+      [20, 25],
+      [85, 100],
+    ] as const) {
       expect(poissonLowerTail(k, lambda)).toBeCloseTo(jStat.poisson.cdf(k, lambda), 9);
     }
   });
 
   it("agrees with jStat's regularized gamma for day-sized counts (its Poisson CDF overflows there)", () => {
-    for (const [k, lambda] of [[170, 200], [1620, 1800], [9000, 10000]] as const) {
+    for (const [k, lambda] of [
+      [170, 200],
+      [1620, 1800],
+      [9000, 10000],
+    ] as const) {
       const reference = 1 - jStat.lowRegGamma(k + 1, lambda);
-      expect(Math.abs(poissonLowerTail(k, lambda) - reference)).toBeLessThan(1e-9 + 1e-6 * reference);
+      expect(Math.abs(poissonLowerTail(k, lambda) - reference)).toBeLessThan(
+        1e-9 + 1e-6 * reference,
+      );
     }
   });
 

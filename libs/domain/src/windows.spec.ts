@@ -36,12 +36,21 @@ describe('productionWindow', () => {
 
   it('today runs from this morning’s lights-on to now', () => {
     const w = productionWindow('today', now, chicago);
-    expect([w.firstDay, w.from.toISOString(), w.to, w.isComplete]).toEqual(['2026-11-25', '2026-11-25T10:00:00.000Z', now, false]);
+    expect([w.firstDay, w.from.toISOString(), w.to, w.isComplete]).toEqual([
+      '2026-11-25',
+      '2026-11-25T10:00:00.000Z',
+      now,
+      false,
+    ]);
   });
 
   it('yesterday is the last complete day and 7d the seven before today', () => {
     const y = productionWindow('yesterday', now, chicago);
-    expect([y.firstDay, y.lastDay, y.to.toISOString()]).toEqual(['2026-11-24', '2026-11-24', '2026-11-25T10:00:00.000Z']);
+    expect([y.firstDay, y.lastDay, y.to.toISOString()]).toEqual([
+      '2026-11-24',
+      '2026-11-24',
+      '2026-11-25T10:00:00.000Z',
+    ]);
     const week = productionWindow('7d', now, chicago);
     expect(daysOf(week)).toHaveLength(7);
     expect(week.lastDay).toBe('2026-11-24');
@@ -53,9 +62,14 @@ describe('productionWindow', () => {
   });
 
   it('a custom range ending in the future ends now', () => {
-    const w = productionWindow('custom', now, chicago, { firstDay: '2026-11-01', lastDay: '2026-12-31' });
+    const w = productionWindow('custom', now, chicago, {
+      firstDay: '2026-11-01',
+      lastDay: '2026-12-31',
+    });
     expect([w.lastDay, w.isComplete]).toEqual(['2026-11-25', false]);
-    expect(() => productionWindow('custom', now, chicago, { firstDay: '2026-11-05', lastDay: '2026-11-01' })).toThrow();
+    expect(() =>
+      productionWindow('custom', now, chicago, { firstDay: '2026-11-05', lastDay: '2026-11-01' }),
+    ).toThrow();
   });
 
   it('steps days across month ends', () => {

@@ -65,7 +65,8 @@ export function productionWindow(
     case '7d':
       return make(addDays(today, -7), addDays(today, -1), false);
     case 'custom': {
-      if (!custom || custom.firstDay > custom.lastDay) throw new RangeError('a custom window needs first ≤ last day');
+      if (!custom || custom.firstDay > custom.lastDay)
+        throw new RangeError('a custom window needs first ≤ last day');
       const lastDay = custom.lastDay >= today ? today : custom.lastDay;
       return make(custom.firstDay, lastDay, lastDay === today);
     }

@@ -1,4 +1,5 @@
 import { EventEmitter } from 'node:events';
+import type { schema } from '@tierscope/db';
 
 /** What services announce; the realtime module and the shortfall engine listen. Services never touch sockets. */
 export interface DomainEvents {
@@ -10,6 +11,18 @@ export interface DomainEvents {
     eggsAdded: number;
     firstTs: Date;
     lastTs: Date;
+  };
+  /** The shortfall engine evaluated a house; `changed` lists exceptions opened, updated or closed. */
+  'house.evaluated': {
+    farmId: number;
+    houseId: number;
+    changed: (typeof schema.exceptions.$inferSelect)[];
+  };
+  /** A person acknowledged or closed an exception. */
+  'exception.changed': {
+    farmId: number;
+    houseId: number;
+    exception: typeof schema.exceptions.$inferSelect;
   };
 }
 

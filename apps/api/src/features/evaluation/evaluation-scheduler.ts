@@ -1,0 +1,116 @@
+import { addDays, productionDayOf } from '@tierscope/domain';
+import type { EventBus } from '../../platform/events';
+import type { EvaluationService } from './evaluation.service';
+import { findHouse } from '../houses/houses.repository';
+import type { Database } from '@tierscope/db';
+
+/** How often one house may be evaluated after new readings (coalescing bursts of batches). */
+export const EVALUATION_INTERVAL_MS = 2000;
+/** Quiet time after past-day readings before their days are evaluated (imports send many batches). */
+export const HISTORY_QUIET_MS = 3000;
+/** The longest history one pass re-evaluates. */
+export const MAX_HISTORY_DAYS = 62;
+
+/**
+ * Evaluates a house after readings touched it — at once if it has been quiet, then at most every two
+ * seconds — and past days after readings for them stopped arriving. Errors are logged, never thrown into
+ * the ingest path. `tick()` evaluates every house (silent counters need time to pass, not data).
+ */
+export class EvaluationScheduler {
+  private readonly lastRun = new Map<number, number>();
+  private readonly pending = new Map<number, ReturnType<typeof setTimeout>>();
+  private readonly running = new Map<number, Promise<void>>();
+  private readonly history = new Map<
+    number,
+    { firstTs: Date; timer: ReturnType<typeof setTimeout> }
+  >();
+  private readonly stop: () => void;
+
+  constructor(
+    private readonly db: Database,
+    private readonly evaluation: EvaluationService,
+    events: EventBus,
+    private readonly log: (message: string, error?: unknown) => void,
+    private readonly intervalMs = EVALUATION_INTERVAL_MS,
+  ) {
+    this.stop = events.on('readings.accepted', (e) => {
+      this.schedule(e.houseId);
+      this.scheduleHistory(e.houseId, e.firstTs);
+    });
+  }
+
+  schedule(houseId: number): void {
+    if (this.pending.has(houseId)) return;
+    const wait = Math.max(0, (this.lastRun.get(houseId) ?? 0) + this.intervalMs - Date.now());
+    this.pending.set(
+      houseId,
+      setTimeout(() => {
+        this.pending.delete(houseId);
+        void this.run(houseId);
+      }, wait),
+    );
+  }
+
+  private async run(houseId: number): Promise<void> {
+    const previous = this.running.get(houseId);
+    if (previous) await previous;
+    this.lastRun.set(houseId, Date.now());
+    const job = this.evaluation
+      .evaluateNow(houseId)
+      .then(() => undefined)
+      .catch((error: unknown) => {
+        this.log(`evaluation of house ${houseId} failed`, error);
+      });
+    this.running.set(houseId, job);
+    await job;
+    this.running.delete(houseId);
+  }
+
+  private scheduleHistory(houseId: number, firstTs: Date): void {
+    const entry = this.history.get(houseId);
+    if (entry) clearTimeout(entry.timer);
+    const earliest = entry && entry.firstTs < firstTs ? entry.firstTs : firstTs;
+    this.history.set(houseId, {
+      firstTs: earliest,
+      timer: setTimeout(() => void this.runHistory(houseId), HISTORY_QUIET_MS),
+    });
+  }
+
+  private async runHistory(houseId: number): Promise<void> {
+    const entry = this.history.get(houseId);
+    this.history.delete(houseId);
+    if (!entry) return;
+    try {
+      const house = await findHouse(this.db, houseId);
+      if (!house) return;
+      const today = productionDayOf(new Date(), house.timezone, house.lightsOn);
+      const firstDay = productionDayOf(entry.firstTs, house.timezone, house.lightsOn);
+      if (firstDay >= today) return;
+      const start =
+        firstDay < addDays(today, -MAX_HISTORY_DAYS) ? addDays(today, -MAX_HISTORY_DAYS) : firstDay;
+      await this.evaluation.evaluateHistory(houseId, start, addDays(today, -1));
+      // Then today, so live state continues from the replayed days.
+      await this.run(houseId);
+    } catch (error) {
+      this.log(`historical evaluation of house ${houseId} failed`, error);
+    }
+  }
+
+  /** Evaluates every given house now (the periodic timer). */
+  async tick(houseIds: number[]): Promise<void> {
+    for (const id of houseIds) await this.run(id);
+  }
+
+  /** Waits for all scheduled and running work (tests). */
+  async idle(): Promise<void> {
+    while (this.pending.size > 0 || this.running.size > 0 || this.history.size > 0) {
+      await new Promise((r) => setTimeout(r, 20));
+    }
+  }
+
+  dispose(): void {
+    this.stop();
+    for (const t of this.pending.values()) clearTimeout(t);
+    for (const h of this.history.values()) clearTimeout(h.timer);
+  }
+}

@@ -1,0 +1,249 @@
+import { schema, type Queryable } from '@tierscope/db';
+import type { Streak } from '@tierscope/domain';
+import { and, asc, desc, eq, gte, inArray, isNull, lte, ne, or, sql, type SQL } from 'drizzle-orm';
+
+const { houses, sections, counters, exceptions, houseEvaluations, flocks, mortality, users } =
+  schema;
+
+export type HouseRow = typeof houses.$inferSelect;
+export type ExceptionRow = typeof exceptions.$inferSelect;
+
+export async function houseLayout(db: Queryable, houseId: number) {
+  const [house] = await db.select().from(houses).where(eq(houses.id, houseId));
+  if (!house) return undefined;
+  const sectionRows = await db
+    .select({ id: sections.id, row: sections.row, tier: sections.tier, birds: sections.birdCount })
+    .from(sections)
+    .where(eq(sections.houseId, houseId));
+  const counterRows = await db
+    .select({ id: counters.id, kind: counters.kind, sectionId: counters.sectionId })
+    .from(counters)
+    .where(and(eq(counters.houseId, houseId), eq(counters.active, true)));
+  return { house, sections: sectionRows, counters: counterRows };
+}
+
+export async function allHouseIds(db: Queryable): Promise<number[]> {
+  const rows = await db.select({ id: houses.id }).from(houses).orderBy(asc(houses.id));
+  return rows.map((r) => r.id);
+}
+
+/** Eggs per section per production day from the daily rollups. */
+export async function sectionDays(
+  db: Queryable,
+  farmId: number,
+  sectionIds: number[],
+  firstDay: string,
+  lastDay: string,
+) {
+  if (sectionIds.length === 0) return [];
+  const result = await db.execute<{ section_id: number; day: string; eggs: number }>(sql`
+    SELECT section_id, day::text AS day, eggs FROM section_day_rollups
+    WHERE farm_id = ${farmId} AND section_id = ANY(${sql.param(sectionIds)}::int[])
+      AND day BETWEEN ${firstDay}::date AND ${lastDay}::date`);
+  return result.rows;
+}
+
+/** Eggs per section summed over a range of days (a window). */
+export async function sectionTotals(
+  db: Queryable,
+  farmId: number,
+  sectionIds: number[],
+  firstDay: string,
+  lastDay: string,
+) {
+  if (sectionIds.length === 0) return new Map<number, number>();
+  const result = await db.execute<{ section_id: number; eggs: number }>(sql`
+    SELECT section_id, sum(eggs)::int AS eggs FROM section_day_rollups
+    WHERE farm_id = ${farmId} AND section_id = ANY(${sql.param(sectionIds)}::int[])
+      AND day BETWEEN ${firstDay}::date AND ${lastDay}::date
+    GROUP BY section_id`);
+  return new Map(result.rows.map((r) => [r.section_id, r.eggs]));
+}
+
+/** Eggs per section from the hourly rollups between two instants (past checkpoints inside a day). */
+export async function sectionEggsBetween(
+  db: Queryable,
+  farmId: number,
+  houseId: number,
+  from: Date,
+  to: Date,
+) {
+  const result = await db.execute<{ section_id: number; eggs: number }>(sql`
+    SELECT c.section_id, sum(r.eggs)::int AS eggs
+    FROM counter_hour_rollups r JOIN counters c ON c.id = r.counter_id
+    WHERE r.farm_id = ${farmId} AND c.house_id = ${houseId} AND c.kind = 'belt' AND c.section_id IS NOT NULL
+      AND r.hour >= ${from.toISOString()}::timestamptz AND r.hour < ${to.toISOString()}::timestamptz
+    GROUP BY c.section_id`);
+  return new Map(result.rows.map((r) => [r.section_id, r.eggs]));
+}
+
+export async function collectorTotal(
+  db: Queryable,
+  farmId: number,
+  houseId: number,
+  firstDay: string,
+  lastDay: string,
+) {
+  const result = await db.execute<{ eggs: number | null }>(sql`
+    SELECT sum(eggs)::int AS eggs FROM collector_day_rollups
+    WHERE farm_id = ${farmId} AND house_id = ${houseId} AND day BETWEEN ${firstDay}::date AND ${lastDay}::date`);
+  return result.rows[0]?.eggs ?? 0;
+}
+
+/** Eggs each counter sent since `since` (raw readings), and whether it sent anything at all. */
+export async function counterEggsSince(
+  db: Queryable,
+  farmId: number,
+  counterIds: number[],
+  since: Date,
+) {
+  if (counterIds.length === 0) return new Map<number, number>();
+  const result = await db.execute<{ counter_id: number; eggs: number }>(sql`
+    SELECT counter_id, sum(eggs)::int AS eggs FROM readings
+    WHERE farm_id = ${farmId} AND counter_id = ANY(${sql.param(counterIds)}::int[]) AND ts > ${since.toISOString()}::timestamptz
+    GROUP BY counter_id`);
+  return new Map(result.rows.map((r) => [r.counter_id, r.eggs]));
+}
+
+/** Hens alive on each day of a range for the house's current flock (housed minus dead and culled before that day). */
+export async function hensAlive(db: Queryable, houseId: number, firstDay: string, lastDay: string) {
+  const result = await db.execute<{ day: string; hens: number }>(sql`
+    SELECT d::date::text AS day,
+           (f.hens_housed - coalesce((SELECT sum(m.dead + m.culled) FROM ${mortality} m
+              WHERE m.flock_id = f.id AND m.date < d::date), 0))::int AS hens
+    FROM generate_series(${firstDay}::date, ${lastDay}::date, interval '1 day') d
+    JOIN ${flocks} f ON f.house_id = ${houseId} AND f.placed_on <= d::date AND (f.ended_on IS NULL OR f.ended_on >= d::date)`);
+  return new Map(result.rows.map((r) => [r.day, r.hens]));
+}
+
+/** Exceptions that were open at instant `at` (for now: the live ones; for a past checkpoint: as they were then). */
+export async function exceptionsOpenAt(
+  db: Queryable,
+  houseId: number,
+  at: Date,
+): Promise<ExceptionRow[]> {
+  return db
+    .select()
+    .from(exceptions)
+    .where(
+      and(
+        eq(exceptions.houseId, houseId),
+        lte(exceptions.openedAt, at),
+        or(
+          isNull(exceptions.closedAt),
+          sql`${exceptions.closedAt} > ${at.toISOString()}::timestamptz`,
+        ),
+      ),
+    );
+}
+
+export async function liveExceptions(db: Queryable, houseId: number): Promise<ExceptionRow[]> {
+  return db
+    .select()
+    .from(exceptions)
+    .where(and(eq(exceptions.houseId, houseId), ne(exceptions.status, 'closed')));
+}
+
+/** Exceptions of a house that were open at some point in [from, to). */
+export async function exceptionsOverlapping(
+  db: Queryable,
+  houseId: number,
+  from: Date,
+  to: Date,
+): Promise<ExceptionRow[]> {
+  return db
+    .select()
+    .from(exceptions)
+    .where(
+      and(
+        eq(exceptions.houseId, houseId),
+        lte(exceptions.openedAt, to),
+        or(isNull(exceptions.closedAt), gte(exceptions.closedAt, from)),
+      ),
+    );
+}
+
+export async function readStreaks(db: Queryable, houseId: number): Promise<Record<string, Streak>> {
+  const [row] = await db
+    .select()
+    .from(houseEvaluations)
+    .where(eq(houseEvaluations.houseId, houseId));
+  return (row?.streaks ?? {}) as Record<string, Streak>;
+}
+
+export async function writeStreaks(
+  db: Queryable,
+  houseId: number,
+  streaks: Record<string, Streak>,
+  at: Date,
+) {
+  await db
+    .insert(houseEvaluations)
+    .values({ houseId, streaks, evaluatedAt: at })
+    .onConflictDoUpdate({ target: houseEvaluations.houseId, set: { streaks, evaluatedAt: at } });
+}
+
+export type NewException = typeof exceptions.$inferInsert;
+
+/** Opens an exception; the same spot opened at the same instant (a re-evaluation) is found, not doubled. */
+export async function openException(
+  db: Queryable,
+  values: NewException,
+): Promise<ExceptionRow | undefined> {
+  const [row] = await db.insert(exceptions).values(values).onConflictDoNothing().returning();
+  return row;
+}
+
+export async function updateException(
+  db: Queryable,
+  farmId: number,
+  id: number,
+  patch: Partial<NewException>,
+) {
+  const [row] = await db
+    .update(exceptions)
+    .set(patch)
+    .where(and(eq(exceptions.farmId, farmId), eq(exceptions.id, id)))
+    .returning();
+  return row;
+}
+
+export async function findException(db: Queryable, id: number): Promise<ExceptionRow | undefined> {
+  const [row] = await db.select().from(exceptions).where(eq(exceptions.id, id));
+  return row;
+}
+
+export async function listExceptions(
+  db: Queryable,
+  filter: {
+    farmIds: number[];
+    houseId?: number;
+    status?: string;
+    kind?: string;
+    from?: string;
+    to?: string;
+  },
+) {
+  if (filter.farmIds.length === 0) return [];
+  const conditions: SQL[] = [inArray(exceptions.farmId, filter.farmIds)];
+  if (filter.houseId !== undefined) conditions.push(eq(exceptions.houseId, filter.houseId));
+  if (filter.status === 'live') conditions.push(ne(exceptions.status, 'closed'));
+  else if (filter.status) conditions.push(sql`${exceptions.status} = ${filter.status}`);
+  if (filter.kind) conditions.push(sql`${exceptions.kind} = ${filter.kind}`);
+  if (filter.from)
+    conditions.push(sql`coalesce(${exceptions.closedAt}, now()) >= ${filter.from}::timestamptz`);
+  if (filter.to) conditions.push(sql`${exceptions.openedAt} <= ${filter.to}::timestamptz`);
+  return db
+    .select({
+      exception: exceptions,
+      houseName: houses.name,
+      pricePerDozen: houses.eggPricePerDozen,
+      acknowledgedByName: users.name,
+    })
+    .from(exceptions)
+    .innerJoin(houses, eq(houses.id, exceptions.houseId))
+    .leftJoin(users, eq(users.id, exceptions.acknowledgedBy))
+    .where(and(...conditions))
+    .orderBy(desc(exceptions.openedAt))
+    .limit(500);
+}

@@ -1,0 +1,514 @@
+import type { HouseMap } from '@tierscope/contracts';
+import type { Database } from '@tierscope/db';
+import {
+  addDays,
+  CLEAR,
+  daysOf,
+  eggsLost,
+  findingKey,
+  isSilentCounter,
+  judge,
+  judgeCollectorGap,
+  judgeHouse,
+  judgeHouseDip,
+  minutesSinceLightsOn,
+  productionDayOf,
+  productionDayStart,
+  productionWindow,
+  sectionKey,
+  stepStreak,
+  type ExceptionKind,
+  type ExceptionScope,
+  type HistoryDay,
+  type ProductionWindow,
+  type SectionCount,
+  type Streak,
+  type Verdict,
+} from '@tierscope/domain';
+import type { EventBus } from '../../platform/events';
+import {
+  collectorTotal,
+  counterEggsSince,
+  exceptionsOpenAt,
+  exceptionsOverlapping,
+  hensAlive,
+  houseLayout,
+  liveExceptions,
+  openException,
+  readStreaks,
+  sectionDays,
+  sectionEggsBetween,
+  sectionTotals,
+  updateException,
+  writeStreaks,
+  type ExceptionRow,
+} from './evaluation.repository';
+import { recordAudit } from '../audit/audit.repository';
+
+type Layout = NonNullable<Awaited<ReturnType<typeof houseLayout>>>;
+
+/** One thing the engine measured this evaluation, for the consecutive-evaluation rule. */
+interface Candidate extends Verdict {
+  kind: ExceptionKind;
+  scope: ExceptionScope;
+  row: number | null;
+  tier: number | null;
+  isLearning: boolean;
+}
+
+const spotKey = (c: Pick<Candidate, 'kind' | 'scope' | 'row' | 'tier'>) =>
+  `${c.kind}|${findingKey(c)}`;
+const rowKey = (e: Pick<ExceptionRow, 'kind' | 'scope' | 'row' | 'tier'>) =>
+  `${e.kind}|${findingKey(e)}`;
+
+/** Keys of the sections an exception covers, for keeping its days out of the baseline. */
+function coveredSections(e: ExceptionRow, layout: Layout): string[] {
+  return layout.sections
+    .filter((s) =>
+      e.scope === 'section'
+        ? s.row === e.row && s.tier === e.tier
+        : e.scope === 'row'
+          ? s.row === e.row
+          : e.scope === 'tier'
+            ? s.tier === e.tier
+            : false,
+    )
+    .map((s) => sectionKey(s.row, s.tier));
+}
+
+export interface EvaluationService {
+  /** Evaluates a house now (live): today so far, silent counters, collector, yesterday's hen-day. */
+  evaluateNow(houseId: number, now?: Date): Promise<{ changed: ExceptionRow[] }>;
+  /** Replays past production days at three checkpoints each; idempotent. */
+  evaluateHistory(
+    houseId: number,
+    firstDay: string,
+    lastDay: string,
+  ): Promise<{ changed: ExceptionRow[] }>;
+  /** The rows × tiers map of a window. */
+  buildMap(
+    houseId: number,
+    window: ProductionWindow | 'today',
+    now?: Date,
+  ): Promise<HouseMap | undefined>;
+}
+
+export function createEvaluationService(db: Database, events: EventBus): EvaluationService {
+  async function history(layout: Layout, beforeDay: string): Promise<HistoryDay[]> {
+    const { house } = layout;
+    const firstDay = addDays(beforeDay, -7);
+    const lastDay = addDays(beforeDay, -1);
+    const rows = await sectionDays(
+      db,
+      house.farmId,
+      layout.sections.map((s) => s.id),
+      firstDay,
+      lastDay,
+    );
+    const byId = new Map(layout.sections.map((s) => [s.id, s]));
+    const overlapping = await exceptionsOverlapping(
+      db,
+      house.id,
+      productionDayStart(firstDay, house.timezone, house.lightsOn),
+      productionDayStart(beforeDay, house.timezone, house.lightsOn),
+    );
+    return daysOf({ firstDay, lastDay }).map((day) => {
+      const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
+      const dayEnd = productionDayStart(addDays(day, 1), house.timezone, house.lightsOn);
+      const excluded = new Set<string>();
+      for (const e of overlapping) {
+        // A spot closed as "normal for this spot" lets its days into the baseline.
+        if (
+          e.closeReason === 'normal_for_spot' ||
+          e.kind === 'collector_gap' ||
+          e.kind === 'house_dip'
+        )
+          continue;
+        if (e.openedAt < dayEnd && (e.closedAt === null || e.closedAt > dayStart)) {
+          for (const key of coveredSections(e, layout)) excluded.add(key);
+        }
+      }
+      const sections: SectionCount[] = rows
+        .filter((r) => r.day === day)
+        .flatMap((r) => {
+          const s = byId.get(r.section_id);
+          return s ? [{ row: s.row, tier: s.tier, eggs: r.eggs, birds: s.birds }] : [];
+        });
+      return { day, sections, excluded };
+    });
+  }
+
+  function counts(layout: Layout, eggsBySection: Map<number, number>): SectionCount[] {
+    return layout.sections
+      .filter((s) => eggsBySection.has(s.id))
+      .map((s) => ({
+        row: s.row,
+        tier: s.tier,
+        eggs: eggsBySection.get(s.id) ?? 0,
+        birds: s.birds,
+      }));
+  }
+
+  /** Everything measured at one instant; `current` is the day so far. */
+  async function measure(
+    layout: Layout,
+    at: Date,
+    isLive: boolean,
+  ): Promise<{ day: string; candidates: Candidate[] }> {
+    const { house } = layout;
+    const day = productionDayOf(at, house.timezone, house.lightsOn);
+    const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
+    const sectionIds = layout.sections.map((s) => s.id);
+    const eggs = isLive
+      ? await sectionTotals(db, house.farmId, sectionIds, day, day)
+      : await sectionEggsBetween(db, house.farmId, house.id, dayStart, at);
+    const current = counts(layout, eggs);
+    const candidates: Candidate[] = [];
+
+    const silent = new Set<string>();
+    if (isLive) {
+      const belts = layout.counters.filter((c) => c.kind === 'belt' && c.sectionId !== null);
+      const recent = await counterEggsSince(
+        db,
+        house.farmId,
+        belts.map((c) => c.id),
+        new Date(at.getTime() - 30 * 60_000),
+      );
+      const minutesIntoDay = minutesSinceLightsOn(at, house.timezone, house.lightsOn);
+      for (const belt of belts) {
+        const section = layout.sections.find((s) => s.id === belt.sectionId);
+        if (!section) continue;
+        const peers = belts.filter((b) => b.id !== belt.id).map((b) => recent.get(b.id) ?? 0);
+        const isSilent = isSilentCounter({
+          eggsLast30: recent.get(belt.id) ?? 0,
+          peerEggsLast30: peers,
+          minutesIntoDay,
+          photoperiodHours: house.photoperiodHours,
+        });
+        if (isSilent) silent.add(sectionKey(section.row, section.tier));
+        const own = recent.get(belt.id) ?? 0;
+        candidates.push({
+          kind: 'silent_counter',
+          scope: 'section',
+          row: section.row,
+          tier: section.tier,
+          isLearning: false,
+          eggs: own,
+          expected: 0,
+          ratio: 0,
+          pValue: 1,
+          isShort: isSilent,
+          isRecovered: own > 0,
+        });
+      }
+    }
+
+    const judged = judgeHouse({
+      rows: house.rows,
+      tiers: house.tiers,
+      thresholdPct: house.shortfallThresholdPct,
+      current,
+      history: await history(layout, day),
+      silent,
+    });
+    candidates.push(...judged.candidates);
+
+    const belts = current.reduce((n, s) => n + s.eggs, 0);
+    if (isLive && layout.counters.some((c) => c.kind === 'collector')) {
+      const collector = await collectorTotal(db, house.farmId, house.id, day, day);
+      const gap = judgeCollectorGap(collector, belts);
+      candidates.push({
+        kind: 'collector_gap',
+        scope: 'house',
+        row: null,
+        tier: null,
+        isLearning: false,
+        eggs: collector,
+        expected: belts,
+        ratio: belts > 0 ? collector / belts : 1,
+        pValue: gap.pValue,
+        isShort: gap.isGap,
+        isRecovered: Math.abs(gap.diffPct) <= 1.5,
+      });
+    }
+
+    if (isLive) {
+      // Hen-day production of the last complete day against the seven before it.
+      const yesterday = addDays(day, -1);
+      const hens = await hensAlive(db, house.id, addDays(day, -8), yesterday);
+      const dayEggs = await sectionDays(db, house.farmId, sectionIds, addDays(day, -8), yesterday);
+      const hdp = (d: string) => {
+        const h = hens.get(d);
+        const e = dayEggs.filter((r) => r.day === d).reduce((n, r) => n + r.eggs, 0);
+        return h && e > 0 ? (e / h) * 100 : null;
+      };
+      const latest = hdp(yesterday);
+      const previous = daysOf({ firstDay: addDays(day, -8), lastDay: addDays(day, -2) })
+        .map(hdp)
+        .filter((v): v is number => v !== null);
+      if (latest !== null) {
+        const dip = judgeHouseDip(latest, previous);
+        candidates.push({
+          kind: 'house_dip',
+          scope: 'house',
+          row: null,
+          tier: null,
+          isLearning: previous.length < 3,
+          eggs: latest,
+          expected: dip.average,
+          ratio: latest / dip.average,
+          pValue: 1,
+          // A complete day is final: one evaluation is enough (the streak is primed below).
+          isShort: dip.isDip,
+          isRecovered: !dip.isDip,
+        });
+      }
+    }
+    return { day, candidates };
+  }
+
+  /** Runs the candidates through their streaks and opens, updates and closes exceptions. */
+  async function apply(
+    layout: Layout,
+    at: Date,
+    day: string,
+    candidates: Candidate[],
+    streaks: Record<string, Streak>,
+  ) {
+    const { house } = layout;
+    const live = new Map((await exceptionsOpenAt(db, house.id, at)).map((e) => [rowKey(e), e]));
+    const recentlyNormal = (
+      await exceptionsOverlapping(
+        db,
+        house.id,
+        productionDayStart(day, house.timezone, house.lightsOn),
+        at,
+      )
+    )
+      .filter((e) => e.closeReason === 'normal_for_spot')
+      .map(rowKey);
+    const changed: ExceptionRow[] = [];
+    for (const candidate of candidates) {
+      const key = spotKey(candidate);
+      const existing = live.get(key);
+      // The database says what is open; a person may have closed it since the last evaluation.
+      const base: Streak = { ...(streaks[key] ?? CLEAR), isOpen: existing !== undefined };
+      const primed =
+        candidate.kind === 'house_dip' && candidate.isShort && !base.isOpen
+          ? { ...base, short: 1 }
+          : base;
+      const step = stepStreak(primed, candidate);
+      streaks[key] = step.streak;
+      if (step.change === 'open' && !recentlyNormal.includes(key)) {
+        const lost =
+          candidate.kind === 'shortfall' ? eggsLost(candidate.expected, candidate.eggs) : 0;
+        const row = await openException(db, {
+          farmId: house.farmId,
+          houseId: house.id,
+          kind: candidate.kind,
+          scope: candidate.scope,
+          row: candidate.row,
+          tier: candidate.tier,
+          isLearning: candidate.isLearning,
+          openedAt: at,
+          openedDay: day,
+          eggs: Math.round(candidate.eggs),
+          expected: candidate.expected,
+          ratio: candidate.ratio,
+          pValue: candidate.pValue,
+          worstRatio: candidate.ratio,
+          atOpen: {
+            eggs: candidate.eggs,
+            expected: candidate.expected,
+            ratio: candidate.ratio,
+            pValue: candidate.pValue,
+          },
+          eggsLost: lost,
+          lostByDay: { [day]: lost },
+          lastEvaluatedAt: at,
+        });
+        if (row) {
+          await recordAudit(db, {
+            farmId: house.farmId,
+            actorUserId: null,
+            action: 'exception.open',
+            entity: 'exception',
+            entityId: row.id,
+            after: row,
+          });
+          changed.push(row);
+        }
+      } else if (step.change === 'open') {
+        streaks[key] = CLEAR;
+      } else if (existing && step.change === 'close') {
+        const row = await updateException(db, house.farmId, existing.id, {
+          status: 'closed',
+          closedAt: at,
+          closeReason: 'recovered',
+          lastEvaluatedAt: at,
+        });
+        if (row) {
+          await recordAudit(db, {
+            farmId: house.farmId,
+            actorUserId: null,
+            action: 'exception.close',
+            entity: 'exception',
+            entityId: row.id,
+            before: { status: existing.status },
+            after: { status: 'closed', closeReason: 'recovered' },
+          });
+          changed.push(row);
+        }
+      } else if (existing) {
+        const lostByDay = { ...(existing.lostByDay as Record<string, number>) };
+        if (candidate.kind === 'shortfall')
+          lostByDay[day] = eggsLost(candidate.expected, candidate.eggs);
+        const row = await updateException(db, house.farmId, existing.id, {
+          eggs: Math.round(candidate.eggs),
+          expected: candidate.expected,
+          ratio: candidate.ratio,
+          pValue: candidate.pValue,
+          worstRatio: Math.min(existing.worstRatio, candidate.ratio),
+          lostByDay,
+          eggsLost: Object.values(lostByDay).reduce((a, b) => a + b, 0),
+          lastEvaluatedAt: at,
+          isLearning: existing.isLearning && candidate.isLearning,
+        });
+        if (row && (row.eggs !== existing.eggs || row.status !== existing.status))
+          changed.push(row);
+      }
+    }
+    return changed;
+  }
+
+  function announce(layout: Layout, changed: ExceptionRow[]): void {
+    events.emit('house.evaluated', {
+      farmId: layout.house.farmId,
+      houseId: layout.house.id,
+      changed,
+    });
+  }
+
+  return {
+    async evaluateNow(houseId, now = new Date()) {
+      const layout = await houseLayout(db, houseId);
+      if (!layout) return { changed: [] };
+      const { day, candidates } = await measure(layout, now, true);
+      const streaks = await readStreaks(db, houseId);
+      const changed = await apply(layout, now, day, candidates, streaks);
+      await writeStreaks(db, houseId, streaks, now);
+      announce(layout, changed);
+      return { changed };
+    },
+
+    async evaluateHistory(houseId, firstDay, lastDay) {
+      const layout = await houseLayout(db, houseId);
+      if (!layout) return { changed: [] };
+      const { house } = layout;
+      const streaks: Record<string, Streak> = {};
+      const changed: ExceptionRow[] = [];
+      for (const day of daysOf({ firstDay, lastDay })) {
+        const start = productionDayStart(day, house.timezone, house.lightsOn);
+        const end = productionDayStart(addDays(day, 1), house.timezone, house.lightsOn);
+        // Checkpoints at whole hours (the rollups' grain): mid-morning, afternoon, and the day's end.
+        const checkpoints = [6, 11]
+          .map((h) => new Date(start.getTime() + h * 3_600_000))
+          .concat(end);
+        for (const at of checkpoints) {
+          const { candidates } = await measure(layout, at, false);
+          changed.push(...(await apply(layout, at, day, candidates, streaks)));
+        }
+      }
+      announce(layout, changed);
+      return { changed };
+    },
+
+    async buildMap(houseId, windowOrToday, now = new Date()) {
+      const layout = await houseLayout(db, houseId);
+      if (!layout) return undefined;
+      const { house } = layout;
+      const window =
+        windowOrToday === 'today' ? productionWindow('today', now, house) : windowOrToday;
+      const totals = await sectionTotals(
+        db,
+        house.farmId,
+        layout.sections.map((s) => s.id),
+        window.firstDay,
+        window.lastDay,
+      );
+      const current = counts(layout, totals);
+      const judged = judgeHouse({
+        rows: house.rows,
+        tiers: house.tiers,
+        thresholdPct: house.shortfallThresholdPct,
+        current,
+        history: await history(layout, window.firstDay),
+      });
+      const overlapping = (
+        await exceptionsOverlapping(db, house.id, window.from, window.to)
+      ).filter((e) => e.kind !== 'collector_gap' && e.kind !== 'house_dip');
+      const kindRank: Record<string, number> = { silent_counter: 0, shortfall: 1 };
+      const cells = judged.cells.map((cell) => {
+        const covering = overlapping
+          .filter((e) => coveredSections(e, layout).includes(sectionKey(cell.row, cell.tier)))
+          .sort(
+            (a, b) =>
+              (a.status === 'closed' ? 1 : 0) - (b.status === 'closed' ? 1 : 0) ||
+              (kindRank[a.kind] ?? 2) - (kindRank[b.kind] ?? 2),
+          );
+        const top =
+          window.kind === 'today' ? covering.find((e) => e.status !== 'closed') : covering[0];
+        return {
+          ...cell,
+          exceptionId: top?.id ?? null,
+          exceptionKind: top?.kind ?? null,
+          isLearning: top?.isLearning ?? false,
+        };
+      });
+      const belts = current.reduce((n, s) => n + s.eggs, 0);
+      const collector = await collectorTotal(
+        db,
+        house.farmId,
+        house.id,
+        window.firstDay,
+        window.lastDay,
+      );
+      let henDayPct: number | null = null;
+      if (window.isComplete) {
+        const hens = await hensAlive(db, house.id, window.firstDay, window.lastDay);
+        const henDays = [...hens.values()].reduce((a, b) => a + b, 0);
+        henDayPct = henDays > 0 ? Math.round((belts / henDays) * 1000) / 10 : null;
+      }
+      const open =
+        overlapping.filter((e) => e.status !== 'closed').length +
+        (await liveExceptions(db, house.id)).filter(
+          (e) => e.kind === 'collector_gap' || e.kind === 'house_dip',
+        ).length;
+      return {
+        houseId: house.id,
+        farmId: house.farmId,
+        houseName: house.name,
+        rows: house.rows,
+        tiers: house.tiers,
+        timezone: house.timezone,
+        window: {
+          kind: window.kind,
+          firstDay: window.firstDay,
+          lastDay: window.lastDay,
+          from: window.from.toISOString(),
+          to: window.to.toISOString(),
+          isComplete: window.isComplete,
+        },
+        cells,
+        belts,
+        collector,
+        henDayPct,
+        openExceptions: open,
+        updatedAt: new Date().toISOString(),
+      };
+    },
+  };
+}
+
+/** Exposed for the map's cell detail: a section's verdict from plain numbers. */
+export { judge };

@@ -1,0 +1,125 @@
+import { EXCEPTION_KINDS, EXCEPTION_SCOPES, WINDOW_KINDS } from '@tierscope/domain';
+import { z } from 'zod';
+
+export const EXCEPTION_STATUSES = ['open', 'acknowledged', 'closed'] as const;
+/** Reasons a person may close an exception with; `recovered` is the engine's own. */
+export const PERSON_CLOSE_REASONS = ['normal_for_spot', 'fixed', 'false_alarm', 'other'] as const;
+
+export const mapQuerySchema = z
+  .object({
+    window: z.enum(WINDOW_KINDS).default('today'),
+    from: z.iso.date('from is a date such as 2026-11-01').optional(),
+    to: z.iso.date('to is a date such as 2026-11-30').optional(),
+  })
+  .refine(
+    (q) => q.window !== 'custom' || (q.from !== undefined && q.to !== undefined && q.from <= q.to),
+    {
+      error: 'a custom window needs from and to, with from ≤ to',
+      path: ['from'],
+    },
+  );
+export type MapQuery = z.infer<typeof mapQuerySchema>;
+
+export const mapCellSchema = z.object({
+  row: z.number().int(),
+  tier: z.number().int(),
+  eggs: z.number().nullable(),
+  expected: z.number().nullable(),
+  ratio: z.number().nullable(),
+  pValue: z.number().nullable(),
+  exceptionId: z.number().int().nullable(),
+  exceptionKind: z.enum(EXCEPTION_KINDS).nullable(),
+  isLearning: z.boolean(),
+});
+export type MapCell = z.infer<typeof mapCellSchema>;
+
+export const houseMapSchema = z.object({
+  houseId: z.number().int(),
+  farmId: z.number().int(),
+  houseName: z.string(),
+  rows: z.number().int(),
+  tiers: z.number().int(),
+  timezone: z.string(),
+  window: z.object({
+    kind: z.enum(WINDOW_KINDS),
+    firstDay: z.string(),
+    lastDay: z.string(),
+    from: z.iso.datetime(),
+    to: z.iso.datetime(),
+    isComplete: z.boolean(),
+  }),
+  cells: z.array(mapCellSchema),
+  belts: z.number().int(),
+  collector: z.number().int(),
+  henDayPct: z.number().nullable(),
+  openExceptions: z.number().int(),
+  updatedAt: z.iso.datetime(),
+});
+export type HouseMap = z.infer<typeof houseMapSchema>;
+
+export const exceptionSchema = z.object({
+  id: z.number().int(),
+  farmId: z.number().int(),
+  houseId: z.number().int(),
+  houseName: z.string(),
+  kind: z.enum(EXCEPTION_KINDS),
+  scope: z.enum(EXCEPTION_SCOPES),
+  row: z.number().int().nullable(),
+  tier: z.number().int().nullable(),
+  status: z.enum(EXCEPTION_STATUSES),
+  isLearning: z.boolean(),
+  openedAt: z.iso.datetime(),
+  closedAt: z.iso.datetime().nullable(),
+  eggs: z.number(),
+  expected: z.number(),
+  ratio: z.number(),
+  pValue: z.number(),
+  worstRatio: z.number(),
+  eggsLost: z.number().int(),
+  eggsLostValue: z.number().nullable(),
+  likelyChecks: z.array(z.string()),
+  acknowledgedAt: z.iso.datetime().nullable(),
+  acknowledgedBy: z.string().nullable(),
+  closeReason: z.string().nullable(),
+  closeNote: z.string().nullable(),
+});
+export type ExceptionView = z.infer<typeof exceptionSchema>;
+
+export const exceptionsQuerySchema = z.object({
+  farmId: z.coerce.number().int().positive().optional(),
+  houseId: z.coerce.number().int().positive().optional(),
+  status: z.enum([...EXCEPTION_STATUSES, 'live']).optional(),
+  kind: z.enum(EXCEPTION_KINDS).optional(),
+  from: z.iso.datetime({ offset: true }).optional(),
+  to: z.iso.datetime({ offset: true }).optional(),
+});
+export type ExceptionsQuery = z.infer<typeof exceptionsQuerySchema>;
+
+export const closeExceptionSchema = z.object({
+  reason: z.enum(PERSON_CLOSE_REASONS, 'Choose why it is closed'),
+  note: z.string().trim().max(1000).optional(),
+});
+export type CloseException = z.infer<typeof closeExceptionSchema>;
+
+/** Messages the browser sends on /api/v1/live. */
+export const liveClientMessageSchema = z.discriminatedUnion('type', [
+  z.object({ type: z.literal('auth'), token: z.string().min(1) }),
+  z.object({ type: z.literal('subscribe'), houseId: z.number().int().positive() }),
+  z.object({ type: z.literal('unsubscribe'), houseId: z.number().int().positive() }),
+]);
+export type LiveClientMessage = z.infer<typeof liveClientMessageSchema>;
+
+/** Messages the server sends on /api/v1/live. */
+export const liveServerMessageSchema = z.discriminatedUnion('type', [
+  z.object({ type: z.literal('ready') }),
+  z.object({ type: z.literal('snapshot'), houseId: z.number().int(), map: houseMapSchema }),
+  z.object({ type: z.literal('frame'), houseId: z.number().int(), map: houseMapSchema }),
+  z.object({ type: z.literal('exception'), houseId: z.number().int(), exception: exceptionSchema }),
+  z.object({
+    type: z.literal('error'),
+    code: z.string(),
+    message: z.string(),
+    houseId: z.number().int().optional(),
+  }),
+]);
+export type LiveServerMessage = z.infer<typeof liveServerMessageSchema>;
