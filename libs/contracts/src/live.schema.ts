@@ -123,3 +123,20 @@ export const liveServerMessageSchema = z.discriminatedUnion('type', [
   }),
 ]);
 export type LiveServerMessage = z.infer<typeof liveServerMessageSchema>;
+
+export const cellDetailSchema = z.object({
+  row: z.number().int(),
+  tier: z.number().int(),
+  timezone: z.string(),
+  /** today so far, hour by hour: this section's cumulative eggs and its tier peers' median */
+  today: z.array(
+    z.object({ hour: z.iso.datetime(), eggs: z.number(), peers: z.number().nullable() }),
+  ),
+  /** the last 14 complete days against what was expected of this section */
+  days: z.array(
+    z.object({ day: z.string(), eggs: z.number().nullable(), expected: z.number().nullable() }),
+  ),
+  exception: exceptionSchema.nullable(),
+  likelyChecks: z.array(z.string()),
+});
+export type CellDetail = z.infer<typeof cellDetailSchema>;

@@ -247,3 +247,24 @@ export async function listExceptions(
     .orderBy(desc(exceptions.openedAt))
     .limit(500);
 }
+
+/** Eggs per belt section per hour between two instants. */
+export async function sectionHours(
+  db: Queryable,
+  farmId: number,
+  houseId: number,
+  from: Date,
+  to: Date,
+) {
+  const result = await db.execute<{ section_id: number; hour: Date; eggs: number }>(sql`
+    SELECT c.section_id, r.hour, sum(r.eggs)::int AS eggs
+    FROM counter_hour_rollups r JOIN counters c ON c.id = r.counter_id
+    WHERE r.farm_id = ${farmId} AND c.house_id = ${houseId} AND c.kind = 'belt' AND c.section_id IS NOT NULL
+      AND r.hour >= ${from.toISOString()}::timestamptz AND r.hour < ${to.toISOString()}::timestamptz
+    GROUP BY c.section_id, r.hour ORDER BY r.hour`);
+  return result.rows.map((r) => ({
+    sectionId: r.section_id,
+    hour: new Date(r.hour),
+    eggs: r.eggs,
+  }));
+}

@@ -1,4 +1,4 @@
-import type { HouseMap } from '@tierscope/contracts';
+import type { CellDetail, HouseMap } from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
 import {
   addDays,
@@ -15,6 +15,7 @@ import {
   productionDayOf,
   productionDayStart,
   productionWindow,
+  median,
   sectionKey,
   stepStreak,
   type ExceptionKind,
@@ -38,6 +39,7 @@ import {
   readStreaks,
   sectionDays,
   sectionEggsBetween,
+  sectionHours,
   sectionTotals,
   updateException,
   writeStreaks,
@@ -85,6 +87,13 @@ export interface EvaluationService {
     firstDay: string,
     lastDay: string,
   ): Promise<{ changed: ExceptionRow[] }>;
+  /** One section's day curve against its peers and its last 14 days against expected. */
+  cellDetail(
+    houseId: number,
+    row: number,
+    tier: number,
+    now?: Date,
+  ): Promise<Omit<CellDetail, 'exception' | 'likelyChecks'> | undefined>;
   /** The rows × tiers map of a window. */
   buildMap(
     houseId: number,
@@ -421,6 +430,53 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
       }
       announce(layout, changed);
       return { changed };
+    },
+
+    async cellDetail(houseId, row, tier, now = new Date()) {
+      const layout = await houseLayout(db, houseId);
+      const section = layout?.sections.find((s) => s.row === row && s.tier === tier);
+      if (!layout || !section) return undefined;
+      const { house } = layout;
+      const today = productionWindow('today', now, house);
+      const hoursToday = await sectionHours(db, house.farmId, house.id, today.from, today.to);
+      const peers = layout.sections
+        .filter((s) => s.tier === tier && s.row !== row)
+        .map((s) => s.id);
+      const cumulative = new Map<number, number>();
+      const points: CellDetail['today'] = [];
+      for (const hour of [...new Set(hoursToday.map((h) => h.hour.getTime()))].sort(
+        (a, b) => a - b,
+      )) {
+        for (const h of hoursToday.filter((x) => x.hour.getTime() === hour))
+          cumulative.set(h.sectionId, (cumulative.get(h.sectionId) ?? 0) + h.eggs);
+        const peerValues = peers.map((id) => cumulative.get(id) ?? 0);
+        points.push({
+          hour: new Date(hour).toISOString(),
+          eggs: cumulative.get(section.id) ?? 0,
+          peers: peerValues.length ? median(peerValues) : null,
+        });
+      }
+      const days: CellDetail['days'] = [];
+      for (let back = 14; back >= 1; back--) {
+        const day = addDays(today.firstDay, -back);
+        const totals = await sectionTotals(
+          db,
+          house.farmId,
+          layout.sections.map((s) => s.id),
+          day,
+          day,
+        );
+        const judged = judgeHouse({
+          rows: house.rows,
+          tiers: house.tiers,
+          thresholdPct: house.shortfallThresholdPct,
+          current: counts(layout, totals),
+          history: await history(layout, day),
+        });
+        const cell = judged.cells.find((c) => c.row === row && c.tier === tier);
+        days.push({ day, eggs: cell?.eggs ?? null, expected: cell?.expected ?? null });
+      }
+      return { row, tier, timezone: house.timezone, today: points, days };
     },
 
     async buildMap(houseId, windowOrToday, now = new Date()) {

@@ -155,6 +155,28 @@ describe('GET /api/v1/houses/:houseId/map', () => {
   });
 });
 
+describe('GET /api/v1/houses/:houseId/cells/:row/:tier', () => {
+  it("gives a section's last 14 days against expected and its open exception", async () => {
+    const manager = await bearerFor(app, fixture.usersA.manager.email);
+    const response = await request(app)
+      .get(`/api/v1/houses/${fixture.houseA}/cells/2/2`)
+      .set('Authorization', manager);
+    expect(response.status).toBe(200);
+    expect(response.body.days).toHaveLength(14);
+    const nineteenth = response.body.days.find((d: { day: string }) => d.day === '2026-11-19');
+    expect(nineteenth.eggs).toBe(120 * 16);
+    expect(nineteenth.expected).toBeCloseTo(120 * 16, -1);
+    expect(response.body.exception).toMatchObject({ scope: 'section', row: 2, tier: 2 });
+    expect(
+      (
+        await request(app)
+          .get(`/api/v1/houses/${fixture.houseA}/cells/9/9`)
+          .set('Authorization', manager)
+      ).status,
+    ).toBe(404);
+  });
+});
+
 describe('the exception lifecycle', () => {
   it('lists the exception with its figures and likely checks', async () => {
     const crew = await bearerFor(app, fixture.usersA.crew.email);

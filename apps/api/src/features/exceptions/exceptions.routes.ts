@@ -17,6 +17,12 @@ export function exceptionsRoutes(service: ExceptionsService): Router {
       await service.map(contextOf(req), houseId, parseInput(mapQuerySchema, req.query, 'query')),
     );
   });
+  router.get('/houses/:houseId/cells/:row/:tier', async (req, res) => {
+    const houseId = parseInput(idParam, req.params.houseId, 'path');
+    const row = parseInput(idParam, req.params.row, 'path');
+    const tier = parseInput(idParam, req.params.tier, 'path');
+    res.json(await service.cell(contextOf(req), houseId, row, tier));
+  });
   router.get('/exceptions', async (req, res) => {
     res.json(
       await service.list(contextOf(req), parseInput(exceptionsQuerySchema, req.query, 'query')),

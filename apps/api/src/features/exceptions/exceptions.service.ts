@@ -1,4 +1,5 @@
 import type {
+  CellDetail,
   CloseException,
   ExceptionsQuery,
   ExceptionView,
@@ -26,6 +27,7 @@ export interface ExceptionsService {
   acknowledge(ctx: RequestContext, id: number): Promise<ExceptionView>;
   close(ctx: RequestContext, id: number, input: CloseException): Promise<ExceptionView>;
   map(ctx: RequestContext, houseId: number, query: MapQuery): Promise<HouseMap>;
+  cell(ctx: RequestContext, houseId: number, row: number, tier: number): Promise<CellDetail>;
   /** One exception as the API shows it (for the live socket). */
   view(id: number): Promise<ExceptionView | undefined>;
 }
@@ -156,6 +158,27 @@ export function createExceptionsService(
         closeNote: input.note ?? null,
       });
       return changed(ctx, before, after, 'exception.close');
+    },
+
+    async cell(ctx, houseId, row, tier) {
+      const house = await findHouse(db, houseId);
+      if (!house || !ctx.user.roles.has(house.farmId)) throw notFound('House');
+      requireFarmPermission(ctx, house.farmId, 'farm.read', 'House');
+      const detail = await evaluation.cellDetail(houseId, row, tier);
+      if (!detail) throw notFound('Section');
+      const covers = (e: ExceptionRow) =>
+        (e.scope === 'section' && e.row === row && e.tier === tier) ||
+        (e.scope === 'row' && e.row === row) ||
+        (e.scope === 'tier' && e.tier === tier);
+      const live = (
+        await listExceptions(db, { farmIds: [house.farmId], houseId, status: 'live' })
+      ).find((r) => covers(r.exception));
+      const exception = live ? toExceptionView(live.exception, live) : null;
+      return {
+        ...detail,
+        exception,
+        likelyChecks: exception?.likelyChecks ?? likelyChecks('shortfall', 'section'),
+      };
     },
 
     async map(ctx, houseId, query) {
