@@ -174,7 +174,7 @@ async function main(): Promise<void> {
     '--fault',
     'feed:house=House 2,row=4,drop=0.15,from=-2d',
     '--fault',
-    'silent:house=House 3,row=2,tier=1,from=-6h',
+    'silent:house=House 3,row=2,tier=1,from=-30h',
     '--fault',
     'water:house=House A,tier=3,decline=0.003/h,from=-3d',
   ];

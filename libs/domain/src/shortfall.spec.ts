@@ -112,7 +112,8 @@ describe('judgeHouse: sections', () => {
       history(),
       new Set([sectionKey(2, 3)]),
     );
-    expect(shorts(j).filter((f) => f.scope === 'section')).toEqual([]);
+    // Nothing at all: not the section, nor its row or tier, which are short only by the dead counter's eggs.
+    expect(shorts(j)).toEqual([]);
     expect(
       isSilentCounter({
         eggsLast30: 0,

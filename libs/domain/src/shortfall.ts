@@ -262,9 +262,13 @@ export function judgeHouse(input: HouseInput): HouseJudgement {
 
   const shortRows = new Set(rowCandidates.filter((f) => f.isShort).map((f) => f.row));
   const shortTiers = new Set(tierCandidates.filter((f) => f.isShort).map((f) => f.tier));
+  // A row or tier that holds a silent counter is short by that counter's missing eggs: a counter
+  // problem, already its own exception, not a feed or light problem of the whole row or tier.
+  const silentRows = new Set([...silent].map((key) => Number(key.split(':')[0])));
+  const silentTiers = new Set([...silent].map((key) => Number(key.split(':')[1])));
   const candidates = [
-    ...rowCandidates,
-    ...tierCandidates,
+    ...rowCandidates.filter((f) => !silentRows.has(f.row ?? 0)),
+    ...tierCandidates.filter((f) => !silentTiers.has(f.tier ?? 0)),
     // A whole row (or tier) that is short is one exception, not one per section in it.
     ...sectionCandidates.filter((f) => !shortRows.has(f.row) && !shortTiers.has(f.tier)),
   ];

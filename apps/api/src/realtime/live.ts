@@ -153,60 +153,64 @@ export function attachLive(
       clients.delete(client);
     });
     // Text frames arrive as one Buffer (no fragments: maxPayload is small).
+    // One message at a time per client, in order: a subscribe sent right after auth waits for the sign-in.
+    let queue: Promise<void> = Promise.resolve();
     socket.on('message', (data: Buffer) => {
-      void (async () => {
-        let raw: unknown;
-        try {
-          raw = JSON.parse(data.toString('utf8'));
-        } catch {
-          // Not JSON: say so rather than drop the connection.
-          send(client, { type: 'error', code: 'bad_message', message: 'Messages are JSON' });
-          return;
-        }
-        const parsed = liveClientMessageSchema.safeParse(raw);
-        if (!parsed.success) {
-          send(client, { type: 'error', code: 'bad_message', message: 'Unknown message' });
-          return;
-        }
-        const message = parsed.data;
-        if (message.type === 'auth') {
-          const userId = deps.tokens.verify(message.token);
-          const user = userId === null ? null : await loadActiveUser(deps.db, userId);
-          if (!user) {
-            socket.close(4401, 'invalid or expired token');
+      queue = queue
+        .then(async () => {
+          let raw: unknown;
+          try {
+            raw = JSON.parse(data.toString('utf8'));
+          } catch {
+            // Not JSON: say so rather than drop the connection.
+            send(client, { type: 'error', code: 'bad_message', message: 'Messages are JSON' });
             return;
           }
-          client.user = user;
-          clearTimeout(authTimer);
-          send(client, { type: 'ready' });
-          return;
-        }
-        if (!client.user) {
-          socket.close(4401, 'sign in first');
-          return;
-        }
-        if (message.type === 'unsubscribe') {
-          client.houses.delete(message.houseId);
-          return;
-        }
-        // Re-read the user so a role taken away since sign-in counts at once.
-        const user = await loadActiveUser(deps.db, client.user.id);
-        const house = await findHouse(deps.db, message.houseId);
-        if (!user || !house || !user.roles.has(house.farmId)) {
-          send(client, {
-            type: 'error',
-            code: 'not_found',
-            message: 'House not found',
-            houseId: message.houseId,
-          });
-          return;
-        }
-        client.houses.add(house.id);
-        const map = await deps.evaluation.buildMap(house.id, 'today');
-        if (map) send(client, { type: 'snapshot', houseId: house.id, map });
-      })().catch((error: unknown) => {
-        deps.log('live message failed', error);
-      });
+          const parsed = liveClientMessageSchema.safeParse(raw);
+          if (!parsed.success) {
+            send(client, { type: 'error', code: 'bad_message', message: 'Unknown message' });
+            return;
+          }
+          const message = parsed.data;
+          if (message.type === 'auth') {
+            const userId = deps.tokens.verify(message.token);
+            const user = userId === null ? null : await loadActiveUser(deps.db, userId);
+            if (!user) {
+              socket.close(4401, 'invalid or expired token');
+              return;
+            }
+            client.user = user;
+            clearTimeout(authTimer);
+            send(client, { type: 'ready' });
+            return;
+          }
+          if (!client.user) {
+            socket.close(4401, 'sign in first');
+            return;
+          }
+          if (message.type === 'unsubscribe') {
+            client.houses.delete(message.houseId);
+            return;
+          }
+          // Re-read the user so a role taken away since sign-in counts at once.
+          const user = await loadActiveUser(deps.db, client.user.id);
+          const house = await findHouse(deps.db, message.houseId);
+          if (!user || !house || !user.roles.has(house.farmId)) {
+            send(client, {
+              type: 'error',
+              code: 'not_found',
+              message: 'House not found',
+              houseId: message.houseId,
+            });
+            return;
+          }
+          client.houses.add(house.id);
+          const map = await deps.evaluation.buildMap(house.id, 'today');
+          if (map) send(client, { type: 'snapshot', houseId: house.id, map });
+        })
+        .catch((error: unknown) => {
+          deps.log('live message failed', error);
+        });
     });
   });
 

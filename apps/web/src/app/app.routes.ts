@@ -1,4 +1,5 @@
 import type { Routes } from '@angular/router';
+import { provideEchartsCore } from 'ngx-echarts';
 import { permissionGuard, signedInGuard } from './core/auth/auth-guards';
 
 export const routes: Routes = [
@@ -17,6 +18,23 @@ export const routes: Routes = [
         path: 'farms',
         title: 'Farms · Tierscope',
         loadComponent: () => import('./features/farms/farms-page').then((m) => m.FarmsPage),
+      },
+      {
+        path: 'houses/:houseId',
+        title: 'House live · Tierscope',
+        providers: [
+          provideEchartsCore({
+            echarts: () => import('./features/house-live/echarts-setup').then((m) => m.echarts),
+          }),
+        ],
+        loadComponent: () =>
+          import('./features/house-live/house-live-page').then((m) => m.HouseLivePage),
+      },
+      {
+        path: 'exceptions',
+        title: 'Exceptions · Tierscope',
+        loadComponent: () =>
+          import('./features/exceptions/exceptions-page').then((m) => m.ExceptionsPage),
       },
       {
         path: 'houses/:houseId/settings',

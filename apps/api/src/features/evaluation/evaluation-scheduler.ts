@@ -85,10 +85,10 @@ export class EvaluationScheduler {
       if (!house) return;
       const today = productionDayOf(new Date(), house.timezone, house.lightsOn);
       const firstDay = productionDayOf(entry.firstTs, house.timezone, house.lightsOn);
-      if (firstDay >= today) return;
+      if (firstDay > today) return;
       const start =
         firstDay < addDays(today, -MAX_HISTORY_DAYS) ? addDays(today, -MAX_HISTORY_DAYS) : firstDay;
-      await this.evaluation.evaluateHistory(houseId, start, addDays(today, -1));
+      await this.evaluation.evaluateHistory(houseId, start, today);
       // Then today, so live state continues from the replayed days.
       await this.run(houseId);
     } catch (error) {

@@ -268,3 +268,20 @@ export async function sectionHours(
     eggs: r.eggs,
   }));
 }
+
+/** Eggs each counter counted in the hourly rollups over [from, to) — the look-back of past checkpoints. */
+export async function counterEggsInHours(
+  db: Queryable,
+  farmId: number,
+  counterIds: number[],
+  from: Date,
+  to: Date,
+) {
+  if (counterIds.length === 0) return new Map<number, number>();
+  const result = await db.execute<{ counter_id: number; eggs: number }>(sql`
+    SELECT counter_id, sum(eggs)::int AS eggs FROM counter_hour_rollups
+    WHERE farm_id = ${farmId} AND counter_id = ANY(${sql.param(counterIds)}::int[])
+      AND hour >= ${from.toISOString()}::timestamptz AND hour < ${to.toISOString()}::timestamptz
+    GROUP BY counter_id`);
+  return new Map(result.rows.map((r) => [r.counter_id, r.eggs]));
+}

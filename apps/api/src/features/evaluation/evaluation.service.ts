@@ -29,6 +29,7 @@ import {
 import type { EventBus } from '../../platform/events';
 import {
   collectorTotal,
+  counterEggsInHours,
   counterEggsSince,
   exceptionsOpenAt,
   exceptionsOverlapping,
@@ -81,7 +82,7 @@ function coveredSections(e: ExceptionRow, layout: Layout): string[] {
 export interface EvaluationService {
   /** Evaluates a house now (live): today so far, silent counters, collector, yesterday's hen-day. */
   evaluateNow(houseId: number, now?: Date): Promise<{ changed: ExceptionRow[] }>;
-  /** Replays past production days at three checkpoints each; idempotent. */
+  /** Replays past production days at five checkpoints each; idempotent. */
   evaluateHistory(
     houseId: number,
     firstDay: string,
@@ -175,14 +176,19 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
     const candidates: Candidate[] = [];
 
     const silent = new Set<string>();
-    if (isLive) {
+    {
+      // Live: the last 30 minutes of raw readings; a past checkpoint: the hour before it (the rollups' grain).
       const belts = layout.counters.filter((c) => c.kind === 'belt' && c.sectionId !== null);
-      const recent = await counterEggsSince(
-        db,
-        house.farmId,
-        belts.map((c) => c.id),
-        new Date(at.getTime() - 30 * 60_000),
-      );
+      const beltIds = belts.map((c) => c.id);
+      const recent = isLive
+        ? await counterEggsSince(db, house.farmId, beltIds, new Date(at.getTime() - 30 * 60_000))
+        : await counterEggsInHours(
+            db,
+            house.farmId,
+            beltIds,
+            new Date(at.getTime() - 3_600_000),
+            at,
+          );
       const minutesIntoDay = minutesSinceLightsOn(at, house.timezone, house.lightsOn);
       for (const belt of belts) {
         const section = layout.sections.find((s) => s.id === belt.sectionId);
@@ -212,6 +218,11 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
       }
     }
 
+    // A counter already known to be silent stays so until it counts again, even when its peers are quiet.
+    for (const e of await exceptionsOpenAt(db, house.id, at)) {
+      if (e.kind === 'silent_counter' && e.row !== null && e.tier !== null)
+        silent.add(sectionKey(e.row, e.tier));
+    }
     const judged = judgeHouse({
       rows: house.rows,
       tiers: house.tiers,
@@ -419,11 +430,12 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
       for (const day of daysOf({ firstDay, lastDay })) {
         const start = productionDayStart(day, house.timezone, house.lightsOn);
         const end = productionDayStart(addDays(day, 1), house.timezone, house.lightsOn);
-        // Checkpoints at whole hours (the rollups' grain): mid-morning, afternoon, and the day's end.
-        const checkpoints = [6, 11]
+        // Checkpoints at whole hours (the rollups' grain): through the morning's main lay, the afternoon, the day's end.
+        const checkpoints = [3, 5, 7, 11]
           .map((h) => new Date(start.getTime() + h * 3_600_000))
           .concat(end);
-        for (const at of checkpoints) {
+        // Today's checkpoints that have passed are replayed too; the live evaluation carries on from there.
+        for (const at of checkpoints.filter((checkpoint) => checkpoint.getTime() <= Date.now())) {
           const { candidates } = await measure(layout, at, false);
           changed.push(...(await apply(layout, at, day, candidates, streaks)));
         }

@@ -367,6 +367,23 @@ describe('the live socket', () => {
     client.socket.close();
   });
 
+  it('takes a subscribe sent right behind the sign-in, without waiting for the answer', async () => {
+    const token = (await bearerFor(app, fixture.usersA.crew.email)).slice('Bearer '.length);
+    const socket = new WebSocket(url);
+    const types: string[] = [];
+    socket.on('message', (data: Buffer) =>
+      types.push((JSON.parse(data.toString('utf8')) as { type: string }).type),
+    );
+    await new Promise((resolve) => socket.once('open', resolve));
+    socket.send(JSON.stringify({ type: 'auth', token }));
+    socket.send(JSON.stringify({ type: 'subscribe', houseId: fixture.houseA }));
+    const deadline = Date.now() + 5000;
+    while (!types.includes('snapshot') && Date.now() < deadline)
+      await new Promise((r) => setTimeout(r, 20));
+    expect(types.slice(0, 2)).toEqual(['ready', 'snapshot']);
+    socket.close();
+  });
+
   it('sends a snapshot on subscribe and a new frame after an ingest', async () => {
     const client = await connect(fixture.usersA.crew.email);
     client.socket.send(JSON.stringify({ type: 'subscribe', houseId: fixture.houseA }));

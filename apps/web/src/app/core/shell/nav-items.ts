@@ -10,6 +10,7 @@ export interface NavItem {
 
 export const NAV_ITEMS: readonly NavItem[] = [
   { label: 'Farms', icon: 'agriculture', link: '/farms', permission: 'farm.read' },
+  { label: 'Exceptions', icon: 'warning', link: '/exceptions', permission: 'farm.read' },
   { label: 'Gateways', icon: 'router', link: '/gateways', permission: 'gateways.manage' },
   { label: 'Users', icon: 'group', link: '/users', permission: 'users.manage' },
 ];

@@ -29,15 +29,15 @@ const navLabels = (element: HTMLElement) =>
 
 describe('Shell', () => {
   it('offers the Users page to admins', () => {
-    expect(navLabels(renderAs('admin'))).toEqual(['Farms', 'Gateways', 'Users']);
+    expect(navLabels(renderAs('admin'))).toEqual(['Farms', 'Exceptions', 'Gateways', 'Users']);
   });
 
   it('does not offer the Users page to the crew', () => {
-    expect(navLabels(renderAs('crew'))).toEqual(['Farms']);
+    expect(navLabels(renderAs('crew'))).toEqual(['Farms', 'Exceptions']);
   });
 
   it('offers integrators the gateways but not the users', () => {
-    expect(navLabels(renderAs('integrator'))).toEqual(['Farms', 'Gateways']);
+    expect(navLabels(renderAs('integrator'))).toEqual(['Farms', 'Exceptions', 'Gateways']);
   });
 
   it('shows who is signed in', () => {

@@ -9,11 +9,12 @@ import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { LoadState } from '../../shared/ui/load-state';
+import { HouseSummary } from './house-summary';
 
 /** The house cards of one farm. */
 @Component({
   selector: 'ts-farm-houses',
-  imports: [MatCardModule, MatButtonModule, MatIconModule, RouterLink, LoadState],
+  imports: [MatCardModule, MatButtonModule, MatIconModule, RouterLink, LoadState, HouseSummary],
   templateUrl: './farm-houses.html',
   styleUrl: './farm-houses.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -1,0 +1,89 @@
+import { inject, Injectable, signal, untracked } from '@angular/core';
+import {
+  liveServerMessageSchema,
+  type LiveClientMessage,
+  type LiveServerMessage,
+} from '@tierscope/contracts';
+import { defer, filter, finalize, map, Observable, retry, share, Subject, timer } from 'rxjs';
+import { webSocket, type WebSocketSubject } from 'rxjs/webSocket';
+import { AuthStore } from '../auth/auth-store';
+
+export type ConnectionState = 'connecting' | 'live' | 'reconnecting' | 'offline';
+
+/**
+ * The one live connection of the app: signs in with the user's token as its first message, reconnects
+ * with backoff and resubscribes every house being watched. Components get a house's messages as a stream.
+ */
+@Injectable({ providedIn: 'root' })
+export class LiveSocket {
+  private readonly auth = inject(AuthStore);
+  private readonly watched = new Map<number, number>();
+  private socket: WebSocketSubject<unknown> | null = null;
+  private readonly opened = new Subject<void>();
+
+  readonly state = signal<ConnectionState>('offline');
+  readonly lastMessageAt = signal<Date | null>(null);
+
+  private readonly messages: Observable<LiveServerMessage> = defer(() => {
+    this.state.set(untracked(this.state) === 'offline' ? 'connecting' : 'reconnecting');
+    const protocol = location.protocol === 'https:' ? 'wss' : 'ws';
+    this.socket = webSocket<unknown>({
+      url: `${protocol}://${location.host}/api/v1/live`,
+      openObserver: {
+        next: () => {
+          this.state.set('live');
+          const token = this.auth.token();
+          if (token) this.send({ type: 'auth', token });
+          for (const houseId of this.watched.keys()) this.send({ type: 'subscribe', houseId });
+          this.opened.next();
+        },
+      },
+      closeObserver: {
+        next: () => {
+          this.state.set('reconnecting');
+        },
+      },
+    });
+    return this.socket;
+  }).pipe(
+    // Reconnect with backoff: 1 s, 2 s, 4 s … at most 30 s between tries, for as long as someone watches.
+    retry({
+      delay: (_error, attempt) => timer(Math.min(30_000, 1000 * 2 ** Math.min(attempt - 1, 5))),
+    }),
+    map((raw) => liveServerMessageSchema.safeParse(raw)),
+    filter((parsed) => parsed.success),
+    map((parsed) => {
+      this.lastMessageAt.set(new Date());
+      return parsed.data;
+    }),
+    finalize(() => {
+      this.state.set('offline');
+      this.socket = null;
+    }),
+    share(),
+  );
+
+  private send(message: LiveClientMessage): void {
+    this.socket?.next(message);
+  }
+
+  /** Snapshot, frames and exception events of one house, for as long as the subscription lasts. */
+  watchHouse(houseId: number): Observable<LiveServerMessage> {
+    return new Observable<LiveServerMessage>((subscriber) => {
+      this.watched.set(houseId, (this.watched.get(houseId) ?? 0) + 1);
+      const subscription = this.messages
+        .pipe(filter((m) => 'houseId' in m && m.houseId === houseId))
+        .subscribe(subscriber);
+      // Already connected: subscribe now; otherwise the open handler does it.
+      if (untracked(this.state) === 'live') this.send({ type: 'subscribe', houseId });
+      return () => {
+        subscription.unsubscribe();
+        const count = (this.watched.get(houseId) ?? 1) - 1;
+        if (count <= 0) {
+          this.watched.delete(houseId);
+          this.send({ type: 'unsubscribe', houseId });
+        } else this.watched.set(houseId, count);
+      };
+    });
+  }
+}

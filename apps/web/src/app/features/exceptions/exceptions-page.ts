@@ -1,0 +1,120 @@
+import { DatePipe, DecimalPipe } from '@angular/common';
+import { HttpClient, httpResource } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatSelectModule } from '@angular/material/select';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { MatTableModule } from '@angular/material/table';
+import { RouterLink } from '@angular/router';
+import { exceptionSchema, type CloseException, type ExceptionView } from '@tierscope/contracts';
+import { firstValueFrom } from 'rxjs';
+import { z } from 'zod';
+import { AuthStore } from '../../core/auth/auth-store';
+import { describeApiError } from '../../core/http/api-error';
+import { LoadState } from '../../shared/ui/load-state';
+import { CloseDialog } from './close-dialog';
+
+type StatusFilter = 'live' | 'closed' | '';
+
+/** Open and recent exceptions across the user's farms: filter, acknowledge, close. */
+@Component({
+  selector: 'ts-exceptions-page',
+  imports: [
+    DatePipe,
+    DecimalPipe,
+    RouterLink,
+    MatTableModule,
+    MatButtonModule,
+    MatIconModule,
+    MatFormFieldModule,
+    MatSelectModule,
+    LoadState,
+  ],
+  templateUrl: './exceptions-page.html',
+  styleUrl: './exceptions-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class ExceptionsPage {
+  private readonly auth = inject(AuthStore);
+  private readonly http = inject(HttpClient);
+  private readonly dialog = inject(MatDialog);
+  private readonly snackBar = inject(MatSnackBar);
+
+  protected readonly status = signal<StatusFilter>('live');
+  protected readonly kind = signal<string>('');
+  protected readonly houseId = signal<number | null>(null);
+  protected readonly exceptions = httpResource(
+    () => {
+      const params = new URLSearchParams();
+      if (this.status()) params.set('status', this.status());
+      if (this.kind()) params.set('kind', this.kind());
+      const house = this.houseId();
+      if (house !== null) params.set('houseId', String(house));
+      return `/api/v1/exceptions?${params.toString()}`;
+    },
+    { parse: (v) => z.array(exceptionSchema).parse(v) },
+  );
+  protected readonly houses = computed(() => {
+    const seen = new Map<number, string>();
+    for (const e of this.exceptions.value() ?? []) seen.set(e.houseId, e.houseName);
+    return [...seen];
+  });
+  protected readonly state = computed(() => {
+    if (this.exceptions.error()) return 'error';
+    if (this.exceptions.isLoading() && !this.exceptions.hasValue()) return 'loading';
+    return (this.exceptions.value()?.length ?? 0) === 0 ? 'empty' : 'ready';
+  });
+  protected readonly errorText = computed(() => describeApiError(this.exceptions.error()));
+  protected readonly columns = ['where', 'what', 'measured', 'opened', 'lost', 'status', 'actions'];
+
+  protected canAct(e: ExceptionView): boolean {
+    return this.auth.hasPermission('exceptions.acknowledge', e.farmId) && e.status !== 'closed';
+  }
+
+  protected where(e: ExceptionView): string {
+    if (e.scope === 'section') return `Row ${e.row}, tier ${e.tier}`;
+    if (e.scope === 'row') return `Row ${e.row} (all tiers)`;
+    if (e.scope === 'tier') return `Tier ${e.tier} (all rows)`;
+    return 'Whole house';
+  }
+
+  protected what(e: ExceptionView): string {
+    return {
+      shortfall: 'Shortfall',
+      silent_counter: 'Silent counter',
+      collector_gap: 'Collector gap',
+      house_dip: 'House dip',
+    }[e.kind];
+  }
+
+  protected async acknowledge(e: ExceptionView): Promise<void> {
+    try {
+      await firstValueFrom(this.http.post(`/api/v1/exceptions/${e.id}/acknowledge`, {}));
+      this.snackBar.open('Acknowledged', undefined, { duration: 2500 });
+    } catch (error) {
+      this.snackBar.open(describeApiError(error), 'Dismiss');
+    }
+    this.exceptions.reload();
+  }
+
+  protected async close(e: ExceptionView): Promise<void> {
+    const input = await firstValueFrom(
+      this.dialog
+        .open<CloseDialog, { title: string }, CloseException>(CloseDialog, {
+          data: { title: `${e.houseName}, ${this.where(e)}` },
+        })
+        .afterClosed(),
+    );
+    if (!input) return;
+    try {
+      await firstValueFrom(this.http.post(`/api/v1/exceptions/${e.id}/close`, input));
+      this.snackBar.open('Closed', undefined, { duration: 2500 });
+    } catch (error) {
+      this.snackBar.open(describeApiError(error), 'Dismiss');
+    }
+    this.exceptions.reload();
+  }
+}

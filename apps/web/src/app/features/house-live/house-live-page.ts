@@ -1,0 +1,153 @@
+import { httpResource } from '@angular/common/http';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  effect,
+  inject,
+  input,
+  numberAttribute,
+  signal,
+  untracked,
+} from '@angular/core';
+import { FormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { RouterLink } from '@angular/router';
+import { exceptionSchema, houseMapSchema, type HouseMap } from '@tierscope/contracts';
+import type { WindowKind } from '@tierscope/domain';
+import { z } from 'zod';
+import { describeApiError } from '../../core/http/api-error';
+import { LiveSocket } from '../../core/live/live-socket';
+import { LoadState } from '../../shared/ui/load-state';
+import { CellDetail } from './cell-detail';
+import { HouseHeatMap } from './house-heat-map';
+
+/** A house live: the rows × tiers map over the live socket, a window picker, and a cell's detail. */
+@Component({
+  selector: 'ts-house-live-page',
+  imports: [
+    FormsModule,
+    RouterLink,
+    MatButtonToggleModule,
+    MatButtonModule,
+    MatIconModule,
+    MatFormFieldModule,
+    MatInputModule,
+    LoadState,
+    HouseHeatMap,
+    CellDetail,
+  ],
+  templateUrl: './house-live-page.html',
+  styleUrl: './house-live-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class HouseLivePage {
+  private readonly live = inject(LiveSocket);
+
+  /** Route parameter. */
+  readonly houseId = input.required({ transform: numberAttribute });
+
+  protected readonly windowKind = signal<WindowKind>('today');
+  protected readonly from = signal('');
+  protected readonly to = signal('');
+  protected readonly selected = signal<{ row: number; tier: number } | null>(null);
+  protected readonly connection = this.live.state;
+  protected readonly lastMessageAt = this.live.lastMessageAt;
+
+  private readonly liveMap = signal<HouseMap | null>(null);
+  protected readonly fetched = httpResource(
+    () => {
+      const kind = this.windowKind();
+      const base = `/api/v1/houses/${this.houseId()}/map?window=${kind}`;
+      if (kind !== 'custom') return base;
+      return this.from() && this.to() && this.from() <= this.to()
+        ? `${base}&from=${this.from()}&to=${this.to()}`
+        : undefined;
+    },
+    { parse: (v) => houseMapSchema.parse(v) },
+  );
+  protected readonly exceptions = httpResource(
+    () => `/api/v1/exceptions?houseId=${this.houseId()}&status=live`,
+    { parse: (v) => z.array(exceptionSchema).parse(v) },
+  );
+
+  protected readonly map = computed(() =>
+    this.windowKind() === 'today'
+      ? (this.liveMap() ?? this.fetched.value() ?? null)
+      : (this.fetched.value() ?? null),
+  );
+  protected readonly state = computed(() => {
+    if (this.map()) return 'ready';
+    if (this.fetched.error()) return 'error';
+    if (this.windowKind() === 'custom' && !(this.from() && this.to())) return 'empty';
+    return 'loading';
+  });
+  protected readonly errorText = computed(() => describeApiError(this.fetched.error()));
+  protected readonly connectionLabel = computed(
+    () =>
+      ({
+        live: 'Live',
+        connecting: 'Connecting…',
+        reconnecting: 'Reconnecting…',
+        offline: 'Offline',
+      })[this.connection()],
+  );
+  /** The last frame's time by the house's own clock, with its zone shown. */
+  protected readonly updatedText = computed(() => {
+    const at = this.lastMessageAt();
+    const zone = this.map()?.timezone;
+    if (!at || !zone) return null;
+    const time = new Intl.DateTimeFormat('en-GB', {
+      hour: '2-digit',
+      minute: '2-digit',
+      second: '2-digit',
+      timeZone: zone,
+    }).format(at);
+    return `${time} ${zone}`;
+  });
+  protected readonly houseExceptions = computed(() =>
+    (this.exceptions.value() ?? []).filter(
+      (e) => e.scope === 'house' || e.scope === 'row' || e.scope === 'tier',
+    ),
+  );
+
+  constructor() {
+    // Follow the house live while the page is open; the socket resubscribes by itself after a reconnect.
+    effect((onCleanup) => {
+      const houseId = this.houseId();
+      // Only the house id is a dependency: the socket's own signals must not restart the subscription.
+      const subscription = untracked(() => {
+        this.liveMap.set(null);
+        return this.live.watchHouse(houseId).subscribe((message) => {
+          if (message.type === 'snapshot' || message.type === 'frame')
+            this.liveMap.set(message.map);
+          if (message.type === 'exception') this.exceptions.reload();
+        });
+      });
+      onCleanup(() => {
+        subscription.unsubscribe();
+      });
+    });
+  }
+
+  protected setWindow(kind: WindowKind): void {
+    this.windowKind.set(kind);
+  }
+
+  protected describeScope(e: {
+    kind: string;
+    scope: string;
+    row: number | null;
+    tier: number | null;
+  }): string {
+    if (e.kind === 'collector_gap') return 'Collector and belts disagree';
+    if (e.kind === 'house_dip') return 'House hen-day production dipped';
+    return e.scope === 'row'
+      ? `Row ${e.row} short (all tiers)`
+      : `Tier ${e.tier} short (across rows)`;
+  }
+}

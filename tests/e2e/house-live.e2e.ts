@@ -1,0 +1,114 @@
+import { spawn } from 'node:child_process';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { prepareSimulatorFarms } from '../../scripts/demo-simulator';
+import { screenshot, signIn, startHarness, type Harness } from './harness';
+
+const ROOT = new URL('../..', import.meta.url).pathname;
+let harness: Harness;
+let dir: string;
+
+beforeAll(async () => {
+  harness = await startHarness();
+  dir = mkdtempSync(join(tmpdir(), 'tierscope-e2e-sim-'));
+  // The simulator plants a feed-line fault in House 1, row 3, for the last two days of a week of history.
+  const farmFiles = await prepareSimulatorFarms({
+    apiUrl: harness.baseUrl,
+    dataDir: dir,
+    flocks: new Map(),
+  });
+  const simulator = spawn(
+    process.execPath,
+    [
+      '--import',
+      'tsx',
+      'simulator/src/main.ts',
+      '--farm-file',
+      farmFiles[0]!,
+      '--seed',
+      '11',
+      '--backfill-days',
+      '8',
+      '--backfill-interval',
+      '30',
+      '--duration',
+      '0',
+      '--fault',
+      'feed:house=House 1,row=3,drop=0.2,from=-2d',
+    ],
+    { cwd: ROOT, stdio: ['ignore', 'ignore', 'inherit'] },
+  );
+  expect(
+    await new Promise<number>((resolve) => simulator.once('exit', (code) => { resolve(code ?? 1); })),
+  ).toBe(0);
+}, 180_000);
+
+afterAll(async () => {
+  await harness.stop();
+  rmSync(dir, { recursive: true, force: true });
+});
+
+describe('the house live page', () => {
+  it('shows the planted fault flagged on the map, live', async () => {
+    const page = await harness.browser.newPage({ viewport: { width: 1280, height: 1000 } });
+    await signIn(page, harness.baseUrl, 'manager@bramblewood.test');
+    await page.getByRole('heading', { name: 'North Ridge' }).waitFor();
+    // The engine evaluates the imported days once the readings stop arriving; wait for its verdict.
+    const token = await page.evaluate(
+      () =>
+        (JSON.parse(localStorage.getItem('tierscope.session') ?? '{}') as { token: string }).token,
+    );
+    await expect
+      .poll(
+        async () => {
+          const response = await fetch(
+            `${harness.baseUrl}/api/v1/exceptions?status=live&kind=shortfall`,
+            { headers: { authorization: `Bearer ${token}` } },
+          );
+          const list = (await response.json()) as {
+            houseName: string;
+            scope: string;
+            row: number;
+          }[];
+          return list.some((e) => e.houseName === 'House 1' && e.scope === 'row' && e.row === 3);
+        },
+        { timeout: 90_000, interval: 1000 },
+      )
+      .toBe(true);
+
+    await page.getByRole('link', { name: 'Live map of House 1' }).click();
+    await page.getByTestId('connection').getByText('Live').waitFor();
+    await page.getByText('Row 3 short (all tiers)').waitFor();
+    const flagged = page.locator('[data-testid="map-table"] tr[data-exception="shortfall"]');
+    await expect.poll(() => flagged.count()).toBe(3);
+    expect(
+      await flagged.evaluateAll((rows) => rows.map((r) => r.getAttribute('data-row'))),
+    ).toEqual(['3', '3', '3']);
+    await screenshot(page, 'house-live-fault');
+
+    // A cell opens its detail with the likely checks of the row.
+    const box = await page.locator('ts-house-heat-map canvas').first().boundingBox();
+    expect(box).not.toBeNull();
+    // Row 3 of 6 is the third column of the grid (the chart's left margin is 64 px).
+    const x = box!.x + 64 + ((box!.width - 80) / 6) * 2.5;
+    await page.mouse.click(x, box!.y + 60);
+    await page.getByRole('heading', { name: /Row 3, tier/ }).waitFor();
+    await page.getByText("This row's feed line").first().waitFor();
+    await screenshot(page, 'house-live-detail');
+    await page.close();
+  });
+
+  it('lists the fault on the exceptions page, where the manager acknowledges it', async () => {
+    const page = await harness.browser.newPage({ viewport: { width: 1280, height: 900 } });
+    await signIn(page, harness.baseUrl, 'manager@bramblewood.test');
+    await page.getByRole('link', { name: 'Exceptions' }).click();
+    await page.getByRole('table', { name: 'Exceptions' }).waitFor();
+    const row = page.getByRole('row').filter({ hasText: 'Row 3 (all tiers)' });
+    await row.getByRole('button', { name: 'Acknowledge' }).click();
+    await row.getByText('acknowledged').waitFor();
+    await screenshot(page, 'exceptions');
+    await page.close();
+  });
+});
