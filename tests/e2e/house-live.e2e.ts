@@ -41,7 +41,11 @@ beforeAll(async () => {
     { cwd: ROOT, stdio: ['ignore', 'ignore', 'inherit'] },
   );
   expect(
-    await new Promise<number>((resolve) => simulator.once('exit', (code) => { resolve(code ?? 1); })),
+    await new Promise<number>((resolve) =>
+      simulator.once('exit', (code) => {
+        resolve(code ?? 1);
+      }),
+    ),
   ).toBe(0);
 }, 180_000);
 

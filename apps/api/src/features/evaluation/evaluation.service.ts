@@ -103,8 +103,47 @@ export interface EvaluationService {
   ): Promise<HouseMap | undefined>;
 }
 
+/** How long a house's layout and its past days' baseline may be reused between evaluations and frames. */
+const CACHE_MS = 30_000;
+
 export function createEvaluationService(db: Database, events: EventBus): EvaluationService {
+  // The seven days before today do not change while today runs, so frames and evaluations share them. They
+  // are dropped when readings for past days arrive or an exception changes (exceptions shape the baseline).
+  const historyCache = new Map<string, { at: number; days: Promise<HistoryDay[]> }>();
+  const layoutCache = new Map<number, { at: number; layout: Promise<Layout | undefined> }>();
+  const forget = (houseId: number) => {
+    for (const key of historyCache.keys())
+      if (key.startsWith(`${houseId}|`)) historyCache.delete(key);
+  };
+  events.on('readings.accepted', (e) => {
+    if (e.firstTs.getTime() < Date.now() - 20 * 3_600_000) forget(e.houseId);
+  });
+  events.on('house.evaluated', (e) => {
+    if (e.changed.length > 0) forget(e.houseId);
+  });
+  events.on('exception.changed', (e) => {
+    forget(e.houseId);
+  });
+
+  async function cachedLayout(houseId: number): Promise<Layout | undefined> {
+    const hit = layoutCache.get(houseId);
+    if (hit && Date.now() - hit.at < CACHE_MS) return hit.layout;
+    const layout = houseLayout(db, houseId);
+    layoutCache.set(houseId, { at: Date.now(), layout });
+    return layout;
+  }
+
   async function history(layout: Layout, beforeDay: string): Promise<HistoryDay[]> {
+    const key = `${layout.house.id}|${beforeDay}`;
+    const hit = historyCache.get(key);
+    if (hit && Date.now() - hit.at < CACHE_MS) return hit.days;
+    const days = loadHistory(layout, beforeDay);
+    historyCache.set(key, { at: Date.now(), days });
+    days.catch(() => historyCache.delete(key));
+    return days;
+  }
+
+  async function loadHistory(layout: Layout, beforeDay: string): Promise<HistoryDay[]> {
     const { house } = layout;
     const firstDay = addDays(beforeDay, -7);
     const lastDay = addDays(beforeDay, -1);
@@ -411,7 +450,7 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
 
   return {
     async evaluateNow(houseId, now = new Date()) {
-      const layout = await houseLayout(db, houseId);
+      const layout = await cachedLayout(houseId);
       if (!layout) return { changed: [] };
       const { day, candidates } = await measure(layout, now, true);
       const streaks = await readStreaks(db, houseId);
@@ -492,7 +531,7 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
     },
 
     async buildMap(houseId, windowOrToday, now = new Date()) {
-      const layout = await houseLayout(db, houseId);
+      const layout = await cachedLayout(houseId);
       if (!layout) return undefined;
       const { house } = layout;
       const window =
