@@ -18,6 +18,7 @@ export interface NewHouse {
   lightsOn: string;
   photoperiodHours: number;
   shortfallThresholdPct: number;
+  eggPricePerDozen?: number | null;
 }
 
 /**

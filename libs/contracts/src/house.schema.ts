@@ -39,14 +39,22 @@ const houseFields = {
     .max(50, 'At most 50 %'),
 };
 
+/** Price of a dozen eggs, for the money value of eggs lost; null when not set. */
+const eggPricePerDozen = z
+  .number('The price must be a number')
+  .min(0, 'The price cannot be negative')
+  .max(100, 'At most 100 a dozen')
+  .nullable();
+
 export const houseCreateSchema = z.object({
   ...houseFields,
   shortfallThresholdPct: houseFields.shortfallThresholdPct.default(10),
+  eggPricePerDozen: eggPricePerDozen.default(null),
 });
 export type HouseCreate = z.input<typeof houseCreateSchema>;
 
 export const houseUpdateSchema = z
-  .object(houseFields)
+  .object({ ...houseFields, eggPricePerDozen })
   .partial()
   .refine((value) => Object.keys(value).length > 0, 'Send at least one field to change');
 export type HouseUpdate = z.infer<typeof houseUpdateSchema>;
@@ -61,6 +69,7 @@ export const houseSchema = z.object({
   lightsOn: z.string(),
   photoperiodHours: z.number(),
   shortfallThresholdPct: z.number(),
+  eggPricePerDozen: z.number().nullable(),
   createdAt: z.iso.datetime(),
 });
 export type House = z.infer<typeof houseSchema>;

@@ -194,6 +194,18 @@ describe('the exception lifecycle', () => {
       houseName: 'A1',
     });
     expect(response.body[0].likelyChecks.join(' ')).toMatch(/Drinkers/);
+    expect(response.body[0].eggsLostValue).toBeNull();
+    // With a price per dozen set on the house, eggs lost get their money value.
+    const admin = await bearerFor(app, fixture.usersA.admin.email);
+    await request(app)
+      .patch(`/api/v1/houses/${fixture.houseA}`)
+      .set('Authorization', admin)
+      .send({ eggPricePerDozen: 2.4 })
+      .expect(200);
+    const priced = await request(app)
+      .get(`/api/v1/exceptions?houseId=${fixture.houseA}&status=live`)
+      .set('Authorization', crew);
+    expect(priced.body[0].eggsLostValue).toBeCloseTo((priced.body[0].eggsLost / 12) * 2.4, 2);
   });
 
   it('lets a manager acknowledge and close it, but not the crew; another farm sees nothing', async () => {

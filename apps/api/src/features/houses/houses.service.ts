@@ -166,6 +166,7 @@ function toHouse(row: HouseRow): House {
     lightsOn: row.lightsOn,
     photoperiodHours: row.photoperiodHours,
     shortfallThresholdPct: row.shortfallThresholdPct,
+    eggPricePerDozen: row.eggPricePerDozen,
     createdAt: row.createdAt.toISOString(),
   };
 }

@@ -9,7 +9,12 @@ import {
   numberAttribute,
   signal,
 } from '@angular/core';
-import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import {
+  FormControl,
+  NonNullableFormBuilder,
+  ReactiveFormsModule,
+  Validators,
+} from '@angular/forms';
 import { MatAutocompleteModule } from '@angular/material/autocomplete';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -69,6 +74,7 @@ export class HouseSettingsPage {
     lightsOn: ['04:00', [Validators.required, zodValidator(fields.lightsOn)]],
     photoperiodHours: [16, [Validators.required, zodValidator(fields.photoperiodHours)]],
     shortfallThresholdPct: [10, [Validators.required, zodValidator(fields.shortfallThresholdPct)]],
+    eggPricePerDozen: new FormControl<number | null>(null, zodValidator(fields.eggPricePerDozen)),
   });
   protected readonly firstError = firstError;
   protected readonly isSaving = signal(false);
@@ -95,6 +101,7 @@ export class HouseSettingsPage {
         lightsOn: house.lightsOn,
         photoperiodHours: house.photoperiodHours,
         shortfallThresholdPct: house.shortfallThresholdPct,
+        eggPricePerDozen: house.eggPricePerDozen,
       });
     });
   }
