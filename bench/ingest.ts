@@ -8,7 +8,7 @@
  * Prints rows/s, the ratios a/c and b/c and the API's peak RSS; the last line is one JSON object.
  * A benchmark, not a test: it asserts nothing and CI does not run it.
  */
-import { spawn, spawnSync } from 'node:child_process';
+import { spawnSync } from 'node:child_process';
 import {
   createReadStream,
   chmodSync,
@@ -17,7 +17,6 @@ import {
   rmSync,
   writeFileSync,
 } from 'node:fs';
-import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { parseArgs } from 'node:util';
@@ -26,8 +25,8 @@ import { insertHouseWithLayout, openDatabase, runMigrations, schema } from '@tie
 import { createInterface } from 'node:readline';
 import { copyReadingsInChunks } from '../apps/api/src/features/ingest/bulk-ingest.repository';
 import { ensurePostgres, startCluster } from '../scripts/postgres';
+import { freePort, startApiProcess } from '../scripts/processes';
 
-const ROOT = new URL('..', import.meta.url).pathname;
 const { values } = parseArgs({
   options: {
     rows: { type: 'string', default: '1000000' },
@@ -39,19 +38,6 @@ const ROWS = Number(values.rows);
 const CLIENTS = Number(values.clients);
 const BATCH = Number(values.batch);
 const HOUSES = 10;
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer();
-    server.listen(0, '127.0.0.1', () => {
-      const address = server.address();
-      server.close(() => {
-        if (typeof address === 'object' && address) resolve(address.port);
-        else reject(new Error('no free port'));
-      });
-    });
-  });
-}
 
 /** A farm of 10 houses (6 rows × 3 tiers and a collector each): 190 counters. */
 async function prepareFarm(url: string) {
@@ -127,27 +113,11 @@ async function main(): Promise<void> {
     await api.database.db
       .insert(schema.memberships)
       .values({ userId: user.id, farmId: api.farmId, role: 'integrator' });
-    const port = await freePort();
-    const apiUrl = `http://127.0.0.1:${port}`;
-    const server = spawn(process.execPath, ['--import', 'tsx', 'apps/api/src/server.ts'], {
-      cwd: ROOT,
-      env: {
-        ...process.env,
-        DATABASE_URL: cluster.url('bench_api'),
-        PORT: String(port),
-        JWT_SECRET: 'bench-secret-bench-secret-bench-secret-0123',
-      },
-      stdio: ['ignore', 'ignore', 'inherit'],
+    const server = await startApiProcess({
+      DATABASE_URL: cluster.url('bench_api'),
+      JWT_SECRET: 'bench-secret-bench-secret-bench-secret-0123',
     });
-    for (let i = 0; ; i++) {
-      try {
-        if ((await fetch(`${apiUrl}/api/health`)).ok) break;
-      } catch {
-        // Not up yet.
-      }
-      if (i > 240) throw new Error('API did not start');
-      await new Promise((r) => setTimeout(r, 250));
-    }
+    const apiUrl = server.baseUrl;
     const login = (await (
       await fetch(`${apiUrl}/api/v1/auth/login`, {
         method: 'POST',
@@ -192,8 +162,8 @@ async function main(): Promise<void> {
       }),
     );
     const apiSeconds = (performance.now() - apiStart) / 1000;
-    const apiRss = server.pid ? peakRssMb(server.pid) : 0;
-    server.kill('SIGTERM');
+    const apiRss = server.child.pid ? peakRssMb(server.child.pid) : 0;
+    await server.stop();
     await api.database.close();
     if (accepted !== ROWS) throw new Error(`API accepted ${accepted} of ${ROWS}`);
     console.log(

@@ -6,9 +6,7 @@
  * latency p50/p95/p99 over 200 real WebSocket clients while 5,000 readings/s are posted, and (c) the map API
  * time for today, 7 days and a 400-day range. The last line is one JSON object. Not a test; CI does not run it.
  */
-import { spawn } from 'node:child_process';
 import { chmodSync, mkdtempSync, rmSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { hash } from '@node-rs/argon2';
@@ -18,27 +16,14 @@ import { WebSocket } from 'ws';
 import { createEvaluationService } from '../apps/api/src/features/evaluation/evaluation.service';
 import { createEventBus } from '../apps/api/src/platform/events';
 import { startCluster } from '../scripts/postgres';
+import { freePort, startApiProcess } from '../scripts/processes';
 
-const ROOT = new URL('..', import.meta.url).pathname;
 const HOUSES = 10;
 const ROWS = 12;
 const TIERS = 4;
 const CLIENTS = 200;
 const RATE = 5000;
 const SECONDS = 10;
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer();
-    server.listen(0, '127.0.0.1', () => {
-      const address = server.address();
-      server.close(() => {
-        if (typeof address === 'object' && address) resolve(address.port);
-        else reject(new Error('no free port'));
-      });
-    });
-  });
-}
 
 const percentile = (values: number[], p: number) => {
   const sorted = [...values].sort((a, b) => a - b);
@@ -129,27 +114,11 @@ async function main(): Promise<void> {
     await database.db
       .insert(schema.memberships)
       .values({ userId: user.id, farmId: farm.id, role: 'admin' });
-    const port = await freePort();
-    const apiUrl = `http://127.0.0.1:${port}`;
-    const api = spawn(process.execPath, ['--import', 'tsx', 'apps/api/src/server.ts'], {
-      cwd: ROOT,
-      env: {
-        ...process.env,
-        DATABASE_URL: url,
-        PORT: String(port),
-        JWT_SECRET: 'bench-live-secret-bench-live-secret-0123',
-      },
-      stdio: ['ignore', 'ignore', 'inherit'],
+    const api = await startApiProcess({
+      DATABASE_URL: url,
+      JWT_SECRET: 'bench-live-secret-bench-live-secret-0123',
     });
-    for (let i = 0; ; i++) {
-      try {
-        if ((await fetch(`${apiUrl}/api/health`)).ok) break;
-      } catch {
-        // Starting.
-      }
-      if (i > 240) throw new Error('API did not start');
-      await new Promise((r) => setTimeout(r, 250));
-    }
+    const apiUrl = api.baseUrl;
     const login = (await (
       await fetch(`${apiUrl}/api/v1/auth/login`, {
         method: 'POST',
@@ -256,7 +225,7 @@ async function main(): Promise<void> {
     await new Promise((r) => setTimeout(r, 1500));
     const achieved = sent / ((Date.now() - start - 1500) / 1000);
     for (const s of sockets) s.close();
-    api.kill('SIGTERM');
+    await api.stop();
     await database.close();
     const p50 = percentile(latencies, 50);
     const p95 = percentile(latencies, 95);

@@ -20,6 +20,7 @@ import {
 } from '@tierscope/db/seed';
 import { prepareSimulatorFarms } from './demo-simulator';
 import { recreateDatabase, startCluster } from './postgres';
+import { waitForHealth } from './processes';
 
 const ROOT = new URL('..', import.meta.url).pathname;
 const DATA = join(ROOT, '.data');
@@ -71,20 +72,6 @@ function isPortFree(port: number): Promise<boolean> {
       });
     });
   });
-}
-
-async function waitForHealth(url: string, timeoutMs: number): Promise<void> {
-  const deadline = Date.now() + timeoutMs;
-  while (Date.now() < deadline) {
-    try {
-      const response = await fetch(url);
-      if (response.ok) return;
-    } catch {
-      // Not listening yet: try again shortly.
-    }
-    await new Promise((resolve) => setTimeout(resolve, 250));
-  }
-  throw new Error(`the API did not answer ${url} within ${timeoutMs / 1000} s`);
 }
 
 async function main(): Promise<void> {
@@ -156,7 +143,7 @@ async function main(): Promise<void> {
     }
   });
   const url = `http://127.0.0.1:${PORT}`;
-  await waitForHealth(`${url}/api/health`, 60_000);
+  await waitForHealth(url, 60_000);
 
   const farmFiles = await prepareSimulatorFarms({ apiUrl: url, dataDir: DATA, flocks });
   const simulatorArgs = [

@@ -1,10 +1,9 @@
-import { spawn, type ChildProcess } from 'node:child_process';
 import { existsSync, mkdirSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { join } from 'node:path';
 import { createTestDatabase } from '@tierscope/db/testing';
 import { seedDemo } from '@tierscope/db/seed';
 import { chromium, type Browser, type Page } from 'playwright-core';
+import { startApiProcess } from '../../scripts/processes';
 
 const ROOT = new URL('../..', import.meta.url).pathname;
 export const ARTIFACTS = join(ROOT, 'test-results');
@@ -14,19 +13,6 @@ export interface Harness {
   baseUrl: string;
   browser: Browser;
   stop(): Promise<void>;
-}
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer();
-    server.listen(0, '127.0.0.1', () => {
-      const address = server.address();
-      server.close(() => {
-        if (typeof address === 'object' && address) resolve(address.port);
-        else reject(new Error('no port'));
-      });
-    });
-  });
 }
 
 export async function startHarness(): Promise<Harness> {
@@ -39,32 +25,15 @@ export async function startHarness(): Promise<Harness> {
   mkdirSync(ARTIFACTS, { recursive: true });
   const database = await createTestDatabase();
   await seedDemo(database.db);
-  const port = await freePort();
-  const api: ChildProcess = spawn(process.execPath, ['--import', 'tsx', 'apps/api/src/server.ts'], {
-    cwd: ROOT,
-    env: {
-      ...process.env,
+  const api = await startApiProcess(
+    {
       DATABASE_URL: database.url,
-      PORT: String(port),
-      HOST: '127.0.0.1',
       JWT_SECRET: 'e2e-secret-e2e-secret-e2e-secret-e2e-secret',
       WEB_DIST: webDist,
     },
-    stdio: ['ignore', 'inherit', 'inherit'],
-    // Its own process group, so nothing it starts outlives the suite.
-    detached: true,
-  });
-  const baseUrl = `http://127.0.0.1:${port}`;
-  const deadline = Date.now() + 60_000;
-  for (;;) {
-    try {
-      if ((await fetch(`${baseUrl}/api/health`)).ok) break;
-    } catch {
-      // Still starting.
-    }
-    if (Date.now() > deadline) throw new Error('the API did not start within 60 s');
-    await new Promise((r) => setTimeout(r, 250));
-  }
+    { stdio: ['ignore', 'inherit', 'inherit'] },
+  );
+  const baseUrl = api.baseUrl;
   const browser = await chromium.launch({
     executablePath: process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium',
     headless: true,
@@ -83,9 +52,7 @@ export async function startHarness(): Promise<Harness> {
     browser,
     async stop() {
       await browser.close();
-      const exited = new Promise((r) => api.once('exit', r));
-      if (api.pid) process.kill(-api.pid, 'SIGTERM');
-      await exited;
+      await api.stop();
       await database.drop();
     },
   };

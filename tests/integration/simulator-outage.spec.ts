@@ -1,6 +1,5 @@
-import { spawn, type ChildProcess } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync, chmodSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { hash } from '@node-rs/argon2';
@@ -8,6 +7,7 @@ import { insertHouseWithLayout, openDatabase, runMigrations, schema } from '@tie
 import { sql } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startCluster, type Cluster } from '../../scripts/postgres';
+import { freePort, startApiProcess, type ApiProcess } from '../../scripts/processes';
 
 /**
  * The simulator against the real API on a PostgreSQL of its own, which is stopped and started again in the
@@ -16,22 +16,9 @@ import { startCluster, type Cluster } from '../../scripts/postgres';
 const ROOT = new URL('../..', import.meta.url).pathname;
 let dir: string;
 let cluster: Cluster;
-let api: ChildProcess;
+let api: ApiProcess;
 let apiUrl: string;
 let databaseUrl: string;
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer();
-    server.listen(0, '127.0.0.1', () => {
-      const address = server.address();
-      server.close(() => {
-        if (typeof address === 'object' && address) resolve(address.port);
-        else reject(new Error('no free port'));
-      });
-    });
-  });
-}
 
 async function waitFor(
   check: () => Promise<boolean>,
@@ -76,28 +63,15 @@ beforeAll(async () => {
     .values({ userId: user!.id, farmId: farm!.id, role: 'integrator' });
   await setup.close();
 
-  const port = await freePort();
-  apiUrl = `http://127.0.0.1:${port}`;
-  api = spawn(process.execPath, ['--import', 'tsx', 'apps/api/src/server.ts'], {
-    cwd: ROOT,
-    env: {
-      ...process.env,
-      DATABASE_URL: databaseUrl,
-      PORT: String(port),
-      JWT_SECRET: 'outage-secret-outage-secret-outage-secret',
-    },
-    stdio: ['ignore', 'ignore', 'inherit'],
-    detached: true,
+  api = await startApiProcess({
+    DATABASE_URL: databaseUrl,
+    JWT_SECRET: 'outage-secret-outage-secret-outage-secret',
   });
-  await waitFor(async () => (await fetch(`${apiUrl}/api/health`)).ok, 60_000, 'the API');
+  apiUrl = api.baseUrl;
 });
 
 afterAll(async () => {
-  try {
-    if (api.pid) process.kill(-api.pid, 'SIGTERM');
-  } catch {
-    // Already gone (it may have failed the test by exiting): nothing to stop.
-  }
+  await api.stop();
   cluster.stop();
   rmSync(dir, { recursive: true, force: true });
 });
