@@ -14,7 +14,7 @@ import { firstValueFrom } from 'rxjs';
 import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
-import { LoadState } from '../../shared/ui/load-state';
+import { listState, LoadState } from '../../shared/ui/load-state';
 import { CloseDialog } from './close-dialog';
 
 type StatusFilter = 'live' | 'closed' | '';
@@ -62,11 +62,7 @@ export class ExceptionsPage {
     for (const e of this.exceptions.value() ?? []) seen.set(e.houseId, e.houseName);
     return [...seen];
   });
-  protected readonly state = computed(() => {
-    if (this.exceptions.error()) return 'error';
-    if (this.exceptions.isLoading() && !this.exceptions.hasValue()) return 'loading';
-    return (this.exceptions.value()?.length ?? 0) === 0 ? 'empty' : 'ready';
-  });
+  protected readonly state = computed(() => listState(this.exceptions));
   protected readonly errorText = computed(() => describeApiError(this.exceptions.error()));
   protected readonly columns = ['where', 'what', 'measured', 'opened', 'lost', 'status', 'actions'];
 

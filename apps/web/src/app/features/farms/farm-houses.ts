@@ -8,7 +8,7 @@ import { houseSchema } from '@tierscope/contracts';
 import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
-import { LoadState } from '../../shared/ui/load-state';
+import { listState, LoadState } from '../../shared/ui/load-state';
 import { HouseSummary } from './house-summary';
 
 /** The house cards of one farm. */
@@ -26,11 +26,7 @@ export class FarmHouses {
   protected readonly houses = httpResource(() => `/api/v1/farms/${this.farmId()}/houses`, {
     parse: z.array(houseSchema).parse,
   });
-  protected readonly state = computed(() => {
-    if (this.houses.error()) return 'error';
-    if (this.houses.isLoading() && !this.houses.hasValue()) return 'loading';
-    return (this.houses.value()?.length ?? 0) === 0 ? 'empty' : 'ready';
-  });
+  protected readonly state = computed(() => listState(this.houses));
   protected readonly errorText = computed(() => describeApiError(this.houses.error()));
   protected readonly canEdit = computed(() =>
     this.auth.hasPermission('house.update', this.farmId()),

@@ -4,7 +4,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { farmSchema } from '@tierscope/contracts';
 import { z } from 'zod';
 import { describeApiError } from '../../core/http/api-error';
-import { LoadState } from '../../shared/ui/load-state';
+import { listState, LoadState } from '../../shared/ui/load-state';
 import { FarmHouses } from './farm-houses';
 
 /** Every farm the user belongs to, each with its houses. */
@@ -19,10 +19,6 @@ export class FarmsPage {
   protected readonly farms = httpResource(() => '/api/v1/farms', {
     parse: z.array(farmSchema).parse,
   });
-  protected readonly state = computed(() => {
-    if (this.farms.error()) return 'error';
-    if (this.farms.isLoading() && !this.farms.hasValue()) return 'loading';
-    return (this.farms.value()?.length ?? 0) === 0 ? 'empty' : 'ready';
-  });
+  protected readonly state = computed(() => listState(this.farms));
   protected readonly errorText = computed(() => describeApiError(this.farms.error()));
 }

@@ -34,7 +34,7 @@ import { firstValueFrom } from 'rxjs';
 import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
-import { LoadState } from '../../shared/ui/load-state';
+import { listState, LoadState } from '../../shared/ui/load-state';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
 
 /** Integrators' and admins' gateways: a key per farm gateway, shown once, revocable. */
@@ -71,11 +71,7 @@ export class GatewaysPage {
     },
     { parse: (value) => z.array(gatewaySchema).parse(value) },
   );
-  protected readonly state = computed(() => {
-    if (this.gateways.error()) return 'error';
-    if (this.gateways.isLoading() && !this.gateways.hasValue()) return 'loading';
-    return (this.gateways.value()?.length ?? 0) === 0 ? 'empty' : 'ready';
-  });
+  protected readonly state = computed(() => listState(this.gateways));
   protected readonly errorText = computed(() => describeApiError(this.gateways.error()));
   protected readonly columns = [
     'name',

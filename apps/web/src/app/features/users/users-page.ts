@@ -12,7 +12,7 @@ import { firstValueFrom } from 'rxjs';
 import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
-import { LoadState } from '../../shared/ui/load-state';
+import { listState, LoadState } from '../../shared/ui/load-state';
 import { UserDialog, type UserDialogData } from './user-dialog';
 
 /** Administrators' list of the people on their farms and their roles. */
@@ -32,11 +32,7 @@ export class UsersPage {
   protected readonly users = httpResource(() => '/api/v1/users', {
     parse: z.array(userSchema).parse,
   });
-  protected readonly state = computed(() => {
-    if (this.users.error()) return 'error';
-    if (this.users.isLoading() && !this.users.hasValue()) return 'loading';
-    return (this.users.value()?.length ?? 0) === 0 ? 'empty' : 'ready';
-  });
+  protected readonly state = computed(() => listState(this.users));
   protected readonly errorText = computed(() => describeApiError(this.users.error()));
   protected readonly columns = ['name', 'email', 'roles', 'active', 'actions'];
   private readonly adminFarms = computed(() =>

@@ -45,3 +45,15 @@ export class LoadState {
   readonly emptyText = input('Nothing here yet.');
   readonly retry = output();
 }
+
+/** What a list page shows for a resource: its loading, error, empty or ready state. */
+export function listState(resource: {
+  error(): unknown;
+  isLoading(): boolean;
+  hasValue(): boolean;
+  value(): readonly unknown[] | undefined;
+}): 'loading' | 'error' | 'empty' | 'ready' {
+  if (resource.error()) return 'error';
+  if (resource.isLoading() && !resource.hasValue()) return 'loading';
+  return (resource.value()?.length ?? 0) === 0 ? 'empty' : 'ready';
+}
