@@ -25,7 +25,7 @@ import { insertHouseWithLayout, openDatabase, runMigrations, schema } from '@tie
 import { createInterface } from 'node:readline';
 import { copyReadingsInChunks } from '../apps/api/src/features/ingest/bulk-ingest.repository';
 import { ensurePostgres, startCluster } from '../scripts/postgres';
-import { freePort, startApiProcess } from '../scripts/processes';
+import { freePort, makeGatewayKey, signInThroughApi, startApiProcess } from '../scripts/processes';
 
 const { values } = parseArgs({
   options: {
@@ -118,20 +118,8 @@ async function main(): Promise<void> {
       JWT_SECRET: 'bench-secret-bench-secret-bench-secret-0123',
     });
     const apiUrl = server.baseUrl;
-    const login = (await (
-      await fetch(`${apiUrl}/api/v1/auth/login`, {
-        method: 'POST',
-        headers: { 'content-type': 'application/json' },
-        body: JSON.stringify({ email: 'bench@bench.test', password: 'bench-password' }),
-      })
-    ).json()) as { token: string };
-    const gateway = (await (
-      await fetch(`${apiUrl}/api/v1/farms/${api.farmId}/gateways`, {
-        method: 'POST',
-        headers: { 'content-type': 'application/json', authorization: `Bearer ${login.token}` },
-        body: JSON.stringify({ name: 'bench' }),
-      })
-    ).json()) as { key: string };
+    const login = await signInThroughApi(apiUrl, 'bench@bench.test', 'bench-password');
+    const gateway = { key: await makeGatewayKey(apiUrl, login.token, api.farmId, 'bench') };
     const batches = Math.ceil(ROWS / BATCH);
     let next = 0;
     let accepted = 0;

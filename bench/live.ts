@@ -16,7 +16,7 @@ import { WebSocket } from 'ws';
 import { createEvaluationService } from '../apps/api/src/features/evaluation/evaluation.service';
 import { createEventBus } from '../apps/api/src/platform/events';
 import { startCluster } from '../scripts/postgres';
-import { freePort, startApiProcess } from '../scripts/processes';
+import { freePort, makeGatewayKey, signInThroughApi, startApiProcess } from '../scripts/processes';
 
 const HOUSES = 10;
 const ROWS = 12;
@@ -119,23 +119,9 @@ async function main(): Promise<void> {
       JWT_SECRET: 'bench-live-secret-bench-live-secret-0123',
     });
     const apiUrl = api.baseUrl;
-    const login = (await (
-      await fetch(`${apiUrl}/api/v1/auth/login`, {
-        method: 'POST',
-        headers: { 'content-type': 'application/json' },
-        body: JSON.stringify({ email: 'bench@bench.test', password: 'bench-password' }),
-      })
-    ).json()) as { token: string };
+    const login = await signInThroughApi(apiUrl, 'bench@bench.test', 'bench-password');
     const auth = { authorization: `Bearer ${login.token}`, 'content-type': 'application/json' };
-    const key = (
-      (await (
-        await fetch(`${apiUrl}/api/v1/farms/${farm.id}/gateways`, {
-          method: 'POST',
-          headers: auth,
-          body: JSON.stringify({ name: 'bench' }),
-        })
-      ).json()) as { key: string }
-    ).key;
+    const key = await makeGatewayKey(apiUrl, login.token, farm.id, 'bench');
 
     // (c) map API
     const timeMap = async (query: string) => {

@@ -72,3 +72,34 @@ export async function startApiProcess(
     },
   };
 }
+
+/** Signs in through the real login route; throws on anything but 200. */
+export async function signInThroughApi(
+  baseUrl: string,
+  email: string,
+  password: string,
+): Promise<{ token: string; memberships: { farmId: number }[] }> {
+  const response = await fetch(`${baseUrl}/api/v1/auth/login`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify({ email, password }),
+  });
+  if (!response.ok) throw new Error(`sign-in of ${email} answered ${response.status}`);
+  return (await response.json()) as { token: string; memberships: { farmId: number }[] };
+}
+
+/** Makes a gateway on a farm through the API and returns its key (shown this once). */
+export async function makeGatewayKey(
+  baseUrl: string,
+  token: string,
+  farmId: number,
+  name: string,
+): Promise<string> {
+  const response = await fetch(`${baseUrl}/api/v1/farms/${farmId}/gateways`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` },
+    body: JSON.stringify({ name }),
+  });
+  if (!response.ok) throw new Error(`making a gateway answered ${response.status}`);
+  return ((await response.json()) as { key: string }).key;
+}

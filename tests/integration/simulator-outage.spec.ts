@@ -7,7 +7,13 @@ import { insertHouseWithLayout, openDatabase, runMigrations, schema } from '@tie
 import { sql } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startCluster, type Cluster } from '../../scripts/postgres';
-import { freePort, startApiProcess, type ApiProcess } from '../../scripts/processes';
+import {
+  freePort,
+  makeGatewayKey,
+  signInThroughApi,
+  startApiProcess,
+  type ApiProcess,
+} from '../../scripts/processes';
 
 /**
  * The simulator against the real API on a PostgreSQL of its own, which is stopped and started again in the
@@ -78,22 +84,10 @@ afterAll(async () => {
 
 describe('the simulator through a database outage', () => {
   it('loses nothing and counts nothing twice', async () => {
-    const login = (await (
-      await fetch(`${apiUrl}/api/v1/auth/login`, {
-        method: 'POST',
-        headers: { 'content-type': 'application/json' },
-        body: JSON.stringify({ email: 'int@outage.test', password: 'outage-password' }),
-      })
-    ).json()) as { token: string; memberships: { farmId: number }[] };
+    const login = await signInThroughApi(apiUrl, 'int@outage.test', 'outage-password');
     const auth = { authorization: `Bearer ${login.token}`, 'content-type': 'application/json' };
     const farmId = login.memberships[0]!.farmId;
-    const gateway = (await (
-      await fetch(`${apiUrl}/api/v1/farms/${farmId}/gateways`, {
-        method: 'POST',
-        headers: auth,
-        body: JSON.stringify({ name: 'Simulator' }),
-      })
-    ).json()) as { key: string };
+    const gateway = { key: await makeGatewayKey(apiUrl, login.token, farmId, 'Simulator') };
     const houses = (await (
       await fetch(`${apiUrl}/api/v1/farms/${farmId}/houses`, { headers: auth })
     ).json()) as { id: number }[];

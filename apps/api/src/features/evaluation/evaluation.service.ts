@@ -7,7 +7,6 @@ import {
   eggsLost,
   findingKey,
   isSilentCounter,
-  judge,
   judgeCollectorGap,
   judgeHouse,
   judgeHouseDip,
@@ -35,7 +34,6 @@ import {
   exceptionsOverlapping,
   hensAlive,
   houseLayout,
-  liveExceptions,
   openException,
   readStreaks,
   sectionDays,
@@ -203,7 +201,7 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
     layout: Layout,
     at: Date,
     isLive: boolean,
-  ): Promise<{ day: string; candidates: Candidate[] }> {
+  ): Promise<{ day: string; candidates: Candidate[]; openAt: ExceptionRow[] }> {
     const { house } = layout;
     const day = productionDayOf(at, house.timezone, house.lightsOn);
     const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
@@ -258,7 +256,8 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
     }
 
     // A counter already known to be silent stays so until it counts again, even when its peers are quiet.
-    for (const e of await exceptionsOpenAt(db, house.id, at)) {
+    const openAt = await exceptionsOpenAt(db, house.id, at);
+    for (const e of openAt) {
       if (e.kind === 'silent_counter' && e.row !== null && e.tier !== null)
         silent.add(sectionKey(e.row, e.tier));
     }
@@ -323,7 +322,7 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
         });
       }
     }
-    return { day, candidates };
+    return { day, candidates, openAt };
   }
 
   /** Runs the candidates through their streaks and opens, updates and closes exceptions. */
@@ -333,9 +332,11 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
     day: string,
     candidates: Candidate[],
     streaks: Record<string, Streak>,
+    /** the exceptions open at `at`, as measure() read them */
+    openAt: ExceptionRow[],
   ) {
     const { house } = layout;
-    const live = new Map((await exceptionsOpenAt(db, house.id, at)).map((e) => [rowKey(e), e]));
+    const live = new Map(openAt.map((e) => [rowKey(e), e]));
     const recentlyNormal = (
       await exceptionsOverlapping(
         db,
@@ -452,9 +453,9 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
     async evaluateNow(houseId, now = new Date()) {
       const layout = await cachedLayout(houseId);
       if (!layout) return { changed: [] };
-      const { day, candidates } = await measure(layout, now, true);
+      const { day, candidates, openAt } = await measure(layout, now, true);
       const streaks = await readStreaks(db, houseId);
-      const changed = await apply(layout, now, day, candidates, streaks);
+      const changed = await apply(layout, now, day, candidates, streaks, openAt);
       await writeStreaks(db, houseId, streaks, now);
       announce(layout, changed);
       return { changed };
@@ -475,8 +476,8 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
           .concat(end);
         // Today's checkpoints that have passed are replayed too; the live evaluation carries on from there.
         for (const at of checkpoints.filter((checkpoint) => checkpoint.getTime() <= Date.now())) {
-          const { candidates } = await measure(layout, at, false);
-          changed.push(...(await apply(layout, at, day, candidates, streaks)));
+          const { candidates, openAt } = await measure(layout, at, false);
+          changed.push(...(await apply(layout, at, day, candidates, streaks, openAt)));
         }
       }
       announce(layout, changed);
@@ -551,9 +552,10 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
         current,
         history: await history(layout, window.firstDay),
       });
-      const overlapping = (
-        await exceptionsOverlapping(db, house.id, window.from, window.to)
-      ).filter((e) => e.kind !== 'collector_gap' && e.kind !== 'house_dip');
+      const inWindow = await exceptionsOverlapping(db, house.id, window.from, window.to);
+      const overlapping = inWindow.filter(
+        (e) => e.kind !== 'collector_gap' && e.kind !== 'house_dip',
+      );
       const kindRank: Record<string, number> = { silent_counter: 0, shortfall: 1 };
       const cells = judged.cells.map((cell) => {
         const covering = overlapping
@@ -586,11 +588,7 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
         const henDays = [...hens.values()].reduce((a, b) => a + b, 0);
         henDayPct = henDays > 0 ? Math.round((belts / henDays) * 1000) / 10 : null;
       }
-      const open =
-        overlapping.filter((e) => e.status !== 'closed').length +
-        (await liveExceptions(db, house.id)).filter(
-          (e) => e.kind === 'collector_gap' || e.kind === 'house_dip',
-        ).length;
+      const open = inWindow.filter((e) => e.status !== 'closed').length;
       return {
         houseId: house.id,
         farmId: house.farmId,
@@ -616,6 +614,3 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
     },
   };
 }
-
-/** Exposed for the map's cell detail: a section's verdict from plain numbers. */
-export { judge };
