@@ -26,6 +26,7 @@ async function main(): Promise<void> {
   const database = openDatabase(url, { max: 1 });
   try {
     await runMigrations(database.db);
+    if (!input.password) throw new Error('Set TIERSCOPE_ADMIN_PASSWORD to the first password');
     const passwordHash = await hash(input.password);
     await database.db.transaction(async (tx) => {
       const [farm] = await tx.insert(schema.farms).values({ name: farmName }).returning();

@@ -75,6 +75,8 @@ export const exceptions = pgTable(
     closedBy: integer('closed_by').references(() => users.id, { onDelete: 'set null' }),
     closeReason: closeReason('close_reason'),
     closeNote: text('close_note'),
+    /** when the farm's managers were mailed about it; null until then (at most one mail per exception) */
+    notifiedAt: timestamp('notified_at', { withTimezone: true }),
   },
   (t) => [
     // Farm first, so exceptions distribute with the readings they come from.

@@ -11,3 +11,6 @@ export * from './audit-events';
 export * from './gateways';
 export * from './rollups';
 export * from './exceptions';
+export * from './work-orders';
+export * from './notification-settings';
+export * from './user-tokens';

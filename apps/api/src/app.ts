@@ -35,13 +35,30 @@ import {
   type ExceptionsService,
 } from './features/exceptions/exceptions.service';
 
+import { createMailer, type Mailer } from './platform/mailer';
+import { createNotifier, type Notifier } from './features/notifications/notifier';
+import { notificationsRoutes } from './features/notifications/notifications.routes';
+import { workOrdersRoutes } from './features/work-orders/work-orders.routes';
+import { createWorkOrdersService } from './features/work-orders/work-orders.service';
+
 export const API_VERSION = '0.1.0';
 
 export interface AppDeps {
   db: Database;
   config: Pick<
     AppConfig,
-    'jwtSecret' | 'tokenTtlSeconds' | 'loginMaxFailures' | 'loginWindowSeconds' | 'webDist'
+    | 'jwtSecret'
+    | 'tokenTtlSeconds'
+    | 'loginMaxFailures'
+    | 'loginWindowSeconds'
+    | 'webDist'
+    | 'publicUrl'
+    | 'smtpUrl'
+    | 'mailFrom'
+    | 'mailCatcherUrl'
+    | 'exceptionMailSeconds'
+    | 'dataDir'
+    | 'photoMaxBytes'
   >;
   log?: (message: string, error?: unknown) => void;
   /** Operational lines (ingest counts); tests pass a no-op. */
@@ -57,17 +74,30 @@ export interface Runtime {
   evaluation: EvaluationService;
   exceptions: ExceptionsService;
   scheduler: EvaluationScheduler;
+  mailer: Mailer;
+  notifier: Notifier;
 }
 
 export function createRuntime({
   db,
   config,
   log = defaultLog,
+  info = defaultInfo,
   events = createEventBus(),
-}: Pick<AppDeps, 'db' | 'config' | 'log' | 'events'>): Runtime {
+}: Pick<AppDeps, 'db' | 'config' | 'log' | 'info' | 'events'>): Runtime {
   const tokens = createTokenService(config.jwtSecret, config.tokenTtlSeconds);
   const evaluation = createEvaluationService(db, events);
+  const mailer = createMailer({ smtpUrl: config.smtpUrl, from: config.mailFrom, info });
+  const notifier = createNotifier({
+    db,
+    mailer,
+    publicUrl: config.publicUrl,
+    exceptionMailSeconds: config.exceptionMailSeconds,
+    log,
+  });
   return {
+    mailer,
+    notifier,
     events,
     tokens,
     evaluation,
@@ -114,7 +144,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
   });
   v1.use(
     '/auth',
-    authRoutes(createAuthService(db, tokens), authenticate, {
+    authRoutes(createAuthService(db, tokens, runtime.notifier), authenticate, {
       maxFailures: config.loginMaxFailures,
       windowSeconds: config.loginWindowSeconds,
     }),
@@ -122,9 +152,21 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
   v1.use(authenticate);
   v1.use(farmsRoutes(createFarmsService(db)));
   v1.use(housesRoutes(createHousesService(db)));
-  v1.use(usersRoutes(createUsersService(db)));
+  v1.use(usersRoutes(createUsersService(db, runtime.notifier)));
   v1.use(gatewaysRoutes(createGatewaysService(db)));
   v1.use(exceptionsRoutes(runtime.exceptions));
+  v1.use(
+    workOrdersRoutes(
+      createWorkOrdersService({
+        db,
+        notifier: runtime.notifier,
+        exceptions: runtime.exceptions,
+        photosDir: join(config.dataDir, 'photos'),
+      }),
+      config.photoMaxBytes,
+    ),
+  );
+  v1.use(notificationsRoutes(db, config.mailCatcherUrl));
   app.use('/api/v1', v1);
   app.use('/api', (_req, _res, next) => {
     next(new AppError('not_found', 'No such API route'));

@@ -32,6 +32,9 @@ async function main(): Promise<void> {
   };
   const runtime = createRuntime({ db: database.db, config, log });
   const app = createApp({ db: database.db, config, runtime, log });
+  runtime.notifier.start();
+  if (config.mailCatcherUrl)
+    console.log(`[api] mail goes to the local catcher (${config.smtpUrl ?? 'no SMTP_URL'})`);
   const server = app.listen(config.port, config.host, () => {
     console.log(`[api] listening on http://${config.host}:${config.port}`);
   });
@@ -60,6 +63,8 @@ async function main(): Promise<void> {
     clearInterval(evaluateAll);
     live.close();
     runtime.scheduler.dispose();
+    runtime.notifier.dispose();
+    runtime.mailer.close();
     server.close(() => void database.close().then(() => process.exit(0)));
   };
   process.on('SIGINT', stop);

@@ -7,3 +7,6 @@ export * from './health.schema';
 export * from './ingest.schema';
 export * from './simulator.schema';
 export * from './live.schema';
+export * from './mail.schema';
+export * from './work-order.schema';
+export * from './notification.schema';

@@ -19,10 +19,12 @@ const membershipsInput = z
 export const userCreateSchema = z.object({
   email: z.email('Enter a valid e-mail address').max(254),
   name: z.string().trim().min(1, 'Enter a name').max(120),
+  /** left out: the user is mailed an invitation link to choose their own */
   password: z
     .string()
     .min(PASSWORD_MIN_LENGTH, `Passwords have at least ${PASSWORD_MIN_LENGTH} characters`)
-    .max(200),
+    .max(200)
+    .optional(),
   memberships: membershipsInput.min(1, 'Give the user a role on at least one farm'),
 });
 export type UserCreate = z.infer<typeof userCreateSchema>;

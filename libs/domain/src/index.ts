@@ -6,3 +6,5 @@ export * from './production-day';
 export * from './statistics';
 export * from './windows';
 export * from './shortfall';
+export * from './work-orders';
+export * from './csv';

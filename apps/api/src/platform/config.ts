@@ -19,6 +19,19 @@ const configSchema = z.object({
   WEB_DIST: z.string().optional(),
   PUBLIC_URL: z.string().optional(),
   READINGS_RETENTION_MONTHS: z.coerce.number().int().min(1).default(25),
+  SMTP_URL: z
+    .string()
+    .regex(/^smtps?:\/\//, 'SMTP_URL must be an smtp:// or smtps:// URL')
+    .optional(),
+  MAIL_FROM: z.string().default('Tierscope <tierscope@localhost>'),
+  MAIL_CATCHER_URL: z.url('MAIL_CATCHER_URL must be an http:// URL').optional(),
+  EXCEPTION_MAIL_SECONDS: z.coerce.number().int().min(1).default(120),
+  DATA_DIR: z.string().default('.data'),
+  PHOTO_MAX_BYTES: z.coerce
+    .number()
+    .int()
+    .positive()
+    .default(8 * 1024 * 1024),
 });
 
 export interface AppConfig {
@@ -34,6 +47,16 @@ export interface AppConfig {
   publicUrl: string;
   /** Raw readings older than this many months are dropped; rollups stay. */
   readingsRetentionMonths: number;
+  /** the mail service; no mail is sent (only logged) when absent */
+  smtpUrl: string | undefined;
+  mailFrom: string;
+  /** the local mail catcher's JSON endpoint, when it is the configured transport (dev and demo) */
+  mailCatcherUrl: string | undefined;
+  /** new exceptions are gathered this long, then mailed per house */
+  exceptionMailSeconds: number;
+  /** photos and other uploads live under here */
+  dataDir: string;
+  photoMaxBytes: number;
 }
 
 /** Reads the API's settings from the environment; a bad value stops the start with its name. */
@@ -55,5 +78,11 @@ export function loadConfig(env: NodeJS.ProcessEnv): AppConfig {
     webDist: c.WEB_DIST,
     publicUrl: c.PUBLIC_URL ?? `http://${c.HOST}:${c.PORT}`,
     readingsRetentionMonths: c.READINGS_RETENTION_MONTHS,
+    smtpUrl: c.SMTP_URL,
+    mailFrom: c.MAIL_FROM,
+    mailCatcherUrl: c.MAIL_CATCHER_URL,
+    exceptionMailSeconds: c.EXCEPTION_MAIL_SECONDS,
+    dataDir: c.DATA_DIR,
+    photoMaxBytes: c.PHOTO_MAX_BYTES,
   };
 }

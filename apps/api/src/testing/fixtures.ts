@@ -60,3 +60,48 @@ export async function seedFixture(db: Database): Promise<Fixture> {
     adminB: { id: adminB.id, email: adminB.email },
   };
 }
+
+let exceptionSeconds = 0;
+
+/** An exception as the shortfall engine would open it, for suites that act on exceptions. */
+export async function insertTestException(
+  db: Database,
+  values: {
+    farmId: number;
+    houseId: number;
+    kind?: 'shortfall' | 'silent_counter' | 'collector_gap' | 'house_dip';
+    scope?: 'section' | 'row' | 'tier' | 'house';
+    row?: number | null;
+    tier?: number | null;
+    isLearning?: boolean;
+    status?: 'open' | 'acknowledged' | 'closed';
+  },
+) {
+  exceptionSeconds += 1;
+  const openedAt = new Date(Date.now() - 3600_000 - exceptionSeconds * 1000);
+  const [row] = await db
+    .insert(schema.exceptions)
+    .values({
+      farmId: values.farmId,
+      houseId: values.houseId,
+      kind: values.kind ?? 'shortfall',
+      scope: values.scope ?? 'section',
+      row: values.row ?? null,
+      tier: values.tier ?? null,
+      status: values.status ?? 'open',
+      isLearning: values.isLearning ?? false,
+      openedAt,
+      openedDay: openedAt.toISOString().slice(0, 10),
+      eggs: 850,
+      expected: 1000,
+      ratio: 0.85,
+      pValue: 1e-6,
+      worstRatio: 0.85,
+      atOpen: {},
+      lastEvaluatedAt: openedAt,
+      ...(values.status === 'closed' ? { closedAt: new Date(), closeReason: 'recovered' } : {}),
+    } as typeof schema.exceptions.$inferInsert)
+    .returning();
+  if (!row) throw new Error('test exception not inserted');
+  return row;
+}

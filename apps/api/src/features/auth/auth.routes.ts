@@ -1,4 +1,4 @@
-import { loginRequestSchema } from '@tierscope/contracts';
+import { forgotPasswordSchema, loginRequestSchema, setPasswordSchema } from '@tierscope/contracts';
 import { Router, type RequestHandler } from 'express';
 import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import { contextOf } from '../../platform/auth';
@@ -7,13 +7,14 @@ import type { AuthService } from './auth.service';
 
 /**
  * Failed sign-ins are limited per address and e-mail; successful ones do not count, so a user who
- * mistypes a few times and then gets it right is not locked out.
+ * mistypes a few times and then gets it right is not locked out. Reset requests count every time, so the
+ * route cannot be used to flood someone's inbox.
  */
-function loginLimiter(maxFailures: number, windowSeconds: number) {
+function loginLimiter(maxFailures: number, windowSeconds: number, isOnlyFailures = true) {
   return rateLimit({
     windowMs: windowSeconds * 1000,
     limit: maxFailures,
-    skipSuccessfulRequests: true,
+    skipSuccessfulRequests: isOnlyFailures,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     keyGenerator: (req) => {
@@ -47,6 +48,22 @@ export function authRoutes(
     loginLimiter(limits.maxFailures, limits.windowSeconds),
     async (req, res) => {
       res.json(await service.login(parseInput(loginRequestSchema, req.body)));
+    },
+  );
+  // The same answer whether or not the address has an account, so it cannot be used to find accounts.
+  router.post(
+    '/forgot',
+    loginLimiter(limits.maxFailures, limits.windowSeconds, false),
+    async (req, res) => {
+      await service.forgot(parseInput(forgotPasswordSchema, req.body));
+      res.status(202).json({ message: 'If that address has an account, a link is on its way.' });
+    },
+  );
+  router.post(
+    '/set-password',
+    loginLimiter(limits.maxFailures, limits.windowSeconds),
+    async (req, res) => {
+      res.json(await service.setPassword(parseInput(setPasswordSchema, req.body)));
     },
   );
   router.get('/me', authenticate, async (req, res) => {

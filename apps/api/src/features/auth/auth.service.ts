@@ -1,10 +1,18 @@
 import { hash, verify } from '@node-rs/argon2';
-import type { LoginRequest, LoginResponse, Session } from '@tierscope/contracts';
+import type {
+  ForgotPassword,
+  LoginRequest,
+  LoginResponse,
+  Session,
+  SetPassword,
+} from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
 import { AppError } from '../../platform/errors';
 import type { RequestContext } from '../../platform/auth';
 import type { TokenService } from '../../platform/tokens';
-import { findUserByEmail, membershipsOf } from '../users/users.repository';
+import { findUserByEmail, findUserById, membershipsOf } from '../users/users.repository';
+import { consumeUserToken, setPasswordHash } from '../notifications/notifications.repository';
+import { hashLinkToken, type Notifier } from '../notifications/notifier';
 
 /** A real argon2id hash of a random string, so an unknown e-mail costs as much time as a wrong password. */
 const timingDecoy = hash(`decoy-${Math.random()}`);
@@ -12,10 +20,51 @@ const timingDecoy = hash(`decoy-${Math.random()}`);
 export interface AuthService {
   login(input: LoginRequest): Promise<LoginResponse>;
   session(ctx: RequestContext): Promise<Session>;
+  /** Mails a reset link when the address has an enabled account; says nothing either way. */
+  forgot(input: ForgotPassword): Promise<void>;
+  /** Sets a password from a mailed link (invitation or reset) and signs the user in. */
+  setPassword(input: SetPassword): Promise<LoginResponse>;
 }
 
-export function createAuthService(db: Database, tokens: TokenService): AuthService {
+export function createAuthService(
+  db: Database,
+  tokens: TokenService,
+  notifier: Notifier,
+): AuthService {
+  async function signedIn(user: { id: number; email: string; name: string }) {
+    const { token, expiresAt } = tokens.sign(user.id);
+    return {
+      token,
+      expiresAt: expiresAt.toISOString(),
+      user: { id: user.id, email: user.email, name: user.name },
+      memberships: await membershipsOf(db, user.id),
+    };
+  }
+
   return {
+    async forgot({ email }) {
+      const user = await findUserByEmail(db, email);
+      if (user && !user.disabled) await notifier.passwordReset(user.id);
+    },
+    async setPassword({ token, password }) {
+      const passwordHash = await hash(password);
+      const user = await db.transaction(async (tx) => {
+        const link = await consumeUserToken(tx, hashLinkToken(token));
+        if (!link) return undefined;
+        const found = await findUserById(tx, link.userId);
+        if (!found || found.disabled) return undefined;
+        await setPasswordHash(tx, found.id, passwordHash);
+        return found;
+      });
+      if (!user) {
+        throw new AppError(
+          'validation_failed',
+          'This link has expired or was already used: ask for a new one',
+          [{ path: 'token', message: 'Expired or already used' }],
+        );
+      }
+      return signedIn(user);
+    },
     async login({ email, password }) {
       const user = await findUserByEmail(db, email);
       const isMatch = await verify(user?.passwordHash ?? (await timingDecoy), password);
@@ -28,13 +77,7 @@ export function createAuthService(db: Database, tokens: TokenService): AuthServi
       if (user.disabled) {
         throw new AppError('account_disabled', 'This account is disabled: ask your administrator');
       }
-      const { token, expiresAt } = tokens.sign(user.id);
-      return {
-        token,
-        expiresAt: expiresAt.toISOString(),
-        user: { id: user.id, email: user.email, name: user.name },
-        memberships: await membershipsOf(db, user.id),
-      };
+      return signedIn(user);
     },
     async session(ctx) {
       return {

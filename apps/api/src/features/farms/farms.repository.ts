@@ -59,3 +59,13 @@ export async function existingFarmIds(db: Queryable, ids: number[]): Promise<num
   const rows = await db.select({ id: farms.id }).from(farms).where(inArray(farms.id, ids));
   return rows.map((r) => r.id);
 }
+
+export async function existingFarmNames(db: Queryable, ids: number[]): Promise<string[]> {
+  if (ids.length === 0) return [];
+  const rows = await db
+    .select({ name: farms.name })
+    .from(farms)
+    .where(inArray(farms.id, ids))
+    .orderBy(farms.name);
+  return rows.map((r) => r.name);
+}

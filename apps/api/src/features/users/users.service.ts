@@ -1,3 +1,4 @@
+import { randomBytes } from 'node:crypto';
 import { hash } from '@node-rs/argon2';
 import type { User, UserCreate, UserUpdate } from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
@@ -5,7 +6,8 @@ import { farmsWith } from '../../platform/access';
 import type { RequestContext } from '../../platform/auth';
 import { AppError, forbidden, notFound } from '../../platform/errors';
 import { recordAudit } from '../audit/audit.repository';
-import { existingFarmIds } from '../farms/farms.repository';
+import type { Notifier } from '../notifications/notifier';
+import { existingFarmIds, existingFarmNames } from '../farms/farms.repository';
 import {
   findUserByEmail,
   findUserById,
@@ -22,7 +24,7 @@ export interface UsersService {
 }
 
 /** Admins manage the users of the farms they administer, and only their roles on those farms. */
-export function createUsersService(db: Database): UsersService {
+export function createUsersService(db: Database, notifier: Notifier): UsersService {
   function adminFarms(ctx: RequestContext): number[] {
     const farms = farmsWith(ctx, 'users.manage');
     if (farms.length === 0) throw forbidden('Only administrators manage users');
@@ -62,7 +64,8 @@ export function createUsersService(db: Database): UsersService {
           { path: 'email', message: 'Already in use' },
         ]);
       }
-      const passwordHash = await hash(input.password);
+      // Without a password the user is invited: until they follow the link, no password opens the account.
+      const passwordHash = await hash(input.password ?? randomBytes(32).toString('hex'));
       const id = await db.transaction(async (tx) => {
         const user = await insertUser(tx, { email: input.email, name: input.name, passwordHash });
         await replaceMemberships(tx, user.id, [], input.memberships);
@@ -78,7 +81,15 @@ export function createUsersService(db: Database): UsersService {
         }
         return user.id;
       });
-      return visibleUser(ctx, id);
+      const created = await visibleUser(ctx, id);
+      if (input.password === undefined) {
+        const farmNames = await existingFarmNames(
+          db,
+          input.memberships.map((m) => m.farmId),
+        );
+        await notifier.invite({ userId: id, invitedBy: ctx.user.name, farmNames });
+      }
+      return created;
     },
 
     async update(ctx, id, input) {

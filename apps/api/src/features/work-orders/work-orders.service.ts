@@ -1,0 +1,637 @@
+import { randomBytes } from 'node:crypto';
+import { mkdir, readFile, rm, writeFile } from 'node:fs/promises';
+import { join, resolve } from 'node:path';
+import type {
+  Assignee,
+  WorkOrder,
+  WorkOrderCreateParsed,
+  WorkOrderReport,
+  WorkOrderReportQuery,
+  WorkOrdersQuery,
+  WorkOrderSummary,
+  WorkOrderUpdate,
+} from '@tierscope/contracts';
+import type { Database } from '@tierscope/db';
+import {
+  addDays,
+  allowedTransitions,
+  calendarDayOf,
+  can,
+  FINDING_CAUSES,
+  hoursToDone,
+  isOverdue,
+  likelyChecks,
+  toCsv,
+  FINDING_CAUSE_LABELS,
+  WORK_ORDER_STATE_LABELS,
+  type FindingCause,
+  type Role,
+} from '@tierscope/domain';
+import { fileTypeFromBuffer } from 'file-type';
+import { farmsWith, requireFarmPermission } from '../../platform/access';
+import type { RequestContext } from '../../platform/auth';
+import { AppError, forbidden, notFound } from '../../platform/errors';
+import { recordAudit } from '../audit/audit.repository';
+import { findException } from '../evaluation/evaluation.repository';
+import type { ExceptionsService } from '../exceptions/exceptions.service';
+import { findHouse } from '../houses/houses.repository';
+import { spotWords } from '../notifications/mail-messages';
+import type { Notifier } from '../notifications/notifier';
+import {
+  addChecklistItems,
+  checklistOf,
+  doneOrdersBetween,
+  exceptionStatusOf,
+  farmAssignees,
+  findPhoto,
+  findWorkOrder,
+  insertPhoto,
+  insertWorkOrder,
+  listWorkOrders,
+  photosOf,
+  setChecklistItem,
+  updateWorkOrder,
+  type NewWorkOrder,
+} from './work-orders.repository';
+
+/** Photo types accepted, judged by the file's content (its magic bytes), never by its name. */
+const PHOTO_TYPES: Record<string, string> = {
+  'image/jpeg': 'jpg',
+  'image/png': 'png',
+  'image/webp': 'webp',
+};
+
+export interface UploadedPhoto {
+  originalName: string;
+  buffer: Buffer;
+}
+
+export interface WorkOrdersService {
+  list(ctx: RequestContext, query: WorkOrdersQuery): Promise<WorkOrderSummary[]>;
+  exportCsv(ctx: RequestContext, query: WorkOrdersQuery): Promise<string>;
+  get(ctx: RequestContext, id: number): Promise<WorkOrder>;
+  create(ctx: RequestContext, input: WorkOrderCreateParsed): Promise<WorkOrder>;
+  update(ctx: RequestContext, id: number, input: WorkOrderUpdate): Promise<WorkOrder>;
+  setChecklist(
+    ctx: RequestContext,
+    id: number,
+    itemId: number,
+    isChecked: boolean,
+  ): Promise<WorkOrder>;
+  addPhotos(ctx: RequestContext, id: number, files: UploadedPhoto[]): Promise<WorkOrder>;
+  photo(
+    ctx: RequestContext,
+    id: number,
+    photoId: number,
+  ): Promise<{ contentType: string; body: Buffer; name: string }>;
+  assignees(ctx: RequestContext, farmId: number): Promise<Assignee[]>;
+  report(ctx: RequestContext, query: WorkOrderReportQuery): Promise<WorkOrderReport>;
+}
+
+type Found = NonNullable<Awaited<ReturnType<typeof findWorkOrder>>>;
+
+export function createWorkOrdersService(options: {
+  db: Database;
+  notifier: Notifier;
+  exceptions: ExceptionsService;
+  photosDir: string;
+}): WorkOrdersService {
+  const { db, notifier, exceptions } = options;
+  const photosDir = resolve(options.photosDir);
+
+  function counts(text: string): { done: number; total: number } {
+    const [done, total] = text.split('/').map(Number);
+    return { done: done ?? 0, total: total ?? 0 };
+  }
+
+  function toSummary(r: Found): WorkOrderSummary {
+    const o = r.order;
+    const checklist = counts(r.checklist);
+    return {
+      id: o.id,
+      farmId: o.farmId,
+      farmName: r.farmName,
+      houseId: o.houseId,
+      houseName: r.houseName,
+      row: o.row,
+      tier: o.tier,
+      title: o.title,
+      priority: o.priority,
+      state: o.state,
+      assignee: o.assigneeId !== null ? { id: o.assigneeId, name: r.assigneeName ?? '' } : null,
+      dueOn: o.dueOn,
+      isOverdue: isOverdue(o, calendarDayOf(new Date(), r.timezone)),
+      exceptionId: o.exceptionId,
+      checklistDone: checklist.done,
+      checklistTotal: checklist.total,
+      createdAt: o.createdAt.toISOString(),
+      doneAt: o.doneAt?.toISOString() ?? null,
+    };
+  }
+
+  /** The order when the caller may see it; another farm's is "not found", another crew member's is 403. */
+  async function visible(ctx: RequestContext, id: number): Promise<{ row: Found; role: Role }> {
+    const row = await findWorkOrder(db, id);
+    const role = row ? ctx.user.roles.get(row.order.farmId) : undefined;
+    if (!row || !role) throw notFound('Work order');
+    if (can(role, 'workOrders.manage')) return { row, role };
+    if (!can(role, 'workOrders.work')) throw forbidden('Your role does not work on work orders');
+    if (row.order.assigneeId !== ctx.user.id) {
+      throw forbidden('This work order is assigned to someone else');
+    }
+    return { row, role };
+  }
+
+  async function detail(ctx: RequestContext, row: Found, role: Role): Promise<WorkOrder> {
+    const o = row.order;
+    const [items, photos, exceptionStatus] = await Promise.all([
+      checklistOf(db, o.id),
+      photosOf(db, o.id),
+      o.exceptionId !== null ? exceptionStatusOf(db, o.farmId, o.exceptionId) : null,
+    ]);
+    const isAssignee = o.assigneeId === ctx.user.id;
+    return {
+      ...toSummary(row),
+      description: o.description,
+      tiers: row.tiers,
+      timezone: row.timezone,
+      createdBy: o.createdBy !== null ? { id: o.createdBy, name: row.creatorName ?? '' } : null,
+      findingCause: o.findingCause,
+      findingNotes: o.findingNotes,
+      cancelReason: o.cancelReason,
+      startedAt: o.startedAt?.toISOString() ?? null,
+      cancelledAt: o.cancelledAt?.toISOString() ?? null,
+      updatedAt: o.updatedAt.toISOString(),
+      checklist: items.map(({ item, checkedByName }) => ({
+        id: item.id,
+        label: item.label,
+        isChecked: item.isChecked,
+        checkedBy: checkedByName,
+        checkedAt: item.checkedAt?.toISOString() ?? null,
+      })),
+      photos: photos.map(({ photo, uploadedByName }) => ({
+        id: photo.id,
+        originalName: photo.originalName,
+        contentType: photo.contentType,
+        bytes: photo.bytes,
+        uploadedBy: uploadedByName,
+        uploadedAt: photo.uploadedAt.toISOString(),
+      })),
+      exceptionStatus,
+      nextStates: allowedTransitions(o.state, { role, isAssignee }),
+      canEdit: can(role, 'workOrders.manage'),
+      canWork: can(role, 'workOrders.manage') || isAssignee,
+    };
+  }
+
+  async function reread(ctx: RequestContext, id: number): Promise<WorkOrder> {
+    const { row, role } = await visible(ctx, id);
+    return detail(ctx, row, role);
+  }
+
+  async function checkAssignee(farmId: number, assigneeId: number | null): Promise<void> {
+    if (assigneeId === null) return;
+    const people = await farmAssignees(db, farmId);
+    if (!people.some((p) => p.id === assigneeId)) {
+      throw new AppError('validation_failed', 'The work order is not valid', [
+        { path: 'assigneeId', message: 'Choose a crew member, manager or admin of this farm' },
+      ]);
+    }
+  }
+
+  function forMail(row: Found) {
+    return {
+      id: row.order.id,
+      title: row.order.title,
+      farmName: row.farmName,
+      houseName: row.houseName,
+      row: row.order.row,
+      tier: row.order.tier,
+      priority: row.order.priority,
+      dueOn: row.order.dueOn,
+    };
+  }
+
+  async function listFor(ctx: RequestContext, query: WorkOrdersQuery) {
+    const allOfFarms = farmsWith(ctx, 'workOrders.manage');
+    const ownOfFarms = farmsWith(ctx, 'workOrders.work').filter((f) => !allOfFarms.includes(f));
+    if (allOfFarms.length === 0 && ownOfFarms.length === 0) {
+      throw forbidden('Your role does not work on work orders');
+    }
+    const restrict = (ids: number[]) =>
+      query.farmId === undefined ? ids : ids.filter((f) => f === query.farmId);
+    if (query.farmId !== undefined) requireFarmPermission(ctx, query.farmId, 'farm.read');
+    const rows = await listWorkOrders(db, {
+      allOfFarms: restrict(allOfFarms),
+      ownOfFarms: restrict(ownOfFarms),
+      userId: ctx.user.id,
+      ...(query.houseId !== undefined ? { houseId: query.houseId } : {}),
+      ...(query.state !== undefined ? { state: query.state } : {}),
+      ...(query.assigneeId !== undefined ? { assigneeId: query.assigneeId } : {}),
+      ...(query.exceptionId !== undefined ? { exceptionId: query.exceptionId } : {}),
+      isMineOnly: query.mine === true,
+    });
+    const list = rows.map(toSummary);
+    return query.overdue === true ? list.filter((o) => o.isOverdue) : list;
+  }
+
+  return {
+    list: listFor,
+
+    async exportCsv(ctx, query) {
+      const list = await listFor(ctx, query);
+      return toCsv(
+        [
+          'id',
+          'farm',
+          'house',
+          'row',
+          'tier',
+          'title',
+          'priority',
+          'state',
+          'assignee',
+          'due',
+          'overdue',
+          'checklist',
+          'created',
+          'done',
+        ],
+        list.map((o) => [
+          o.id,
+          o.farmName,
+          o.houseName,
+          o.row,
+          o.tier,
+          o.title,
+          o.priority,
+          WORK_ORDER_STATE_LABELS[o.state],
+          o.assignee?.name ?? '',
+          o.dueOn,
+          o.isOverdue ? 'yes' : 'no',
+          `${o.checklistDone} of ${o.checklistTotal}`,
+          o.createdAt,
+          o.doneAt,
+        ]),
+      );
+    },
+
+    get: reread,
+
+    async create(ctx, input) {
+      let houseId = input.houseId;
+      let row = input.row;
+      let tier = input.tier;
+      let checklist = input.checklist;
+      let description = input.description;
+      if (input.exceptionId !== undefined) {
+        const e = await findException(db, input.exceptionId);
+        if (!e || !ctx.user.roles.has(e.farmId)) throw notFound('Exception');
+        houseId = e.houseId;
+        row = e.scope === 'section' || e.scope === 'row' ? e.row : null;
+        tier = e.scope === 'section' || e.scope === 'tier' ? e.tier : null;
+        checklist ??= likelyChecks(e.kind, e.scope);
+        if (!description) {
+          description =
+            e.kind === 'shortfall'
+              ? `Flagged ${spotWords(e.scope, e.row, e.tier)}: ${e.eggs} eggs of ${Math.round(e.expected)} expected (${Math.round(e.ratio * 100)} %), p = ${e.pValue.toExponential(1)}.`
+              : `Flagged ${spotWords(e.scope, e.row, e.tier)}: ${e.kind.replace('_', ' ')}.`;
+        }
+      }
+      const house = await findHouse(db, houseId);
+      if (!house || !ctx.user.roles.has(house.farmId)) throw notFound('House');
+      requireFarmPermission(ctx, house.farmId, 'workOrders.manage', 'House');
+      const outside: { path: string; message: string }[] = [];
+      if (row !== null && row > house.rows)
+        outside.push({ path: 'row', message: `${house.name} has rows 1–${house.rows}` });
+      if (tier !== null && tier > house.tiers)
+        outside.push({ path: 'tier', message: `${house.name} has tiers 1–${house.tiers}` });
+      if (outside.length > 0)
+        throw new AppError('validation_failed', 'That spot is not in the house', outside);
+      await checkAssignee(house.farmId, input.assigneeId);
+      const id = await db.transaction(async (tx) => {
+        const values: NewWorkOrder = {
+          farmId: house.farmId,
+          houseId: house.id,
+          row,
+          tier,
+          exceptionId: input.exceptionId ?? null,
+          title: input.title,
+          description,
+          priority: input.priority,
+          assigneeId: input.assigneeId,
+          createdBy: ctx.user.id,
+          dueOn: input.dueOn,
+        };
+        const order = await insertWorkOrder(tx, values);
+        await addChecklistItems(tx, order.id, checklist ?? []);
+        await recordAudit(tx, {
+          farmId: house.farmId,
+          actorUserId: ctx.user.id,
+          action: 'workOrder.create',
+          entity: 'work_order',
+          entityId: order.id,
+          after: { ...values, checklist },
+        });
+        return order.id;
+      });
+      const { row: created, role } = await visible(ctx, id);
+      if (input.assigneeId !== null) {
+        notifier.workOrderAssigned({
+          order: forMail(created),
+          assigneeId: input.assigneeId,
+          by: ctx.user.name,
+        });
+      }
+      return detail(ctx, created, role);
+    },
+
+    async update(ctx, id, input) {
+      const { row, role } = await visible(ctx, id);
+      const o = row.order;
+      const isManager = can(role, 'workOrders.manage');
+      const managerFields = [
+        'title',
+        'description',
+        'priority',
+        'assigneeId',
+        'dueOn',
+        'addChecklist',
+      ] as const;
+      if (!isManager && managerFields.some((f) => input[f] !== undefined)) {
+        throw forbidden('Only managers change the order itself; record your findings instead');
+      }
+      if (input.assigneeId !== undefined) await checkAssignee(o.farmId, input.assigneeId);
+      const patch: Partial<NewWorkOrder> = {};
+      if (input.title !== undefined) patch.title = input.title;
+      if (input.description !== undefined) patch.description = input.description;
+      if (input.priority !== undefined) patch.priority = input.priority;
+      if (input.assigneeId !== undefined) patch.assigneeId = input.assigneeId;
+      if (input.dueOn !== undefined) patch.dueOn = input.dueOn;
+      if (input.findingCause !== undefined) patch.findingCause = input.findingCause;
+      if (input.findingNotes !== undefined) patch.findingNotes = input.findingNotes;
+
+      const next = input.state;
+      if (next !== undefined && next !== o.state) {
+        const allowed = allowedTransitions(o.state, {
+          role,
+          isAssignee: o.assigneeId === ctx.user.id,
+        });
+        if (!allowed.includes(next)) {
+          if (!isManager && (next === 'cancelled' || o.state === 'done' || o.state === 'cancelled'))
+            throw forbidden('Only managers cancel or reopen work orders');
+          throw new AppError(
+            'conflict',
+            `A work order that is ${WORK_ORDER_STATE_LABELS[o.state].toLowerCase()} cannot become ${WORK_ORDER_STATE_LABELS[next].toLowerCase()}`,
+          );
+        }
+        patch.state = next;
+        const now = new Date();
+        if (next === 'in_progress') patch.startedAt = o.startedAt ?? now;
+        if (next === 'done') {
+          const cause = input.findingCause ?? o.findingCause;
+          if (!cause) {
+            throw new AppError(
+              'validation_failed',
+              'Record what you found before marking it done',
+              [{ path: 'findingCause', message: 'Choose what the cause was' }],
+            );
+          }
+          patch.doneAt = now;
+          patch.startedAt = o.startedAt ?? now;
+        }
+        if (next === 'cancelled') {
+          if (!input.cancelReason) {
+            throw new AppError('validation_failed', 'Say why the work order is cancelled', [
+              { path: 'cancelReason', message: 'Give a reason' },
+            ]);
+          }
+          patch.cancelReason = input.cancelReason;
+          patch.cancelledAt = now;
+        }
+        if (next === 'open') {
+          patch.doneAt = null;
+          patch.cancelledAt = null;
+          patch.cancelReason = null;
+        }
+      }
+      if (input.closeException === true) {
+        if (next !== 'done' || o.exceptionId === null) {
+          throw new AppError(
+            'validation_failed',
+            'Only a work order from an exception, being marked done, can close its exception',
+            [{ path: 'closeException', message: 'Not possible here' }],
+          );
+        }
+        requireFarmPermission(ctx, o.farmId, 'exceptions.acknowledge');
+      }
+      await db.transaction(async (tx) => {
+        if (Object.keys(patch).length > 0) await updateWorkOrder(tx, id, patch);
+        if (input.addChecklist) await addChecklistItems(tx, id, input.addChecklist);
+        await recordAudit(tx, {
+          farmId: o.farmId,
+          actorUserId: ctx.user.id,
+          action: next !== undefined && next !== o.state ? `workOrder.${next}` : 'workOrder.update',
+          entity: 'work_order',
+          entityId: id,
+          before: Object.fromEntries(Object.keys(patch).map((k) => [k, o[k as keyof typeof o]])),
+          after: { ...patch, ...(input.addChecklist ? { addChecklist: input.addChecklist } : {}) },
+        });
+      });
+      if (input.closeException === true && o.exceptionId !== null) {
+        const status = await exceptionStatusOf(db, o.farmId, o.exceptionId);
+        if (status !== null && status !== 'closed') {
+          const cause = patch.findingCause ?? o.findingCause;
+          const notes = patch.findingNotes ?? o.findingNotes;
+          await exceptions.close(ctx, o.exceptionId, {
+            reason: 'fixed',
+            note: `Work order #${id}: ${cause ? FINDING_CAUSE_LABELS[cause] : ''}${notes ? ` — ${notes}` : ''}`.slice(
+              0,
+              500,
+            ),
+          });
+        }
+      }
+      const { row: after, role: roleAfter } = await visible(ctx, id).catch(
+        async (error: unknown) => {
+          // A crew member who handed the order to someone else can no longer see it; answer what changed.
+          if (error instanceof AppError && error.code === 'forbidden') {
+            const found = await findWorkOrder(db, id);
+            if (found) return { row: found, role };
+          }
+          throw error;
+        },
+      );
+      if (
+        input.assigneeId !== undefined &&
+        input.assigneeId !== null &&
+        input.assigneeId !== o.assigneeId
+      ) {
+        notifier.workOrderAssigned({
+          order: forMail(after),
+          assigneeId: input.assigneeId,
+          by: ctx.user.name,
+        });
+      }
+      if (
+        next === 'done' &&
+        o.state !== 'done' &&
+        o.createdBy !== null &&
+        o.createdBy !== ctx.user.id
+      ) {
+        notifier.workOrderDone({
+          order: forMail(after),
+          creatorId: o.createdBy,
+          by: ctx.user.name,
+          cause: after.order.findingCause,
+          notes: after.order.findingNotes,
+        });
+      }
+      return detail(ctx, after, roleAfter);
+    },
+
+    async setChecklist(ctx, id, itemId, isChecked) {
+      const { row, role } = await visible(ctx, id);
+      if (row.order.state === 'done' || row.order.state === 'cancelled') {
+        throw new AppError(
+          'conflict',
+          'This work order is finished: reopen it to change its checklist',
+        );
+      }
+      const isChanged = await db.transaction(async (tx) => {
+        const found = await setChecklistItem(tx, id, itemId, isChecked, ctx.user.id);
+        if (!found) return false;
+        await recordAudit(tx, {
+          farmId: row.order.farmId,
+          actorUserId: ctx.user.id,
+          action: isChecked ? 'workOrder.check' : 'workOrder.uncheck',
+          entity: 'work_order',
+          entityId: id,
+          after: { itemId, isChecked },
+        });
+        return true;
+      });
+      if (!isChanged) throw notFound('Checklist item');
+      return detail(ctx, (await visible(ctx, id)).row, role);
+    },
+
+    async addPhotos(ctx, id, files) {
+      const { row, role } = await visible(ctx, id);
+      if (files.length === 0) {
+        throw new AppError('validation_failed', 'Attach at least one photo', [
+          { path: 'photos', message: 'No file received' },
+        ]);
+      }
+      const checked = await Promise.all(
+        files.map(async (file) => ({ file, type: await fileTypeFromBuffer(file.buffer) })),
+      );
+      const bad = checked.filter((c) => !c.type || !(c.type.mime in PHOTO_TYPES));
+      if (bad.length > 0) {
+        throw new AppError(
+          'validation_failed',
+          'Only photos (JPEG, PNG or WebP) can be attached',
+          bad.map((b) => ({
+            path: 'photos',
+            message: `${b.file.originalName} is not a JPEG, PNG or WebP image`,
+          })),
+        );
+      }
+      const folder = join(photosDir, String(row.order.farmId));
+      await mkdir(folder, { recursive: true });
+      const written: string[] = [];
+      try {
+        await db.transaction(async (tx) => {
+          for (const { file, type } of checked) {
+            if (!type) continue;
+            const storedName = `${randomBytes(16).toString('hex')}.${PHOTO_TYPES[type.mime] ?? 'bin'}`;
+            await writeFile(join(folder, storedName), file.buffer, { mode: 0o600 });
+            written.push(storedName);
+            await insertPhoto(tx, {
+              workOrderId: id,
+              farmId: row.order.farmId,
+              storedName,
+              originalName: file.originalName.slice(0, 200),
+              contentType: type.mime,
+              bytes: file.buffer.length,
+              uploadedBy: ctx.user.id,
+            });
+          }
+          await recordAudit(tx, {
+            farmId: row.order.farmId,
+            actorUserId: ctx.user.id,
+            action: 'workOrder.photos',
+            entity: 'work_order',
+            entityId: id,
+            after: { added: written.length },
+          });
+        });
+      } catch (error) {
+        // The records were rolled back: remove the files written for them, then report the failure.
+        await Promise.all(written.map((name) => rm(join(folder, name), { force: true })));
+        throw error;
+      }
+      return detail(ctx, (await visible(ctx, id)).row, role);
+    },
+
+    async photo(ctx, id, photoId) {
+      const { row } = await visible(ctx, id);
+      const found = await findPhoto(db, id, photoId);
+      if (found?.farmId !== row.order.farmId) throw notFound('Photo');
+      const body = await readFile(join(photosDir, String(found.farmId), found.storedName)).catch(
+        () => {
+          // The record outlived its file (a restored database, a cleaned folder): say so plainly.
+          throw notFound('Photo file');
+        },
+      );
+      return { contentType: found.contentType, body, name: found.originalName };
+    },
+
+    async assignees(ctx, farmId) {
+      requireFarmPermission(ctx, farmId, 'workOrders.manage');
+      return farmAssignees(db, farmId);
+    },
+
+    async report(ctx, query) {
+      requireFarmPermission(ctx, query.farmId, 'workOrders.manage');
+      const to = query.to ?? calendarDayOf(new Date(), 'UTC');
+      const from = query.from ?? addDays(to, -29);
+      const rows = await doneOrdersBetween(
+        db,
+        query.farmId,
+        new Date(`${from}T00:00:00Z`),
+        new Date(`${addDays(to, 1)}T00:00:00Z`),
+      );
+      const byHouse = new Map<number, typeof rows>();
+      for (const r of rows) byHouse.set(r.houseId, [...(byHouse.get(r.houseId) ?? []), r]);
+      return {
+        farmId: query.farmId,
+        from,
+        to,
+        houses: [...byHouse.values()].map((list) => {
+          const first = list[0];
+          const timing = hoursToDone(
+            list.flatMap((r) =>
+              r.exceptionOpenedAt && r.doneAt
+                ? [{ exceptionOpenedAt: r.exceptionOpenedAt, doneAt: r.doneAt }]
+                : [],
+            ),
+          );
+          const byCause = Object.fromEntries(FINDING_CAUSES.map((c) => [c, 0])) as Record<
+            FindingCause,
+            number
+          >;
+          for (const r of list) if (r.findingCause) byCause[r.findingCause] += 1;
+          return {
+            houseId: first?.houseId ?? 0,
+            houseName: first?.houseName ?? '',
+            done: list.length,
+            fromExceptions: timing.count,
+            medianHoursToDone: timing.medianHours,
+            maxHoursToDone: timing.maxHours,
+            byCause,
+          };
+        }),
+      };
+    },
+  };
+}
