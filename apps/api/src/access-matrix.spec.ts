@@ -1,4 +1,4 @@
-import { insertHouseWithLayout } from '@tierscope/db';
+import { insertHouseWithLayout, schema } from '@tierscope/db';
 import { createTestDatabase } from '@tierscope/db/testing';
 import { ROLES, type Role } from '@tierscope/domain';
 import request from 'supertest';
@@ -49,6 +49,22 @@ async function spareGateway(farmId: number): Promise<number> {
     createdBy: fixture.usersA.admin.id,
   });
   return row.id;
+}
+
+/** A fresh work order on a farm, assigned to that farm's crew member when `isForCrew`. */
+async function spareWorkOrder(farmId: number, houseId: number, isForCrew = true): Promise<number> {
+  counter += 1;
+  const [row] = await database.db
+    .insert(schema.workOrders)
+    .values({
+      farmId,
+      houseId,
+      title: `spare order ${counter}`,
+      assigneeId: isForCrew && farmId === fixture.farmA ? fixture.usersA.crew.id : null,
+      createdBy: farmId === fixture.farmA ? fixture.usersA.manager.id : fixture.adminB.id,
+    })
+    .returning();
+  return row!.id;
 }
 
 /** A house nobody depends on, so a delete that is allowed has something to delete. */
@@ -188,6 +204,90 @@ const ownFarmRoutes: { name: string; call: () => Promise<Call>; allowed: Record<
           .send({ name: 'crew of A' }),
       allowed: { admin: 200, manager: 403, crew: 403, integrator: 403 },
     },
+    {
+      name: 'GET /work-orders',
+      call: async () => (b) => request(app).get('/api/v1/work-orders').set('Authorization', b),
+      allowed: { admin: 200, manager: 200, crew: 200, integrator: 403 },
+    },
+    {
+      name: 'GET /work-orders/export.csv',
+      call: async () => (b) =>
+        request(app).get('/api/v1/work-orders/export.csv').set('Authorization', b),
+      allowed: { admin: 200, manager: 200, crew: 200, integrator: 403 },
+    },
+    {
+      name: 'POST /work-orders',
+      call: async () => (b) =>
+        request(app)
+          .post('/api/v1/work-orders')
+          .set('Authorization', b)
+          .send({ houseId: fixture.houseA, title: `Order ${++counter}` }),
+      allowed: { admin: 201, manager: 201, crew: 403, integrator: 403 },
+    },
+    {
+      name: 'GET /work-orders/:id (assigned to the crew member)',
+      call: async () => {
+        const id = await spareWorkOrder(fixture.farmA, fixture.houseA);
+        return (b) => request(app).get(`/api/v1/work-orders/${id}`).set('Authorization', b);
+      },
+      allowed: { admin: 200, manager: 200, crew: 200, integrator: 403 },
+    },
+    {
+      name: 'GET /work-orders/:id (assigned to nobody)',
+      call: async () => {
+        const id = await spareWorkOrder(fixture.farmA, fixture.houseA, false);
+        return (b) => request(app).get(`/api/v1/work-orders/${id}`).set('Authorization', b);
+      },
+      allowed: { admin: 200, manager: 200, crew: 403, integrator: 403 },
+    },
+    {
+      name: 'PATCH /work-orders/:id (start)',
+      call: async () => {
+        const id = await spareWorkOrder(fixture.farmA, fixture.houseA);
+        return (b) =>
+          request(app)
+            .patch(`/api/v1/work-orders/${id}`)
+            .set('Authorization', b)
+            .send({ state: 'in_progress' });
+      },
+      allowed: { admin: 200, manager: 200, crew: 200, integrator: 403 },
+    },
+    {
+      name: 'PATCH /work-orders/:id (retitle)',
+      call: async () => {
+        const id = await spareWorkOrder(fixture.farmA, fixture.houseA);
+        return (b) =>
+          request(app)
+            .patch(`/api/v1/work-orders/${id}`)
+            .set('Authorization', b)
+            .send({ title: 'A better title' });
+      },
+      allowed: { admin: 200, manager: 200, crew: 403, integrator: 403 },
+    },
+    {
+      name: 'GET /farms/:id/assignees',
+      call: async () => (b) =>
+        request(app).get(`/api/v1/farms/${fixture.farmA}/assignees`).set('Authorization', b),
+      allowed: { admin: 200, manager: 200, crew: 403, integrator: 403 },
+    },
+    {
+      name: 'GET /reports/work-orders',
+      call: async () => (b) =>
+        request(app)
+          .get(`/api/v1/reports/work-orders?farmId=${fixture.farmA}`)
+          .set('Authorization', b),
+      allowed: { admin: 200, manager: 200, crew: 403, integrator: 403 },
+    },
+    {
+      name: 'GET /me/notifications',
+      call: async () => (b) => request(app).get('/api/v1/me/notifications').set('Authorization', b),
+      allowed: { admin: 200, manager: 200, crew: 200, integrator: 200 },
+    },
+    {
+      name: 'GET /dev/mailbox (no catcher configured)',
+      call: async () => (b) => request(app).get('/api/v1/dev/mailbox').set('Authorization', b),
+      allowed: { admin: 404, manager: 403, crew: 403, integrator: 403 },
+    },
   ];
 
 describe('on their own farm', () => {
@@ -276,6 +376,44 @@ describe('on a farm they do not belong to', () => {
         return (b) => request(app).post(`/api/v1/gateways/${id}/revoke`).set('Authorization', b);
       },
     },
+    {
+      name: 'GET /work-orders/:id',
+      call: async () => {
+        const id = await spareWorkOrder(fixture.farmB, fixture.houseB);
+        return (b) => request(app).get(`/api/v1/work-orders/${id}`).set('Authorization', b);
+      },
+    },
+    {
+      name: 'PATCH /work-orders/:id',
+      call: async () => {
+        const id = await spareWorkOrder(fixture.farmB, fixture.houseB);
+        return (b) =>
+          request(app)
+            .patch(`/api/v1/work-orders/${id}`)
+            .set('Authorization', b)
+            .send({ state: 'cancelled', cancelReason: 'Taken over' });
+      },
+    },
+    {
+      name: 'POST /work-orders (house of farm B)',
+      call: async () => (b) =>
+        request(app)
+          .post('/api/v1/work-orders')
+          .set('Authorization', b)
+          .send({ houseId: fixture.houseB, title: 'Intruding order' }),
+    },
+    {
+      name: 'GET /farms/:id/assignees',
+      call: async () => (b) =>
+        request(app).get(`/api/v1/farms/${fixture.farmB}/assignees`).set('Authorization', b),
+    },
+    {
+      name: 'GET /reports/work-orders',
+      call: async () => (b) =>
+        request(app)
+          .get(`/api/v1/reports/work-orders?farmId=${fixture.farmB}`)
+          .set('Authorization', b),
+    },
   ];
   for (const route of otherFarmRoutes) {
     for (const role of ROLES) {
@@ -332,6 +470,10 @@ describe('without a token', () => {
     '/api/v1/auth/me',
     '/api/v1/houses/1',
     '/api/v1/farms/1/houses',
+    '/api/v1/work-orders',
+    '/api/v1/work-orders/1',
+    '/api/v1/me/notifications',
+    '/api/v1/dev/mailbox',
   ];
   for (const path of protectedRoutes) {
     it(`GET ${path} answers 401`, async () => {

@@ -21,10 +21,22 @@ import {
   userCreateSchema,
   userSchema,
   userUpdateSchema,
+  assigneeSchema,
+  caughtMailSchema,
+  checklistToggleSchema,
+  forgotPasswordSchema,
+  notificationSettingsSchema,
+  notificationSettingsUpdateSchema,
+  setPasswordSchema,
+  workOrderCreateSchema,
+  workOrderReportSchema,
+  workOrderSchema,
+  workOrderSummarySchema,
+  workOrderUpdateSchema,
 } from '@tierscope/contracts';
 import { z } from 'zod';
 
-type Method = 'get' | 'post' | 'patch' | 'delete';
+type Method = 'get' | 'post' | 'put' | 'patch' | 'delete';
 interface RouteDoc {
   method: Method;
   path: string;
@@ -201,12 +213,120 @@ export function buildOpenApiDocument(version: string) {
         503: error('Database unreachable: retry'),
       },
     },
+    {
+      method: 'post',
+      path: '/api/v1/auth/forgot',
+      summary:
+        'Mail a password-reset link; the same answer whether or not the address has an account',
+      body: forgotPasswordSchema,
+      responses: { 202: { description: 'Accepted' }, 400: errors[400] },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/auth/set-password',
+      summary: 'Choose a password with a mailed link (invitation or reset); single use, expiring',
+      body: setPasswordSchema,
+      responses: { 200: ok(loginResponseSchema), 400: errors[400] },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/me/notifications',
+      summary: 'Which mails I get',
+      responses: { 200: ok(notificationSettingsSchema), 401: errors[401] },
+    },
+    {
+      method: 'put',
+      path: '/api/v1/me/notifications',
+      summary: 'Choose which mails I get',
+      body: notificationSettingsUpdateSchema,
+      responses: { 200: ok(notificationSettingsSchema), 400: errors[400], 401: errors[401] },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/dev/mailbox',
+      summary:
+        'What the local mail catcher caught (admins; only while it is the configured transport)',
+      responses: { 200: ok(z.array(caughtMailSchema)), ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/work-orders',
+      summary:
+        'Work orders: all of a farm for managers and admins, their own for crew. Query: farmId, houseId, state (or "active"), assigneeId, mine, overdue, exceptionId',
+      responses: { 200: ok(z.array(workOrderSummarySchema)), ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/work-orders/export.csv',
+      summary: 'The same list as CSV (cells starting with = + - @ are escaped)',
+      responses: { 200: { description: 'text/csv' }, ...errors },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/work-orders',
+      summary: 'Open a work order by hand or from an exception (exceptionId)',
+      body: workOrderCreateSchema,
+      responses: { 201: ok(workOrderSchema, 'Created'), ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/work-orders/{workOrderId}',
+      summary: 'One work order with its checklist, photos and what the caller may do',
+      responses: { 200: ok(workOrderSchema), ...errors },
+    },
+    {
+      method: 'patch',
+      path: '/api/v1/work-orders/{workOrderId}',
+      summary:
+        'Change a work order: fields (managers), state (open → in progress → done with findings, or cancelled with a reason; reopen by managers), findings',
+      body: workOrderUpdateSchema,
+      responses: { 200: ok(workOrderSchema), ...errors, 409: error('Not possible from its state') },
+    },
+    {
+      method: 'patch',
+      path: '/api/v1/work-orders/{workOrderId}/checklist/{itemId}',
+      summary: 'Tick or untick a checklist item',
+      body: checklistToggleSchema,
+      responses: { 200: ok(workOrderSchema), ...errors },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/work-orders/{workOrderId}/photos',
+      summary:
+        'Attach photos (multipart field "photos", up to 6; JPEG, PNG or WebP judged by content; size limit PHOTO_MAX_BYTES)',
+      responses: {
+        201: ok(workOrderSchema, 'Added'),
+        ...errors,
+        413: error('A photo over the size limit'),
+      },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/work-orders/{workOrderId}/photos/{photoId}',
+      summary: 'A photo, to people who may see its work order',
+      responses: { 200: { description: 'The image' }, ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/farms/{farmId}/assignees',
+      summary: 'People of a farm a work order can be assigned to',
+      responses: { 200: ok(z.array(assigneeSchema)), ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/reports/work-orders',
+      summary:
+        'Done work orders per house: time from exception to done, findings by cause. Query: farmId, from, to',
+      responses: { 200: ok(workOrderReportSchema), ...errors },
+    },
   ];
   const jsonSchema = (schema: z.ZodType, io: 'input' | 'output') =>
     z.toJSONSchema(schema, { io, unrepresentable: 'any', target: 'draft-2020-12' });
   const paths: Record<string, Record<string, unknown>> = {};
   for (const route of routes) {
-    const isPublic = route.path === '/api/health' || route.path === '/api/v1/auth/login';
+    const isPublic =
+      route.path === '/api/health' ||
+      ['login', 'forgot', 'set-password'].some((p) => route.path === `/api/v1/auth/${p}`);
     const isGateway = route.path === '/api/v1/ingest/readings';
     const parameters = [...route.path.matchAll(/\{(\w+)\}/g)].map((m) => ({
       name: m[1],
