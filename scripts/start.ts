@@ -18,6 +18,7 @@ import {
   isEmpty,
   seedDemo,
 } from '@tierscope/db/seed';
+import { startMailCatcher, type MailCatcher } from '@tierscope/mail-catcher';
 import { prepareSimulatorFarms } from './demo-simulator';
 import { recreateDatabase, startCluster } from './postgres';
 import { waitForHealth } from './processes';
@@ -26,11 +27,14 @@ const ROOT = new URL('..', import.meta.url).pathname;
 const DATA = join(ROOT, '.data');
 const PG_PORT = Number(process.env['TIERSCOPE_PG_PORT'] ?? 54320);
 const PORT = Number(process.env['PORT'] ?? 8080);
+const SMTP_PORT = Number(process.env['TIERSCOPE_SMTP_PORT'] ?? 1025);
+const MAILBOX_PORT = Number(process.env['TIERSCOPE_MAILBOX_PORT'] ?? 1080);
 const DATABASE = 'tierscope';
 const isReset = process.argv.includes('--reset');
 
 const children: ChildProcess[] = [];
 let stopDatabase: (() => void) | null = null;
+let mailCatcher: MailCatcher | null = null;
 let isStopping = false;
 
 function log(line: string): void {
@@ -51,6 +55,7 @@ function stopAll(code: number): void {
   isStopping = true;
   log('stopping…');
   for (const child of children) child.kill('SIGTERM');
+  void mailCatcher?.close();
   try {
     stopDatabase?.();
     log('database stopped');
@@ -121,8 +126,19 @@ async function main(): Promise<void> {
       `port ${PORT} is already in use: stop what listens there, or run PORT=8081 npm start`,
     );
   }
+  // The local SMTP catcher stands in for the mail service; the admin's Mailbox page shows what it caught.
+  mailCatcher = await startMailCatcher({
+    smtpPort: (await isPortFree(SMTP_PORT)) ? SMTP_PORT : 0,
+    httpPort: (await isPortFree(MAILBOX_PORT)) ? MAILBOX_PORT : 0,
+  });
+  log(`mail catcher: SMTP on 127.0.0.1:${mailCatcher.smtpPort}, list at ${mailCatcher.httpUrl}`);
   const env = {
     ...process.env,
+    SMTP_URL: process.env['SMTP_URL'] ?? `smtp://127.0.0.1:${mailCatcher.smtpPort}`,
+    ...(process.env['SMTP_URL'] ? {} : { MAIL_CATCHER_URL: mailCatcher.httpUrl }),
+    EXCEPTION_MAIL_SECONDS: process.env['EXCEPTION_MAIL_SECONDS'] ?? '60',
+    DATA_DIR: process.env['DATA_DIR'] ?? DATA,
+    PUBLIC_URL: process.env['PUBLIC_URL'] ?? `http://127.0.0.1:${PORT}`,
     DATABASE_URL: databaseUrl,
     PORT: String(PORT),
     HOST: process.env['HOST'] ?? '127.0.0.1',
@@ -185,6 +201,7 @@ async function main(): Promise<void> {
   console.log(`  Demo sign-ins (password for all: ${DEMO_PASSWORD}):`);
   for (const user of DEMO_USERS) console.log(`    ${user.role.padEnd(11)} ${user.email}`);
   console.log('');
+  console.log('  Mail goes to the local catcher: sign in as admin and open Mailbox to read it.');
   console.log('  Ctrl-C stops the app and its database.');
   console.log('');
 }

@@ -9,6 +9,18 @@ export const routes: Routes = [
     loadComponent: () => import('./features/sign-in/sign-in-page').then((m) => m.SignInPage),
   },
   {
+    path: 'forgot-password',
+    title: 'Forgot password · Tierscope',
+    loadComponent: () =>
+      import('./features/sign-in/forgot-password-page').then((m) => m.ForgotPasswordPage),
+  },
+  {
+    path: 'set-password',
+    title: 'Choose a password · Tierscope',
+    loadComponent: () =>
+      import('./features/sign-in/set-password-page').then((m) => m.SetPasswordPage),
+  },
+  {
     path: '',
     canActivate: [signedInGuard],
     loadComponent: () => import('./core/shell/shell').then((m) => m.Shell),
@@ -49,6 +61,50 @@ export const routes: Routes = [
         canActivate: [permissionGuard('gateways.manage')],
         loadComponent: () =>
           import('./features/gateways/gateways-page').then((m) => m.GatewaysPage),
+      },
+      {
+        path: 'work-orders',
+        title: 'Work orders · Tierscope',
+        canActivate: [permissionGuard('workOrders.manage')],
+        loadComponent: () =>
+          import('./features/work-orders/work-orders-page').then((m) => m.WorkOrdersPage),
+      },
+      {
+        path: 'work-orders/:workOrderId',
+        title: 'Work order · Tierscope',
+        canActivate: [permissionGuard('workOrders.work')],
+        loadComponent: () =>
+          import('./features/work-orders/work-order-page').then((m) => m.WorkOrderPage),
+      },
+      {
+        path: 'my-work',
+        title: 'My work · Tierscope',
+        canActivate: [permissionGuard('workOrders.work')],
+        loadComponent: () =>
+          import('./features/work-orders/my-work-page').then((m) => m.MyWorkPage),
+      },
+      {
+        path: 'reports',
+        title: 'Reports · Tierscope',
+        canActivate: [permissionGuard('workOrders.manage')],
+        providers: [
+          provideEchartsCore({
+            echarts: () => import('./features/house-live/echarts-setup').then((m) => m.echarts),
+          }),
+        ],
+        loadComponent: () => import('./features/reports/reports-page').then((m) => m.ReportsPage),
+      },
+      {
+        path: 'notifications',
+        title: 'Notifications · Tierscope',
+        loadComponent: () =>
+          import('./features/notifications/notifications-page').then((m) => m.NotificationsPage),
+      },
+      {
+        path: 'mailbox',
+        title: 'Mailbox · Tierscope',
+        canActivate: [permissionGuard('users.manage')],
+        loadComponent: () => import('./features/mailbox/mailbox-page').then((m) => m.MailboxPage),
       },
       {
         path: 'users',

@@ -5,6 +5,7 @@ import {
   type LoginRequest,
   type Membership,
   type Session,
+  type SetPassword,
 } from '@tierscope/contracts';
 import { can, type Permission } from '@tierscope/domain';
 import { firstValueFrom } from 'rxjs';
@@ -45,6 +46,15 @@ export class AuthStore {
     const session: StoredSession = response;
     localStorage.setItem(STORAGE_KEY, JSON.stringify(session));
     this.stored.set(session);
+  }
+
+  /** Chooses a password through a mailed link (invitation or reset); the answer signs the user in. */
+  async setPassword(input: SetPassword): Promise<void> {
+    const response = loginResponseSchema.parse(
+      await firstValueFrom(this.http.post('/api/v1/auth/set-password', input)),
+    );
+    localStorage.setItem(STORAGE_KEY, JSON.stringify(response));
+    this.stored.set(response);
   }
 
   signOut(): void {

@@ -11,6 +11,21 @@ export interface NavItem {
 export const NAV_ITEMS: readonly NavItem[] = [
   { label: 'Farms', icon: 'agriculture', link: '/farms', permission: 'farm.read' },
   { label: 'Exceptions', icon: 'warning', link: '/exceptions', permission: 'farm.read' },
+  { label: 'My work', icon: 'construction', link: '/my-work', permission: 'workOrders.work' },
+  {
+    label: 'Work orders',
+    icon: 'assignment',
+    link: '/work-orders',
+    permission: 'workOrders.manage',
+  },
+  { label: 'Reports', icon: 'bar_chart', link: '/reports', permission: 'workOrders.manage' },
   { label: 'Gateways', icon: 'router', link: '/gateways', permission: 'gateways.manage' },
   { label: 'Users', icon: 'group', link: '/users', permission: 'users.manage' },
+  { label: 'Mailbox', icon: 'mail', link: '/mailbox', permission: 'users.manage' },
+  {
+    label: 'Notifications',
+    icon: 'notifications',
+    link: '/notifications',
+    permission: 'farm.read',
+  },
 ];

@@ -1,6 +1,14 @@
 import { DatePipe, DecimalPipe } from '@angular/common';
 import { HttpClient, httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  inject,
+  input,
+  linkedSignal,
+  signal,
+} from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -8,7 +16,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
-import { RouterLink } from '@angular/router';
+import { Router, RouterLink } from '@angular/router';
 import { exceptionSchema, type CloseException, type ExceptionView } from '@tierscope/contracts';
 import { firstValueFrom } from 'rxjs';
 import { z } from 'zod';
@@ -16,6 +24,8 @@ import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { listState, LoadState } from '../../shared/ui/load-state';
 import { CloseDialog } from './close-dialog';
+import { WorkOrderDialog, type WorkOrderDialogData } from '../work-orders/work-order-dialog';
+import type { WorkOrder } from '@tierscope/contracts';
 
 type StatusFilter = 'live' | 'closed' | '';
 
@@ -42,16 +52,22 @@ export class ExceptionsPage {
   private readonly http = inject(HttpClient);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
+  private readonly router = inject(Router);
 
   protected readonly status = signal<StatusFilter>('live');
   protected readonly kind = signal<string>('');
-  protected readonly houseId = signal<number | null>(null);
+  /** `?houseId=` from a mailed link, bound by the router. */
+  readonly houseId = input<string>();
+  protected readonly houseFilter = linkedSignal<number | null>(() => {
+    const id = Number(this.houseId());
+    return Number.isInteger(id) && id > 0 ? id : null;
+  });
   protected readonly exceptions = httpResource(
     () => {
       const params = new URLSearchParams();
       if (this.status()) params.set('status', this.status());
       if (this.kind()) params.set('kind', this.kind());
-      const house = this.houseId();
+      const house = this.houseFilter();
       if (house !== null) params.set('houseId', String(house));
       return `/api/v1/exceptions?${params.toString()}`;
     },
@@ -68,6 +84,23 @@ export class ExceptionsPage {
 
   protected canAct(e: ExceptionView): boolean {
     return this.auth.hasPermission('exceptions.acknowledge', e.farmId) && e.status !== 'closed';
+  }
+
+  protected canOpenWorkOrder(e: ExceptionView): boolean {
+    return this.auth.hasPermission('workOrders.manage', e.farmId) && e.status !== 'closed';
+  }
+
+  protected async openWorkOrder(e: ExceptionView): Promise<void> {
+    const created = await firstValueFrom(
+      this.dialog
+        .open<WorkOrderDialog, WorkOrderDialogData, WorkOrder>(WorkOrderDialog, {
+          data: { exception: e, where: this.where(e).toLowerCase() },
+        })
+        .afterClosed(),
+    );
+    if (!created) return;
+    this.snackBar.open(`Work order #${created.id} opened`, undefined, { duration: 2500 });
+    await this.router.navigate(['/work-orders', created.id]);
   }
 
   protected where(e: ExceptionView): string {

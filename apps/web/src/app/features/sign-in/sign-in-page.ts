@@ -5,7 +5,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { Router } from '@angular/router';
+import { Router, RouterLink } from '@angular/router';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 
@@ -18,6 +18,7 @@ import { describeApiError } from '../../core/http/api-error';
     MatButtonModule,
     MatIconModule,
     MatProgressBarModule,
+    RouterLink,
   ],
   templateUrl: './sign-in-page.html',
   styleUrl: './sign-in-page.scss',

@@ -5,6 +5,7 @@ import {
   NonNullableFormBuilder,
   ReactiveFormsModule,
   Validators,
+  type ValidatorFn,
 } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
@@ -26,6 +27,11 @@ export interface UserDialogData {
 }
 
 const fields = userCreateSchema.shape;
+
+/** A validator that lets an empty value through and checks anything else. */
+function emptyOr(validator: ValidatorFn): ValidatorFn {
+  return (control) => (control.value === '' ? null : validator(control));
+}
 
 @Component({
   selector: 'ts-user-dialog',
@@ -72,7 +78,8 @@ export class UserDialog {
   protected readonly form = inject(NonNullableFormBuilder).group({
     email: [this.data.user?.email ?? '', [Validators.required, zodValidator(fields.email)]],
     name: [this.data.user?.name ?? '', [Validators.required, zodValidator(fields.name)]],
-    password: ['', this.isEdit ? [] : [Validators.required, zodValidator(fields.password)]],
+    // Empty: the user is mailed an invitation link and chooses their own password.
+    password: ['', this.isEdit ? [] : [emptyOr(zodValidator(fields.password))]],
   });
   protected readonly roleControls = this.data.farms.map((farm) => ({
     farm,
@@ -100,7 +107,12 @@ export class UserDialog {
       const { email, name, password } = this.form.getRawValue();
       const request = this.data.user
         ? this.http.patch(`/api/v1/users/${this.data.user.id}`, { name, memberships })
-        : this.http.post('/api/v1/users', { email, name, password, memberships });
+        : this.http.post('/api/v1/users', {
+            email,
+            name,
+            ...(password === '' ? {} : { password }),
+            memberships,
+          });
       this.dialogRef.close(userSchema.parse(await firstValueFrom(request)));
     } catch (error) {
       this.error.set(describeApiError(error));
