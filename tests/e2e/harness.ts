@@ -1,7 +1,9 @@
-import { existsSync, mkdirSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { createTestDatabase } from '@tierscope/db/testing';
 import { seedDemo } from '@tierscope/db/seed';
+import { startMailCatcher, type MailCatcher } from '@tierscope/mail-catcher';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { startApiProcess } from '../../scripts/processes';
 
@@ -12,6 +14,10 @@ export const ARTIFACTS = join(ROOT, 'test-results');
 export interface Harness {
   baseUrl: string;
   browser: Browser;
+  /** the suite's own seeded database, to set up what a flow starts from */
+  database: Awaited<ReturnType<typeof createTestDatabase>>;
+  /** the local SMTP catcher the API mails to */
+  mail: MailCatcher;
   stop(): Promise<void>;
 }
 
@@ -25,11 +31,17 @@ export async function startHarness(): Promise<Harness> {
   mkdirSync(ARTIFACTS, { recursive: true });
   const database = await createTestDatabase();
   await seedDemo(database.db);
+  const mail = await startMailCatcher();
+  const dataDir = mkdtempSync(join(tmpdir(), 'tierscope-e2e-data-'));
   const api = await startApiProcess(
     {
       DATABASE_URL: database.url,
       JWT_SECRET: 'e2e-secret-e2e-secret-e2e-secret-e2e-secret',
       WEB_DIST: webDist,
+      SMTP_URL: `smtp://127.0.0.1:${mail.smtpPort}`,
+      MAIL_CATCHER_URL: mail.httpUrl,
+      EXCEPTION_MAIL_SECONDS: '1',
+      DATA_DIR: dataDir,
     },
     { stdio: ['ignore', 'inherit', 'inherit'] },
   );
@@ -50,10 +62,14 @@ export async function startHarness(): Promise<Harness> {
   return {
     baseUrl,
     browser,
+    database,
+    mail,
     async stop() {
       await browser.close();
       await api.stop();
+      await mail.close();
       await database.drop();
+      rmSync(dataDir, { recursive: true, force: true });
     },
   };
 }

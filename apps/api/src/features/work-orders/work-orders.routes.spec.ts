@@ -14,7 +14,7 @@ import {
   seedFixture,
   type Fixture,
 } from '../../testing/fixtures';
-import { solidPng } from '../../testing/images';
+import { solidPng } from '../../../../../tests/fixtures/images';
 import { bearerFor } from '../../testing/sign-in';
 import { createTestApp, createTestRuntime } from '../../testing/test-app';
 import type { Runtime } from '../../app';

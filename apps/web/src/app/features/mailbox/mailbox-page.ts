@@ -41,7 +41,7 @@ import { listState, LoadState } from '../../shared/ui/load-state';
               (opened)="openId.set(m.id)"
               class="message"
             >
-              <mat-expansion-panel-header>
+              <mat-expansion-panel-header collapsedHeight="auto" expandedHeight="auto">
                 <mat-panel-title>{{ m.subject }}</mat-panel-title>
                 <mat-panel-description>
                   {{ m.to.join(', ') }} · {{ m.receivedAt | date: 'd MMM, HH:mm:ss' }}
@@ -65,6 +65,10 @@ import { listState, LoadState } from '../../shared/ui/load-state';
     }
     .spacer {
       flex: 1;
+    }
+    mat-expansion-panel-header {
+      padding-top: 10px;
+      padding-bottom: 10px;
     }
     .body {
       white-space: pre-wrap;

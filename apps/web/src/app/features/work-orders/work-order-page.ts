@@ -131,10 +131,11 @@ export class WorkOrderPage {
   protected readonly isCancelling = signal(false);
 
   constructor() {
-    // Findings shown are the order's own whenever a fresh copy arrives.
+    // Findings shown are the order's own whenever a fresh copy arrives, unless the user is typing some:
+    // a tick or a photo must never wipe findings not saved yet.
     effect(() => {
       const o = this.order();
-      if (!o) return;
+      if (!o || this.findings.dirty) return;
       this.findings.patchValue({ cause: o.findingCause ?? '', notes: o.findingNotes });
     });
     // Photos need the bearer token, so each is fetched once and shown from an object URL.
@@ -216,6 +217,7 @@ export class WorkOrderPage {
     };
     if (await this.change(() => this.api.update(o.id, input), words[state])) {
       this.isCancelling.set(false);
+      this.findings.markAsPristine();
     }
   }
 
@@ -223,7 +225,7 @@ export class WorkOrderPage {
     const o = this.order();
     if (!o) return;
     const f = this.findings.getRawValue();
-    await this.change(
+    const isSaved = await this.change(
       () =>
         this.api.update(o.id, {
           findingCause: f.cause === '' ? null : f.cause,
@@ -231,6 +233,7 @@ export class WorkOrderPage {
         }),
       'Findings saved',
     );
+    if (isSaved) this.findings.markAsPristine();
   }
 
   protected async reassign(assigneeId: number | null): Promise<void> {
