@@ -10,7 +10,9 @@ export default defineConfig({
       {
         test: {
           name: 'libs',
-          include: ['libs/**/*.spec.ts', 'simulator/**/*.spec.ts',
+          include: [
+            'libs/**/*.spec.ts',
+            'simulator/**/*.spec.ts',
             'scripts/**/*.spec.ts',
             'mail-catcher/**/*.spec.ts',
           ],

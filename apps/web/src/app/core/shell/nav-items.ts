@@ -22,10 +22,4 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { label: 'Gateways', icon: 'router', link: '/gateways', permission: 'gateways.manage' },
   { label: 'Users', icon: 'group', link: '/users', permission: 'users.manage' },
   { label: 'Mailbox', icon: 'mail', link: '/mailbox', permission: 'users.manage' },
-  {
-    label: 'Notifications',
-    icon: 'notifications',
-    link: '/notifications',
-    permission: 'farm.read',
-  },
 ];

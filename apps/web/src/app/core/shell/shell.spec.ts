@@ -28,12 +28,31 @@ const navLabels = (element: HTMLElement) =>
   );
 
 describe('Shell', () => {
-  it('offers the Users page to admins', () => {
-    expect(navLabels(renderAs('admin'))).toEqual(['Farms', 'Exceptions', 'Gateways', 'Users']);
+  it('offers the Users page and the Mailbox to admins', () => {
+    expect(navLabels(renderAs('admin'))).toEqual([
+      'Farms',
+      'Exceptions',
+      'My work',
+      'Work orders',
+      'Reports',
+      'Gateways',
+      'Users',
+      'Mailbox',
+    ]);
   });
 
-  it('does not offer the Users page to the crew', () => {
-    expect(navLabels(renderAs('crew'))).toEqual(['Farms', 'Exceptions']);
+  it('offers the crew their own work but not the Users page or every work order', () => {
+    expect(navLabels(renderAs('crew'))).toEqual(['Farms', 'Exceptions', 'My work']);
+  });
+
+  it('offers managers the work orders and reports', () => {
+    expect(navLabels(renderAs('manager'))).toEqual([
+      'Farms',
+      'Exceptions',
+      'My work',
+      'Work orders',
+      'Reports',
+    ]);
   });
 
   it('offers integrators the gateways but not the users', () => {
