@@ -14,3 +14,4 @@ export * from './exceptions';
 export * from './work-orders';
 export * from './notification-settings';
 export * from './user-tokens';
+export * from './imports';

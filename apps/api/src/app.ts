@@ -40,6 +40,9 @@ import { createNotifier, type Notifier } from './features/notifications/notifier
 import { notificationsRoutes } from './features/notifications/notifications.routes';
 import { workOrdersRoutes } from './features/work-orders/work-orders.routes';
 import { createWorkOrdersService } from './features/work-orders/work-orders.service';
+import { ImportRunner } from './features/imports/import-runner';
+import { importsRoutes } from './features/imports/imports.routes';
+import { createImportsService } from './features/imports/imports.service';
 
 export const API_VERSION = '0.1.0';
 
@@ -59,6 +62,7 @@ export interface AppDeps {
     | 'exceptionMailSeconds'
     | 'dataDir'
     | 'photoMaxBytes'
+    | 'importMaxBytes'
   >;
   log?: (message: string, error?: unknown) => void;
   /** Operational lines (ingest counts); tests pass a no-op. */
@@ -76,6 +80,7 @@ export interface Runtime {
   scheduler: EvaluationScheduler;
   mailer: Mailer;
   notifier: Notifier;
+  imports: ImportRunner;
 }
 
 export function createRuntime({
@@ -98,6 +103,7 @@ export function createRuntime({
   return {
     mailer,
     notifier,
+    imports: new ImportRunner(db, events, join(config.dataDir, 'imports'), log),
     events,
     tokens,
     evaluation,
@@ -167,6 +173,12 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
     ),
   );
   v1.use(notificationsRoutes(db, config.mailCatcherUrl));
+  v1.use(
+    importsRoutes(createImportsService(db, runtime.imports), {
+      importsDir: join(config.dataDir, 'imports'),
+      maxBytes: config.importMaxBytes,
+    }),
+  );
   app.use('/api/v1', v1);
   app.use('/api', (_req, _res, next) => {
     next(new AppError('not_found', 'No such API route'));

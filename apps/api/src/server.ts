@@ -33,6 +33,8 @@ async function main(): Promise<void> {
   const runtime = createRuntime({ db: database.db, config, log });
   const app = createApp({ db: database.db, config, runtime, log });
   runtime.notifier.start();
+  const resumed = await runtime.imports.resumeInterrupted();
+  if (resumed > 0) console.log(`[api] imports: ${resumed} interrupted import(s) queued again`);
   if (config.mailCatcherUrl)
     console.log(`[api] mail goes to the local catcher (${config.smtpUrl ?? 'no SMTP_URL'})`);
   const server = app.listen(config.port, config.host, () => {
@@ -64,6 +66,7 @@ async function main(): Promise<void> {
     live.close();
     runtime.scheduler.dispose();
     runtime.notifier.dispose();
+    runtime.imports.dispose();
     runtime.mailer.close();
     server.close(() => void database.close().then(() => process.exit(0)));
   };

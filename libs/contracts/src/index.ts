@@ -10,3 +10,4 @@ export * from './live.schema';
 export * from './mail.schema';
 export * from './work-order.schema';
 export * from './notification.schema';
+export * from './import.schema';

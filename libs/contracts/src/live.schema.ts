@@ -115,6 +115,21 @@ export const liveServerMessageSchema = z.discriminatedUnion('type', [
   z.object({ type: z.literal('snapshot'), houseId: z.number().int(), map: houseMapSchema }),
   z.object({ type: z.literal('frame'), houseId: z.number().int(), map: houseMapSchema }),
   z.object({ type: z.literal('exception'), houseId: z.number().int(), exception: exceptionSchema }),
+  /** progress of a historical import into a subscribed house */
+  z.object({
+    type: z.literal('import'),
+    houseId: z.number().int(),
+    import: z.object({
+      id: z.number().int(),
+      state: z.enum(['queued', 'running', 'done', 'failed', 'cancelled']),
+      linesRead: z.number().int(),
+      readingsAdded: z.number().int(),
+      duplicates: z.number().int(),
+      errorCount: z.number().int(),
+      bytesRead: z.number().int(),
+      bytes: z.number().int(),
+    }),
+  }),
   z.object({
     type: z.literal('error'),
     code: z.string(),

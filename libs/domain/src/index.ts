@@ -8,3 +8,4 @@ export * from './windows';
 export * from './shortfall';
 export * from './work-orders';
 export * from './csv';
+export * from './csv-import';

@@ -32,6 +32,11 @@ const configSchema = z.object({
     .int()
     .positive()
     .default(8 * 1024 * 1024),
+  IMPORT_MAX_BYTES: z.coerce
+    .number()
+    .int()
+    .positive()
+    .default(500 * 1024 * 1024),
 });
 
 export interface AppConfig {
@@ -57,6 +62,8 @@ export interface AppConfig {
   /** photos and other uploads live under here */
   dataDir: string;
   photoMaxBytes: number;
+  /** the largest historical export accepted (streamed to disk, never held in memory) */
+  importMaxBytes: number;
 }
 
 /** Reads the API's settings from the environment; a bad value stops the start with its name. */
@@ -84,5 +91,6 @@ export function loadConfig(env: NodeJS.ProcessEnv): AppConfig {
     exceptionMailSeconds: c.EXCEPTION_MAIL_SECONDS,
     dataDir: c.DATA_DIR,
     photoMaxBytes: c.PHOTO_MAX_BYTES,
+    importMaxBytes: c.IMPORT_MAX_BYTES,
   };
 }

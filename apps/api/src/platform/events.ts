@@ -18,6 +18,19 @@ export interface DomainEvents {
     houseId: number;
     changed: (typeof schema.exceptions.$inferSelect)[];
   };
+  /** A historical import moved on (progress while running, then its end). */
+  'import.progress': {
+    id: number;
+    farmId: number;
+    houseId: number;
+    state: 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
+    linesRead: number;
+    readingsAdded: number;
+    duplicates: number;
+    errorCount: number;
+    bytesRead: number;
+    bytes: number;
+  };
   /** A person acknowledged or closed an exception. */
   'exception.changed': {
     farmId: number;

@@ -125,6 +125,23 @@ export function attachLive(
         deps.log('live exception push failed', error);
       });
     }),
+    deps.events.on('import.progress', (e) => {
+      const progress = {
+        id: e.id,
+        state: e.state,
+        linesRead: e.linesRead,
+        readingsAdded: e.readingsAdded,
+        duplicates: e.duplicates,
+        errorCount: e.errorCount,
+        bytesRead: e.bytesRead,
+        bytes: e.bytes,
+      };
+      for (const client of clients) {
+        if (client.houses.has(e.houseId)) {
+          send(client, { type: 'import', houseId: e.houseId, import: progress });
+        }
+      }
+    }),
     deps.events.on('exception.changed', (e) => {
       scheduleFrame(e.houseId);
       pushExceptions(e.houseId, [e.exception.id]).catch((error: unknown) => {

@@ -19,6 +19,7 @@ const baseConfig = {
   exceptionMailSeconds: 3600,
   dataDir: join(tmpdir(), 'tierscope-api-tests'),
   photoMaxBytes: 512 * 1024,
+  importMaxBytes: 5 * 1024 * 1024,
 };
 
 /** What a suite may change of the API's settings (mail transport, data folder, limits). */

@@ -1,0 +1,486 @@
+import { createReadStream } from 'node:fs';
+import { rm } from 'node:fs/promises';
+import { join } from 'node:path';
+import { importMappingSchema, type ImportMapping } from '@tierscope/contracts';
+import type { Database } from '@tierscope/db';
+import {
+  detectDelimiter,
+  intervalFromTotals,
+  parseCount,
+  parseTimestamp,
+  type DecimalMark,
+} from '@tierscope/domain';
+import { parse, type Info } from 'csv-parse';
+import type { EventBus } from '../../platform/events';
+import { copyReadingsInChunks } from '../ingest/bulk-ingest.repository';
+import { ensureReadingPartitions } from '../ingest/ingest.repository';
+import {
+  clearErrors,
+  findImport,
+  houseCounters,
+  insertErrors,
+  interruptedImports,
+  isCancelRequested,
+  poolOf,
+  updateImport,
+  type ImportRow,
+} from './imports.repository';
+
+/** Errors kept per import (all are counted; the CSV download holds these). */
+export const MAX_STORED_ERRORS = 10_000;
+/** How often a running import writes its progress and looks for a cancel request. */
+const REPORT_MS = 500;
+
+class Cancelled extends Error {}
+
+/** A mapping problem that stops the whole import (a column that is not in the file, say). */
+class MappingProblem extends Error {}
+
+interface LineError {
+  line: number;
+  column: string | null;
+  message: string;
+}
+
+export interface ImportProgress {
+  id: number;
+  farmId: number;
+  houseId: number;
+  state: ImportRow['state'];
+  linesRead: number;
+  readingsAdded: number;
+  duplicates: number;
+  errorCount: number;
+  bytesRead: number;
+  bytes: number;
+}
+
+/**
+ * Runs historical imports in the background, one at a time: streams the stored file through csv-parse,
+ * checks each line, and loads the good readings through the same exactly-once bulk path as the benchmark
+ * (COPY into staging, ON CONFLICT DO NOTHING, rollups of the new rows only). An import that stopped
+ * half-way is run again from the start on the next start of the API and counts each reading once.
+ */
+export class ImportRunner {
+  private readonly queue: number[] = [];
+  private current: Promise<void> | null = null;
+  private isDisposed = false;
+
+  constructor(
+    private readonly db: Database,
+    private readonly events: EventBus,
+    private readonly importsDir: string,
+    private readonly log: (message: string, error?: unknown) => void,
+    private readonly options: { chunkRows?: number } = {},
+  ) {}
+
+  enqueue(id: number): void {
+    if (this.isDisposed || this.queue.includes(id)) return;
+    this.queue.push(id);
+    this.pump();
+  }
+
+  /** Queues again what a stop interrupted. */
+  async resumeInterrupted(): Promise<number> {
+    const rows = await interruptedImports(this.db);
+    for (const row of rows) this.enqueue(row.id);
+    return rows.length;
+  }
+
+  /** Resolves when the queue is empty and nothing runs (tests wait on this). */
+  async idle(): Promise<void> {
+    while (this.current) await this.current;
+  }
+
+  dispose(): void {
+    this.isDisposed = true;
+    this.queue.length = 0;
+  }
+
+  private pump(): void {
+    if (this.current) return;
+    const next = this.queue.shift();
+    if (next === undefined) return;
+    this.current = this.run(next)
+      .catch((error: unknown) => {
+        this.log(`import ${next} failed`, error);
+      })
+      .finally(() => {
+        this.current = null;
+        if (!this.isDisposed) this.pump();
+      });
+  }
+
+  private emit(row: ImportRow): void {
+    this.events.emit('import.progress', {
+      id: row.id,
+      farmId: row.farmId,
+      houseId: row.houseId,
+      state: row.state,
+      linesRead: row.linesRead,
+      readingsAdded: row.readingsAdded,
+      duplicates: row.duplicates,
+      errorCount: row.errorCount,
+      bytesRead: row.bytesRead,
+      bytes: row.bytes,
+    });
+  }
+
+  private async run(id: number): Promise<void> {
+    const found = await findImport(this.db, id);
+    if (!found || found.import.state === 'done' || found.import.state === 'cancelled') return;
+    const path = join(this.importsDir, found.import.storedName);
+    if (found.import.cancelRequestedAt) {
+      await this.finish(id, path, { state: 'cancelled', message: 'Cancelled before it started' });
+      return;
+    }
+    // From the start: counts of an earlier, interrupted run are recounted (the readings themselves are not).
+    await clearErrors(this.db, id);
+    const started = await updateImport(this.db, id, {
+      state: 'running',
+      startedAt: new Date(),
+      finishedAt: null,
+      linesRead: 0,
+      readingsAdded: 0,
+      duplicates: 0,
+      errorCount: 0,
+      bytesRead: 0,
+      message: null,
+    });
+    if (started) this.emit(started);
+    try {
+      const mapping = importMappingSchema.parse(found.import.mapping);
+      const result = await this.load(found.import, path, mapping);
+      const done = await this.finish(id, path, {
+        state: 'done',
+        ...result,
+        message: null,
+      });
+      if (done && done.readingsAdded > 0 && done.firstTs && done.lastTs) {
+        // The shortfall engine replays the imported days (after a short quiet, day by day).
+        this.events.emit('readings.accepted', {
+          farmId: done.farmId,
+          houseId: done.houseId,
+          readingsAdded: done.readingsAdded,
+          eggsAdded: 0,
+          firstTs: done.firstTs,
+          lastTs: done.lastTs,
+        });
+      }
+    } catch (error) {
+      if (error instanceof Cancelled) {
+        await this.finish(id, path, {
+          state: 'cancelled',
+          message: 'Cancelled; readings loaded so far are kept',
+        });
+      } else if (error instanceof MappingProblem) {
+        await this.finish(id, path, { state: 'failed', message: error.message }, true);
+      } else {
+        this.log(`import ${id} failed`, error);
+        await this.finish(
+          id,
+          path,
+          {
+            state: 'failed',
+            message: 'The import stopped on an unexpected error; it can be run again',
+          },
+          true,
+        );
+      }
+    }
+  }
+
+  private async finish(
+    id: number,
+    path: string,
+    patch: Parameters<typeof updateImport>[2],
+    isFileKept = false,
+  ): Promise<ImportRow | undefined> {
+    const row = await updateImport(this.db, id, { ...patch, finishedAt: new Date() });
+    if (row) this.emit(row);
+    if (!isFileKept) await rm(path, { force: true });
+    return row;
+  }
+
+  private async load(row: ImportRow, path: string, mapping: ImportMapping) {
+    const counters = await houseCounters(this.db, row.houseId);
+    const stream = createReadStream(path);
+    const delimiter = mapping.delimiter ?? detectDelimiter(await readSample(path));
+    const parser = parse({
+      delimiter,
+      bom: true,
+      info: true,
+      relax_column_count: true,
+      relax_quotes: true,
+      skip_empty_lines: true,
+      skip_records_with_error: true,
+      trim: false,
+    });
+    const errors: LineError[] = [];
+    let errorCount = 0;
+    let stored = 0;
+    const addError = (e: LineError) => {
+      errorCount += 1;
+      if (stored + errors.length < MAX_STORED_ERRORS) errors.push(e);
+    };
+    parser.on('skip', (error: Error & { lines?: number }) => {
+      addError({ line: error.lines ?? 0, column: null, message: error.message });
+    });
+    stream.pipe(parser);
+
+    let linesRead = 0;
+    let valid = 0;
+    let added = 0;
+    let firstTs: Date | null = null;
+    let lastTs: Date | null = null;
+    let lastReport = Date.now();
+    const knownMonths = new Set<string>();
+    const lastTotals = new Map<number, { ts: number; total: number }>();
+
+    const report = async () => {
+      lastReport = Date.now();
+      const batch = errors.splice(0);
+      stored += batch.length;
+      await insertErrors(this.db, row.id, batch);
+      if (await isCancelRequested(this.db, row.id)) throw new Cancelled();
+      const updated = await updateImport(this.db, row.id, {
+        linesRead,
+        readingsAdded: added,
+        errorCount,
+        bytesRead: stream.bytesRead,
+      });
+      if (updated) this.emit(updated);
+    };
+
+    const decimal: DecimalMark = mapping.decimal;
+    const db = this.db;
+    let columns: Resolved | null = null;
+
+    async function* lines(): AsyncGenerator<string> {
+      for await (const item of parser as AsyncIterable<{ record: string[]; info: Info }>) {
+        const { record, info } = item;
+        const line = info.lines;
+        if (!columns) {
+          columns = resolveColumns(mapping, mapping.hasHeader ? record : null, counters);
+          if (mapping.hasHeader) continue;
+        }
+        linesRead += 1;
+        for (const reading of readingsOf(
+          record,
+          line,
+          columns,
+          mapping,
+          decimal,
+          counters,
+          addError,
+        )) {
+          let eggs = reading.value;
+          let total = '';
+          if (mapping.mode === 'total') {
+            const previous = lastTotals.get(reading.counterId);
+            if (previous && reading.ts.getTime() <= previous.ts) {
+              addError({
+                line,
+                column: reading.column,
+                message: 'running totals must be in time order for each counter',
+              });
+              continue;
+            }
+            eggs = intervalFromTotals(previous?.total ?? null, reading.value);
+            total = String(reading.value);
+            lastTotals.set(reading.counterId, { ts: reading.ts.getTime(), total: reading.value });
+          }
+          const month = `${reading.ts.toISOString().slice(0, 7)}-01`;
+          if (!knownMonths.has(month)) {
+            await ensureReadingPartitions(db, [month]);
+            knownMonths.add(month);
+          }
+          if (!firstTs || reading.ts < firstTs) firstTs = reading.ts;
+          if (!lastTs || reading.ts > lastTs) lastTs = reading.ts;
+          valid += 1;
+          yield `${reading.counterId},${reading.ts.toISOString()},${eggs},${total}`;
+        }
+        if (Date.now() - lastReport > REPORT_MS) await report();
+      }
+      if (!columns) throw new MappingProblem('The file holds no lines');
+    }
+
+    const result = await copyReadingsInChunks(poolOf(this.db), row.farmId, lines(), {
+      chunkRows: this.options.chunkRows ?? 50_000,
+      onChunk: (n) => {
+        added += n;
+      },
+    });
+    added = result.added;
+    const batch = errors.splice(0);
+    await insertErrors(this.db, row.id, batch);
+    return {
+      linesRead,
+      readingsAdded: added,
+      duplicates: valid - added,
+      errorCount,
+      bytesRead: stream.bytesRead,
+      firstTs,
+      lastTs,
+    };
+  }
+}
+
+/** The first 64 KB of a file, to detect its delimiter. */
+async function readSample(path: string): Promise<string> {
+  const chunks: Buffer[] = [];
+  for await (const chunk of createReadStream(path, { start: 0, end: 65_535 })) {
+    chunks.push(chunk as Buffer);
+  }
+  return Buffer.concat(chunks).toString('utf8');
+}
+
+type Counters = Awaited<ReturnType<typeof houseCounters>>;
+
+interface Resolved {
+  names: string[];
+  timestamp: number;
+  eggs: number | null;
+  counter: number | null;
+  row: number | null;
+  tier: number | null;
+  wide: { index: number; counterId: number }[];
+}
+
+function resolveColumns(
+  mapping: ImportMapping,
+  header: string[] | null,
+  counters: Counters,
+): Resolved {
+  const names = header?.map((h) => h.trim()) ?? [];
+  const find = (ref: string | number, what: string): number => {
+    if (typeof ref === 'number') return ref - 1;
+    if (!header)
+      throw new MappingProblem(`The file has no header line, so ${what} must be a column number`);
+    const index = names.findIndex((n) => n.toLowerCase() === ref.toLowerCase());
+    if (index < 0)
+      throw new MappingProblem(
+        `The ${what} column "${ref}" is not in the header (${names.join(', ')})`,
+      );
+    return index;
+  };
+  if (mapping.layout === 'long') {
+    return {
+      names,
+      timestamp: find(mapping.timestamp, 'timestamp'),
+      eggs: find(mapping.eggs, 'count'),
+      counter: mapping.counter !== undefined ? find(mapping.counter, 'counter') : null,
+      row: mapping.row !== undefined ? find(mapping.row, 'row') : null,
+      tier: mapping.tier !== undefined ? find(mapping.tier, 'tier') : null,
+      wide: [],
+    };
+  }
+  return {
+    names,
+    timestamp: find(mapping.timestamp, 'timestamp'),
+    eggs: null,
+    counter: null,
+    row: null,
+    tier: null,
+    wide: mapping.columns.map((c) => {
+      const counterId =
+        c.counter !== undefined
+          ? counters.byExternalId.get(c.counter)
+          : counters.bySection.get(`${c.row ?? 0}:${c.tier ?? 0}`);
+      if (counterId === undefined) {
+        throw new MappingProblem(
+          c.counter !== undefined
+            ? `Counter "${c.counter}" is not a counter of this house`
+            : `Row ${c.row ?? '?'}, tier ${c.tier ?? '?'} is not a section of this house`,
+        );
+      }
+      return { index: find(c.column, 'count'), counterId };
+    }),
+  };
+}
+
+interface Reading {
+  counterId: number;
+  ts: Date;
+  value: number;
+  column: string | null;
+}
+
+/** The readings of one line, or its errors (reported, never thrown). */
+function readingsOf(
+  record: string[],
+  line: number,
+  columns: Resolved,
+  mapping: ImportMapping,
+  decimal: DecimalMark,
+  counters: Counters,
+  addError: (e: LineError) => void,
+): Reading[] {
+  const name = (index: number) => columns.names[index] ?? `column ${index + 1}`;
+  const cell = (index: number) => record[index];
+  const tsCell = cell(columns.timestamp);
+  if (tsCell === undefined) {
+    addError({
+      line,
+      column: name(columns.timestamp),
+      message: `the line has only ${record.length} columns`,
+    });
+    return [];
+  }
+  const ts = parseTimestamp(tsCell, mapping.timestampFormat, mapping.timezone);
+  if (!ts.ok) {
+    addError({ line, column: name(columns.timestamp), message: ts.message });
+    return [];
+  }
+  if (ts.value.getTime() > Date.now() + 5 * 60_000) {
+    addError({ line, column: name(columns.timestamp), message: `${tsCell} is in the future` });
+    return [];
+  }
+  if (mapping.layout === 'wide') {
+    const out: Reading[] = [];
+    for (const c of columns.wide) {
+      const text = cell(c.index);
+      if (text === undefined || text.trim() === '') continue; // no count for this counter at this time
+      const count = parseCount(text, decimal);
+      if (!count.ok) {
+        addError({ line, column: name(c.index), message: count.message });
+        continue;
+      }
+      out.push({ counterId: c.counterId, ts: ts.value, value: count.value, column: name(c.index) });
+    }
+    return out;
+  }
+  let counterId: number | undefined;
+  if (columns.counter !== null) {
+    const id = cell(columns.counter)?.trim() ?? '';
+    counterId = counters.byExternalId.get(id);
+    if (counterId === undefined) {
+      addError({
+        line,
+        column: name(columns.counter),
+        message: `"${id}" is not a counter of this house`,
+      });
+      return [];
+    }
+  } else if (columns.row !== null && columns.tier !== null) {
+    const row = Number(cell(columns.row)?.trim());
+    const tier = Number(cell(columns.tier)?.trim());
+    counterId = counters.bySection.get(`${row}:${tier}`);
+    if (counterId === undefined) {
+      addError({
+        line,
+        column: `${name(columns.row)}/${name(columns.tier)}`,
+        message: `row ${cell(columns.row) ?? '?'}, tier ${cell(columns.tier) ?? '?'} is not a section of this house`,
+      });
+      return [];
+    }
+  }
+  if (counterId === undefined || columns.eggs === null) return [];
+  const eggsCell = cell(columns.eggs);
+  const count = parseCount(eggsCell ?? '', decimal);
+  if (!count.ok) {
+    addError({ line, column: name(columns.eggs), message: count.message });
+    return [];
+  }
+  return [{ counterId, ts: ts.value, value: count.value, column: name(columns.eggs) }];
+}

@@ -1,0 +1,147 @@
+import { schema, type Database, type Queryable } from '@tierscope/db';
+import { and, asc, desc, eq, inArray, isNotNull, sql } from 'drizzle-orm';
+import pg from 'pg';
+
+const { imports, importErrors, importMappings, houses, users, counters, sections } = schema;
+
+export type ImportRow = typeof imports.$inferSelect;
+export type NewImport = typeof imports.$inferInsert;
+
+/** The pool behind drizzle, for the COPY-based bulk path. */
+export function poolOf(db: Database): pg.Pool {
+  // drizzle() keeps the pool it was given as $client; the Database type (NodePgDatabase) does not name it.
+  const client = (db as unknown as { $client?: unknown }).$client;
+  if (!(client instanceof pg.Pool)) throw new Error('the database handle has no pg pool');
+  return client;
+}
+
+export async function insertImport(db: Queryable, values: NewImport): Promise<ImportRow> {
+  const [row] = await db.insert(imports).values(values).returning();
+  if (!row) throw new Error('import not inserted');
+  return row;
+}
+
+export async function findImport(db: Queryable, id: number) {
+  const [row] = await db
+    .select({ import: imports, houseName: houses.name, createdByName: users.name })
+    .from(imports)
+    .innerJoin(houses, eq(houses.id, imports.houseId))
+    .leftJoin(users, eq(users.id, imports.createdBy))
+    .where(eq(imports.id, id));
+  return row;
+}
+
+export async function listImports(db: Queryable, farmIds: number[]) {
+  if (farmIds.length === 0) return [];
+  return db
+    .select({ import: imports, houseName: houses.name, createdByName: users.name })
+    .from(imports)
+    .innerJoin(houses, eq(houses.id, imports.houseId))
+    .leftJoin(users, eq(users.id, imports.createdBy))
+    .where(inArray(imports.farmId, farmIds))
+    .orderBy(desc(imports.createdAt), desc(imports.id))
+    .limit(100);
+}
+
+export async function updateImport(
+  db: Queryable,
+  id: number,
+  patch: Partial<NewImport>,
+): Promise<ImportRow | undefined> {
+  const [row] = await db.update(imports).set(patch).where(eq(imports.id, id)).returning();
+  return row;
+}
+
+/** Imports a stop left queued or half-way: they are run again from the start (nothing counts twice). */
+export async function interruptedImports(db: Queryable): Promise<ImportRow[]> {
+  return db
+    .select()
+    .from(imports)
+    .where(inArray(imports.state, ['queued', 'running']))
+    .orderBy(asc(imports.id));
+}
+
+export async function isCancelRequested(db: Queryable, id: number): Promise<boolean> {
+  const rows = await db
+    .select({ id: imports.id })
+    .from(imports)
+    .where(and(eq(imports.id, id), isNotNull(imports.cancelRequestedAt)));
+  return rows.length > 0;
+}
+
+export async function clearErrors(db: Queryable, importId: number): Promise<void> {
+  await db.delete(importErrors).where(eq(importErrors.importId, importId));
+}
+
+export async function insertErrors(
+  db: Queryable,
+  importId: number,
+  errors: { line: number; column: string | null; message: string }[],
+): Promise<void> {
+  if (errors.length === 0) return;
+  await db.insert(importErrors).values(errors.map((e) => ({ importId, ...e })));
+}
+
+export async function errorsOf(db: Queryable, importId: number, limit: number) {
+  return db
+    .select({ line: importErrors.line, column: importErrors.column, message: importErrors.message })
+    .from(importErrors)
+    .where(eq(importErrors.importId, importId))
+    .orderBy(asc(importErrors.line))
+    .limit(limit);
+}
+
+/** A house's counters as an import names them: by external id, and belt counters by (row, tier). */
+export async function houseCounters(db: Queryable, houseId: number) {
+  const rows = await db
+    .select({
+      id: counters.id,
+      externalId: counters.externalId,
+      kind: counters.kind,
+      row: sections.row,
+      tier: sections.tier,
+    })
+    .from(counters)
+    .leftJoin(sections, eq(sections.id, counters.sectionId))
+    .where(and(eq(counters.houseId, houseId), eq(counters.active, true)));
+  const byExternalId = new Map(rows.map((r) => [r.externalId, r.id]));
+  const bySection = new Map<string, number>();
+  for (const r of rows) {
+    if (r.kind === 'belt' && r.row !== null && r.tier !== null)
+      bySection.set(`${r.row}:${r.tier}`, r.id);
+  }
+  return { byExternalId, bySection };
+}
+
+export async function listMappings(db: Queryable, farmId: number) {
+  return db
+    .select()
+    .from(importMappings)
+    .where(eq(importMappings.farmId, farmId))
+    .orderBy(asc(importMappings.name));
+}
+
+export async function saveMapping(
+  db: Queryable,
+  values: { farmId: number; name: string; mapping: unknown; createdBy: number },
+) {
+  const [row] = await db
+    .insert(importMappings)
+    .values(values)
+    .onConflictDoUpdate({
+      target: [importMappings.farmId, importMappings.name],
+      set: { mapping: values.mapping, createdBy: values.createdBy, createdAt: sql`now()` },
+    })
+    .returning();
+  if (!row) throw new Error('mapping not saved');
+  return row;
+}
+
+export async function findMapping(db: Queryable, id: number) {
+  const [row] = await db.select().from(importMappings).where(eq(importMappings.id, id));
+  return row;
+}
+
+export async function deleteMapping(db: Queryable, id: number): Promise<void> {
+  await db.delete(importMappings).where(eq(importMappings.id, id));
+}
