@@ -448,7 +448,8 @@ describe('who may import', () => {
       .attach('file', Buffer.from(csv), 'x.csv');
     expect(badJson.status).toBe(400);
     expect(badJson.body.error.message).toBe('The mapping is not valid JSON');
-    const { eggs: _eggs, ...withoutEggs } = longIso;
+    const withoutEggs: Partial<typeof longIso> = { ...longIso };
+    delete withoutEggs.eggs;
     const incomplete = await runImport(house.id, csv, withoutEggs);
     expect(incomplete.response.status).toBe(400);
     expect(incomplete.response.body.error.fields.map((f: { path: string }) => f.path)).toContain(
