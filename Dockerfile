@@ -8,6 +8,7 @@ COPY libs/domain/package.json libs/domain/
 COPY libs/contracts/package.json libs/contracts/
 COPY db/package.json db/
 COPY simulator/package.json simulator/
+COPY mail-catcher/package.json mail-catcher/
 COPY tests/package.json tests/
 RUN npm ci --no-audit --no-fund
 COPY . .
@@ -19,4 +20,5 @@ ENV NODE_ENV=production HOST=0.0.0.0 PORT=8080 WEB_DIST=/app/dist/web/browser
 COPY --from=build /app /app
 USER node
 EXPOSE 8080
-CMD ["npx", "tsx", "apps/api/src/server.ts"]
+# The same heap setting as scripts/processes.ts (API_NODE_ARGS): it keeps big imports at ≈ 200 MB.
+CMD ["node", "--max-old-space-size=512", "--import", "tsx", "apps/api/src/server.ts"]

@@ -21,7 +21,7 @@ import {
 import { startMailCatcher, type MailCatcher } from '@tierscope/mail-catcher';
 import { prepareSimulatorFarms } from './demo-simulator';
 import { recreateDatabase, startCluster } from './postgres';
-import { waitForHealth } from './processes';
+import { API_NODE_ARGS, waitForHealth } from './processes';
 
 const ROOT = new URL('..', import.meta.url).pathname;
 const DATA = join(ROOT, '.data');
@@ -146,7 +146,7 @@ async function main(): Promise<void> {
     WEB_DIST: join(ROOT, 'dist/web/browser'),
   };
   // One node process with tsx's loader (not npx → tsx → node), so stopping it stops the API itself.
-  const api = spawn(process.execPath, ['--import', 'tsx', 'apps/api/src/server.ts'], {
+  const api = spawn(process.execPath, API_NODE_ARGS, {
     cwd: ROOT,
     env,
     stdio: 'inherit',

@@ -306,7 +306,7 @@ export class ImportRunner {
     }
 
     const result = await copyReadingsInChunks(poolOf(this.db), row.farmId, lines(), {
-      chunkRows: this.options.chunkRows ?? 50_000,
+      chunkRows: this.options.chunkRows ?? 20_000,
       onChunk: (n) => {
         added += n;
       },
