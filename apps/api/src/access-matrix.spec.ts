@@ -284,6 +284,37 @@ const ownFarmRoutes: { name: string; call: () => Promise<Call>; allowed: Record<
       allowed: { admin: 200, manager: 200, crew: 200, integrator: 200 },
     },
     {
+      name: 'GET /imports',
+      call: async () => (b) => request(app).get('/api/v1/imports').set('Authorization', b),
+      allowed: { admin: 200, manager: 403, crew: 403, integrator: 200 },
+    },
+    {
+      name: 'POST /houses/:id/imports',
+      call: async () => (b) =>
+        request(app)
+          .post(`/api/v1/houses/${fixture.houseA}/imports`)
+          .set('Authorization', b)
+          .field(
+            'mapping',
+            JSON.stringify({
+              layout: 'long',
+              timestamp: 'ts',
+              timezone: 'UTC',
+              row: 'row',
+              tier: 'tier',
+              eggs: 'eggs',
+            }),
+          )
+          .attach('file', Buffer.from('ts,row,tier,eggs\n2026-01-01T05:00Z,1,1,1\n'), 'a.csv'),
+      allowed: { admin: 202, manager: 403, crew: 403, integrator: 202 },
+    },
+    {
+      name: 'GET /farms/:id/import-mappings',
+      call: async () => (b) =>
+        request(app).get(`/api/v1/farms/${fixture.farmA}/import-mappings`).set('Authorization', b),
+      allowed: { admin: 200, manager: 403, crew: 403, integrator: 200 },
+    },
+    {
       name: 'GET /dev/mailbox (no catcher configured)',
       call: async () => (b) => request(app).get('/api/v1/dev/mailbox').set('Authorization', b),
       allowed: { admin: 404, manager: 403, crew: 403, integrator: 403 },
@@ -413,6 +444,30 @@ describe('on a farm they do not belong to', () => {
         request(app)
           .get(`/api/v1/reports/work-orders?farmId=${fixture.farmB}`)
           .set('Authorization', b),
+    },
+    {
+      name: 'POST /houses/:id/imports',
+      call: async () => (b) =>
+        request(app)
+          .post(`/api/v1/houses/${fixture.houseB}/imports`)
+          .set('Authorization', b)
+          .field(
+            'mapping',
+            JSON.stringify({
+              layout: 'long',
+              timestamp: 'ts',
+              timezone: 'UTC',
+              row: 'row',
+              tier: 'tier',
+              eggs: 'eggs',
+            }),
+          )
+          .attach('file', Buffer.from('ts,row,tier,eggs\n'), 'a.csv'),
+    },
+    {
+      name: 'GET /farms/:id/import-mappings',
+      call: async () => (b) =>
+        request(app).get(`/api/v1/farms/${fixture.farmB}/import-mappings`).set('Authorization', b),
     },
   ];
   for (const route of otherFarmRoutes) {

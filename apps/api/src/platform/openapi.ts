@@ -33,6 +33,10 @@ import {
   workOrderSchema,
   workOrderSummarySchema,
   workOrderUpdateSchema,
+  importMappingSchema,
+  importStatusSchema,
+  savedMappingCreateSchema,
+  savedMappingSchema,
 } from '@tierscope/contracts';
 import { z } from 'zod';
 
@@ -318,6 +322,61 @@ export function buildOpenApiDocument(version: string) {
       summary:
         'Done work orders per house: time from exception to done, findings by cause. Query: farmId, from, to',
       responses: { 200: ok(workOrderReportSchema), ...errors },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/houses/{houseId}/imports',
+      summary:
+        'Import a historical counter export (multipart: "file", and "mapping" as JSON text — the mapping schema is this body). Answers 202 with the queued import; it runs in the background',
+      body: importMappingSchema,
+      responses: {
+        202: ok(importStatusSchema, 'Queued'),
+        ...errors,
+        413: error('A file over IMPORT_MAX_BYTES'),
+      },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/imports',
+      summary: 'Recent imports of my farms (integrators and admins). Query: farmId',
+      responses: { 200: ok(z.array(importStatusSchema)), ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/imports/{importId}',
+      summary: 'An import: state, progress, counts and its first line errors',
+      responses: { 200: ok(importStatusSchema), ...errors },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/imports/{importId}/cancel',
+      summary: 'Cancel an import; readings already loaded are kept',
+      responses: { 200: ok(importStatusSchema), ...errors, 409: error('Already ended') },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/imports/{importId}/errors.csv',
+      summary: "An import's line errors as CSV (line, column, message)",
+      responses: { 200: { description: 'text/csv' }, ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/farms/{farmId}/import-mappings',
+      summary: 'Saved column mappings of a farm',
+      responses: { 200: ok(z.array(savedMappingSchema)), ...errors },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/farms/{farmId}/import-mappings',
+      summary: 'Save a mapping by name (the same name replaces it)',
+      body: savedMappingCreateSchema,
+      responses: { 201: ok(savedMappingSchema, 'Saved'), ...errors },
+    },
+    {
+      method: 'delete',
+      path: '/api/v1/import-mappings/{mappingId}',
+      summary: 'Delete a saved mapping',
+      responses: { 204: { description: 'Deleted' }, ...errors },
     },
   ];
   const jsonSchema = (schema: z.ZodType, io: 'input' | 'output') =>
