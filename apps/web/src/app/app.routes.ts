@@ -95,6 +95,12 @@ export const routes: Routes = [
         loadComponent: () => import('./features/reports/reports-page').then((m) => m.ReportsPage),
       },
       {
+        path: 'imports',
+        title: 'Imports · Tierscope',
+        canActivate: [permissionGuard('imports.run')],
+        loadComponent: () => import('./features/imports/imports-page').then((m) => m.ImportsPage),
+      },
+      {
         path: 'notifications',
         title: 'Notifications · Tierscope',
         loadComponent: () =>

@@ -35,6 +35,7 @@ describe('Shell', () => {
       'My work',
       'Work orders',
       'Reports',
+      'Imports',
       'Gateways',
       'Users',
       'Mailbox',
@@ -56,7 +57,12 @@ describe('Shell', () => {
   });
 
   it('offers integrators the gateways but not the users', () => {
-    expect(navLabels(renderAs('integrator'))).toEqual(['Farms', 'Exceptions', 'Gateways']);
+    expect(navLabels(renderAs('integrator'))).toEqual([
+      'Farms',
+      'Exceptions',
+      'Imports',
+      'Gateways',
+    ]);
   });
 
   it('shows who is signed in', () => {

@@ -1,0 +1,174 @@
+import { DatePipe, DecimalPipe } from '@angular/common';
+import { HttpClient } from '@angular/common/http';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  DestroyRef,
+  effect,
+  inject,
+  input,
+  linkedSignal,
+  output,
+  untracked,
+} from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { MatTableModule } from '@angular/material/table';
+import { RouterLink } from '@angular/router';
+import { importStatusSchema, type ImportStatus } from '@tierscope/contracts';
+import { firstValueFrom, interval, type Subscription } from 'rxjs';
+import { describeApiError } from '../../core/http/api-error';
+import { LiveSocket } from '../../core/live/live-socket';
+
+const ENDED = new Set(['done', 'failed', 'cancelled']);
+
+/** One import from queued to its summary: a progress bar with lines per second and time left, then counts and line errors. */
+@Component({
+  selector: 'ts-import-progress',
+  imports: [
+    DatePipe,
+    DecimalPipe,
+    RouterLink,
+    MatButtonModule,
+    MatIconModule,
+    MatProgressBarModule,
+    MatTableModule,
+  ],
+  templateUrl: './import-progress.html',
+  styleUrl: './import-progress.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class ImportProgress {
+  readonly status = input.required<ImportStatus>();
+  readonly finished = output<ImportStatus>();
+
+  private readonly http = inject(HttpClient);
+  private readonly live = inject(LiveSocket);
+  private readonly snackBar = inject(MatSnackBar);
+
+  /** The newest state: the input, then live messages and reads. */
+  protected readonly now = linkedSignal(() => this.status());
+  private firstSeen: { at: number; lines: number; bytes: number } | null = null;
+  protected readonly rate = linkedSignal<{
+    linesPerSecond: number;
+    secondsLeft: number | null;
+  } | null>(() => {
+    const s = this.now();
+    const first = this.firstSeen;
+    if (!first || s.state !== 'running') return null;
+    const seconds = (Date.now() - first.at) / 1000;
+    if (seconds < 0.5) return null;
+    const linesPerSecond = (s.linesRead - first.lines) / seconds;
+    const bytesPerSecond = (s.bytesRead - first.bytes) / seconds;
+    return {
+      linesPerSecond,
+      secondsLeft: bytesPerSecond > 0 ? (s.bytes - s.bytesRead) / bytesPerSecond : null,
+    };
+  });
+  protected readonly percent = computed(() => {
+    const s = this.now();
+    if (s.state === 'done') return 100;
+    return s.bytes > 0 ? Math.min(100, (100 * s.bytesRead) / s.bytes) : 0;
+  });
+  protected readonly isEnded = computed(() => ENDED.has(this.now().state));
+  protected readonly errorColumns = ['line', 'column', 'message'];
+
+  constructor() {
+    const destroyRef = inject(DestroyRef);
+    let liveSubscription: Subscription | null = null;
+    let pollSubscription: Subscription | null = null;
+    const stop = () => {
+      liveSubscription?.unsubscribe();
+      pollSubscription?.unsubscribe();
+      liveSubscription = null;
+      pollSubscription = null;
+    };
+    destroyRef.onDestroy(stop);
+    // Follow the import it was given: live messages of its house, and a slow read in case the socket is down.
+    effect(() => {
+      const given = this.status();
+      untracked(() => {
+        stop();
+        this.firstSeen = null;
+        if (ENDED.has(given.state)) return;
+        liveSubscription = this.live.watchHouse(given.houseId).subscribe((message) => {
+          if (message.type !== 'import' || message.import.id !== given.id) return;
+          this.track({ ...this.now(), ...message.import });
+        });
+        pollSubscription = interval(2000).subscribe(() => {
+          void this.read(given.id);
+        });
+      });
+    });
+    // When it ends: the full status (with its errors), once.
+    effect(() => {
+      const s = this.now();
+      if (!ENDED.has(s.state)) return;
+      untracked(() => {
+        stop();
+        if (s.errors.length === 0 && s.errorCount > 0) void this.read(s.id);
+        else this.finished.emit(s);
+      });
+    });
+  }
+
+  private track(next: ImportStatus): void {
+    if (!this.firstSeen && next.state === 'running') {
+      this.firstSeen = { at: Date.now(), lines: next.linesRead, bytes: next.bytesRead };
+    }
+    this.now.set(next);
+  }
+
+  private async read(id: number): Promise<void> {
+    try {
+      this.track(
+        importStatusSchema.parse(await firstValueFrom(this.http.get(`/api/v1/imports/${id}`))),
+      );
+    } catch {
+      // A missed read is made up by the next one or by a live message.
+    }
+  }
+
+  protected async cancel(): Promise<void> {
+    try {
+      this.track(
+        importStatusSchema.parse(
+          await firstValueFrom(this.http.post(`/api/v1/imports/${this.now().id}/cancel`, {})),
+        ),
+      );
+    } catch (error) {
+      this.snackBar.open(describeApiError(error), 'Dismiss');
+    }
+  }
+
+  protected async downloadErrors(): Promise<void> {
+    try {
+      const blob = await firstValueFrom(
+        this.http.get(`/api/v1/imports/${this.now().id}/errors.csv`, { responseType: 'blob' }),
+      );
+      const url = URL.createObjectURL(blob);
+      const link = document.createElement('a');
+      link.href = url;
+      link.download = `import-${this.now().id}-errors.csv`;
+      link.click();
+      URL.revokeObjectURL(url);
+    } catch (error) {
+      this.snackBar.open(describeApiError(error), 'Dismiss');
+    }
+  }
+
+  protected size(bytes: number): string {
+    return bytes >= 1024 * 1024
+      ? `${(bytes / 1024 / 1024).toFixed(1)} MB`
+      : `${Math.max(1, Math.round(bytes / 1024))} KB`;
+  }
+
+  protected timeLeft(seconds: number | null): string {
+    if (seconds === null || !Number.isFinite(seconds)) return '—';
+    if (seconds < 60) return `${Math.ceil(seconds)} s`;
+    return `${Math.floor(seconds / 60)} min ${Math.ceil(seconds % 60)} s`;
+  }
+}
