@@ -54,8 +54,12 @@ describe('an integrator imports a counter export', () => {
 
     // What was found by itself: the semicolon, the decimal comma, the columns by their names.
     await page.getByText('Found: semicolon').waitFor();
-    await expect.poll(() => page.getByRole('combobox', { name: 'Time column' }).textContent()).toContain('Zeit');
-    await expect.poll(() => page.getByRole('combobox', { name: 'Count column' }).textContent()).toContain('Eier');
+    await expect
+      .poll(() => page.getByRole('combobox', { name: 'Time column' }).textContent())
+      .toContain('Zeit');
+    await expect
+      .poll(() => page.getByRole('combobox', { name: 'Count column' }).textContent())
+      .toContain('Eier');
     // The date order is a choice the file cannot settle alone here: say it is day first.
     await page.getByRole('combobox', { name: 'Time format' }).click();
     await page.getByRole('option', { name: /Day first/ }).click();
