@@ -11,3 +11,4 @@ export * from './mail.schema';
 export * from './work-order.schema';
 export * from './notification.schema';
 export * from './import.schema';
+export * from './flock.schema';

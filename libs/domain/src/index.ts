@@ -9,3 +9,4 @@ export * from './shortfall';
 export * from './work-orders';
 export * from './csv';
 export * from './csv-import';
+export * from './flock';
