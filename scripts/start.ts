@@ -19,6 +19,7 @@ import {
   seedDemo,
 } from '@tierscope/db/seed';
 import { startMailCatcher, type MailCatcher } from '@tierscope/mail-catcher';
+import { writeDemoHistory } from './demo-history';
 import { prepareSimulatorFarms } from './demo-simulator';
 import { recreateDatabase, startCluster } from './postgres';
 import { API_NODE_ARGS, waitForHealth } from './processes';
@@ -110,6 +111,12 @@ async function main(): Promise<void> {
   }
   const flocks = await demoFlocks(database.db);
   const isHistoryMissing = !(await hasReadings(database.db));
+  if (isHistoryMissing) {
+    // Older days as daily totals; the simulator backfills the last 14 days reading by reading.
+    const lastDay = new Date(Date.now() - 15 * 86_400_000).toISOString().slice(0, 10);
+    const days = await writeDemoHistory(database.db, lastDay);
+    log(`demo history: ${days} house-days of daily totals and morning walks up to ${lastDay}`);
+  }
   await database.close();
 
   if (!process.argv.includes('--skip-build')) {

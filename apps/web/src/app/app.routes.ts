@@ -49,6 +49,16 @@ export const routes: Routes = [
           import('./features/exceptions/exceptions-page').then((m) => m.ExceptionsPage),
       },
       {
+        path: 'houses/:houseId/flock',
+        title: 'Flock · Tierscope',
+        providers: [
+          provideEchartsCore({
+            echarts: () => import('./features/house-live/echarts-setup').then((m) => m.echarts),
+          }),
+        ],
+        loadComponent: () => import('./features/flock/flock-page').then((m) => m.FlockPage),
+      },
+      {
         path: 'houses/:houseId/settings',
         title: 'House settings · Tierscope',
         canActivate: [permissionGuard('house.update')],

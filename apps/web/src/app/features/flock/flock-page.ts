@@ -1,0 +1,241 @@
+import { DecimalPipe } from '@angular/common';
+import { HttpClient, httpResource } from '@angular/common/http';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  inject,
+  input,
+  linkedSignal,
+  numberAttribute,
+  signal,
+} from '@angular/core';
+import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { MatTableModule } from '@angular/material/table';
+import { RouterLink } from '@angular/router';
+import {
+  flockCreateSchema,
+  flockProductionSchema,
+  flockSchema,
+  houseSchema,
+  mortalityEntrySchema,
+  type FlockProduction,
+} from '@tierscope/contracts';
+import type { EChartsCoreOption } from 'echarts/core';
+import { NgxEchartsDirective } from 'ngx-echarts';
+import { firstValueFrom } from 'rxjs';
+import { z } from 'zod';
+import { AuthStore } from '../../core/auth/auth-store';
+import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
+import { LoadState } from '../../shared/ui/load-state';
+import { firstError, zodValidator } from '../../shared/ui/zod-validator';
+
+/** The day's date on this device, YYYY-MM-DD (the morning walk is entered on the day). */
+function localToday(): string {
+  const now = new Date();
+  return `${now.getFullYear()}-${String(now.getMonth() + 1).padStart(2, '0')}-${String(now.getDate()).padStart(2, '0')}`;
+}
+
+/** A house's flock: placement, the morning walk, hen-day production by week of age against its fitted curve. */
+@Component({
+  selector: 'ts-flock-page',
+  imports: [
+    DecimalPipe,
+    RouterLink,
+    ReactiveFormsModule,
+    NgxEchartsDirective,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatSelectModule,
+    MatTableModule,
+    LoadState,
+  ],
+  templateUrl: './flock-page.html',
+  styleUrl: './flock-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class FlockPage {
+  readonly houseId = input.required({ transform: numberAttribute });
+
+  private readonly http = inject(HttpClient);
+  private readonly auth = inject(AuthStore);
+  private readonly snackBar = inject(MatSnackBar);
+  private readonly fb = inject(NonNullableFormBuilder);
+
+  protected readonly house = httpResource(() => `/api/v1/houses/${this.houseId()}`, {
+    parse: (v) => houseSchema.parse(v),
+  });
+  protected readonly flocks = httpResource(() => `/api/v1/houses/${this.houseId()}/flocks`, {
+    parse: (v) => z.array(flockSchema).parse(v),
+  });
+  protected readonly flockId = linkedSignal(() => this.flocks.value()?.[0]?.id ?? null);
+  protected readonly production = httpResource(
+    () => {
+      const id = this.flockId();
+      return id === null ? undefined : `/api/v1/flocks/${id}/production`;
+    },
+    { parse: (v) => flockProductionSchema.parse(v) },
+  );
+  protected readonly canManage = computed(() => {
+    const farmId = this.house.value()?.farmId;
+    return farmId !== undefined && this.auth.hasPermission('flock.manage', farmId);
+  });
+  protected readonly hasActiveFlock = computed(() =>
+    (this.flocks.value() ?? []).some((f) => f.endedOn === null),
+  );
+  protected readonly state = computed(() => {
+    if (this.flocks.error() || this.production.error()) return 'error';
+    if (!this.flocks.hasValue()) return 'loading';
+    if ((this.flocks.value() ?? []).length === 0) return 'empty';
+    return this.production.hasValue() ? 'ready' : 'loading';
+  });
+  protected readonly errorText = computed(() =>
+    describeApiError(this.flocks.error() ?? this.production.error()),
+  );
+  protected readonly recentDays = computed(() =>
+    [...(this.production.value()?.days ?? [])].reverse().slice(0, 14),
+  );
+  protected readonly layChart = computed(() => {
+    const p = this.production.value();
+    return p ? layChart(p) : null;
+  });
+  protected readonly mortalityChart = computed(() => {
+    const p = this.production.value();
+    return p ? mortalityChart(p) : null;
+  });
+  protected readonly dayColumns = ['day', 'age', 'eggs', 'hens', 'hdp', 'dead', 'culled'];
+  protected readonly firstError = firstError;
+
+  protected readonly placement = this.fb.group({
+    placedOn: [localToday(), zodValidator(flockCreateSchema.shape.placedOn)],
+    hensHoused: [0, zodValidator(flockCreateSchema.shape.hensHoused)],
+    ageAtPlacementWeeks: [17, zodValidator(flockCreateSchema.shape.ageAtPlacementWeeks)],
+    breed: [''],
+  });
+  protected readonly walk = this.fb.group({
+    day: [localToday()],
+    dead: [0, zodValidator(mortalityEntrySchema.shape.dead)],
+    culled: [0, zodValidator(mortalityEntrySchema.shape.culled)],
+  });
+  protected readonly endOn = signal(localToday());
+  protected readonly isSaving = signal(false);
+
+  private async act(work: () => Promise<unknown>, done: string): Promise<boolean> {
+    this.isSaving.set(true);
+    try {
+      await work();
+      this.snackBar.open(done, undefined, { duration: 2500 });
+      this.flocks.reload();
+      this.production.reload();
+      return true;
+    } catch (error) {
+      const fields = Object.entries(fieldErrorsOf(error)).map(([p, m]) => `${p}: ${m}`);
+      this.snackBar.open([describeApiError(error), ...fields].join(' — '), 'Dismiss');
+      return false;
+    } finally {
+      this.isSaving.set(false);
+    }
+  }
+
+  protected async place(): Promise<void> {
+    if (this.placement.invalid) {
+      this.placement.markAllAsTouched();
+      return;
+    }
+    await this.act(
+      () =>
+        firstValueFrom(
+          this.http.post(`/api/v1/houses/${this.houseId()}/flocks`, this.placement.getRawValue()),
+        ),
+      'Flock placed',
+    );
+  }
+
+  protected async recordWalk(): Promise<void> {
+    const id = this.flockId();
+    if (id === null || this.walk.invalid) {
+      this.walk.markAllAsTouched();
+      return;
+    }
+    const { day, dead, culled } = this.walk.getRawValue();
+    const isSaved = await this.act(
+      () =>
+        firstValueFrom(this.http.put(`/api/v1/flocks/${id}/mortality/${day}`, { dead, culled })),
+      `Saved for ${day}: ${dead} dead, ${culled} culled`,
+    );
+    if (isSaved) this.walk.patchValue({ dead: 0, culled: 0 });
+  }
+
+  protected async endFlock(): Promise<void> {
+    const id = this.flockId();
+    if (id === null) return;
+    await this.act(
+      () => firstValueFrom(this.http.patch(`/api/v1/flocks/${id}`, { endedOn: this.endOn() })),
+      'Flock ended',
+    );
+  }
+}
+
+const TEAL = '#22565a';
+const STRAW = '#c8a24a';
+
+/** Hen-day % by week of age, with the fitted curve when there is one. */
+export function layChart(p: FlockProduction): EChartsCoreOption {
+  const weeks = p.weeks.filter((w) => w.days > 0);
+  return {
+    textStyle: { fontFamily: 'IBM Plex Sans' },
+    tooltip: { trigger: 'axis' },
+    legend: { bottom: 0 },
+    grid: { left: 8, right: 16, top: 16, bottom: 40, containLabel: true },
+    xAxis: { type: 'category', name: 'week of age', data: weeks.map((w) => w.ageWeeks) },
+    yAxis: { type: 'value', name: 'hen-day %', min: 0, max: 100 },
+    series: [
+      {
+        name: 'Hen-day %',
+        type: 'bar',
+        itemStyle: { color: TEAL },
+        data: weeks.map((w) => w.henDayPct),
+      },
+      ...(p.fit
+        ? [
+            {
+              name: `Fitted curve (R² ${p.fit.r2?.toFixed(2) ?? '—'})`,
+              type: 'line',
+              smooth: true,
+              symbol: 'none',
+              lineStyle: { color: STRAW, width: 3, type: p.fit.isGoodEnough ? 'solid' : 'dashed' },
+              itemStyle: { color: STRAW },
+              data: weeks.map((w) => w.fittedPct),
+            },
+          ]
+        : []),
+    ],
+  };
+}
+
+/** Losses (dead and culled) as % of the week's starting hens, by week of age. */
+export function mortalityChart(p: FlockProduction): EChartsCoreOption {
+  return {
+    textStyle: { fontFamily: 'IBM Plex Sans' },
+    tooltip: { trigger: 'axis' },
+    grid: { left: 8, right: 16, top: 16, bottom: 24, containLabel: true },
+    xAxis: { type: 'category', name: 'week of age', data: p.weeks.map((w) => w.ageWeeks) },
+    yAxis: { type: 'value', name: 'losses %' },
+    series: [
+      {
+        name: 'Dead and culled, % of hens',
+        type: 'bar',
+        itemStyle: { color: '#8a4b00' },
+        data: p.weeks.map((w) => w.mortalityPct),
+      },
+    ],
+  };
+}

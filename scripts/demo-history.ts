@@ -1,0 +1,80 @@
+/**
+ * The demo's older history, invented like the rest of the demo: daily eggs per section and per collector
+ * from each flock's placement until the simulator's backfill takes over, and a morning walk's dead and
+ * culled hens for every day. Written as day rollups (the live readings of those days are not needed by any
+ * screen), so the flock page shows a whole lay curve and the reports have months to look back on.
+ */
+import { schema, type Database } from '@tierscope/db';
+import { addDays } from '@tierscope/domain';
+import { sql } from 'drizzle-orm';
+import { layRate } from '../simulator/src/lay-model';
+
+/** A repeatable number in [0, 1) for a key (FNV-1a), so the demo is the same on every machine. */
+function unit(key: string): number {
+  let h = 0x811c9dc5;
+  for (let i = 0; i < key.length; i++) {
+    h ^= key.charCodeAt(i);
+    h = Math.imul(h, 0x01000193);
+  }
+  return (h >>> 0) / 0x100000000;
+}
+
+export async function writeDemoHistory(db: Database, lastDay: string): Promise<number> {
+  const flocks = await db.select().from(schema.flocks);
+  let days = 0;
+  for (const flock of flocks) {
+    const [house] = await db
+      .select()
+      .from(schema.houses)
+      .where(sql`id = ${flock.houseId}`);
+    if (!house) continue;
+    const sections = await db
+      .select()
+      .from(schema.sections)
+      .where(sql`house_id = ${house.id}`)
+      .orderBy(schema.sections.row, schema.sections.tier);
+    const sectionRows: (typeof schema.sectionDayRollups.$inferInsert)[] = [];
+    const collectorRows: (typeof schema.collectorDayRollups.$inferInsert)[] = [];
+    const lossRows: (typeof schema.mortality.$inferInsert)[] = [];
+    let hens = flock.hensHoused;
+    for (let day = flock.placedOn; day <= lastDay; day = addDays(day, 1)) {
+      const age =
+        flock.ageAtPlacementWeeks +
+        (Date.parse(`${day}T00:00:00Z`) - Date.parse(`${flock.placedOn}T00:00:00Z`)) / 604_800_000;
+      const dayNoise = 1 + (unit(`${house.id}:${day}`) - 0.5) * 0.03;
+      const houseEggs = hens * layRate(age) * dayNoise;
+      let belts = 0;
+      for (const s of sections) {
+        // Upper tiers take a little more of the nesting, end rows a little less: how aviaries differ.
+        const share = (1 + (s.tier - 2) * 0.04 - (s.row === 1 ? 0.03 : 0)) / sections.length;
+        const eggs = Math.round(houseEggs * share * (1 + (unit(`${s.id}:${day}`) - 0.5) * 0.02));
+        belts += eggs;
+        sectionRows.push({ farmId: house.farmId, sectionId: s.id, day, eggs });
+      }
+      collectorRows.push({
+        farmId: house.farmId,
+        houseId: house.id,
+        day,
+        eggs: Math.round(belts * 0.997),
+      });
+      // About 0.05 % of hens a week, more in the first weeks after moving in.
+      const weekly = age - flock.ageAtPlacementWeeks < 3 ? 0.002 : 0.0005;
+      const dead = Math.floor((hens * weekly) / 7 + unit(`dead:${house.id}:${day}`) * 2);
+      const culled = unit(`cull:${house.id}:${day}`) < 0.15 ? 1 : 0;
+      lossRows.push({ flockId: flock.id, date: day, dead, culled });
+      hens -= dead + culled;
+      days += 1;
+    }
+    for (let i = 0; i < sectionRows.length; i += 5000) {
+      await db
+        .insert(schema.sectionDayRollups)
+        .values(sectionRows.slice(i, i + 5000))
+        .onConflictDoNothing();
+    }
+    if (collectorRows.length > 0)
+      await db.insert(schema.collectorDayRollups).values(collectorRows).onConflictDoNothing();
+    if (lossRows.length > 0)
+      await db.insert(schema.mortality).values(lossRows).onConflictDoNothing();
+  }
+  return days;
+}
