@@ -315,6 +315,40 @@ const ownFarmRoutes: { name: string; call: () => Promise<Call>; allowed: Record<
       allowed: { admin: 200, manager: 403, crew: 403, integrator: 200 },
     },
     {
+      name: 'GET /houses/:id/flocks',
+      call: async () => (b) =>
+        request(app).get(`/api/v1/houses/${fixture.houseA}/flocks`).set('Authorization', b),
+      allowed: { admin: 200, manager: 200, crew: 200, integrator: 200 },
+    },
+    {
+      name: 'POST /houses/:id/flocks',
+      call: async () => {
+        const houseId = await spareHouse(fixture.farmA);
+        return (b) =>
+          request(app)
+            .post(`/api/v1/houses/${houseId}/flocks`)
+            .set('Authorization', b)
+            .send({ placedOn: '2026-10-01', hensHoused: 100, ageAtPlacementWeeks: 17 });
+      },
+      allowed: { admin: 201, manager: 201, crew: 403, integrator: 403 },
+    },
+    {
+      name: 'GET /reports/daily',
+      call: async () => (b) =>
+        request(app)
+          .get(`/api/v1/reports/daily?houseId=${fixture.houseA}&day=2026-11-01`)
+          .set('Authorization', b),
+      allowed: { admin: 200, manager: 200, crew: 200, integrator: 200 },
+    },
+    {
+      name: 'GET /reports/farm',
+      call: async () => (b) =>
+        request(app)
+          .get(`/api/v1/reports/farm?farmId=${fixture.farmA}&from=2026-11-01&to=2026-11-07`)
+          .set('Authorization', b),
+      allowed: { admin: 200, manager: 200, crew: 200, integrator: 200 },
+    },
+    {
       name: 'GET /dev/mailbox (no catcher configured)',
       call: async () => (b) => request(app).get('/api/v1/dev/mailbox').set('Authorization', b),
       allowed: { admin: 404, manager: 403, crew: 403, integrator: 403 },
@@ -468,6 +502,31 @@ describe('on a farm they do not belong to', () => {
       name: 'GET /farms/:id/import-mappings',
       call: async () => (b) =>
         request(app).get(`/api/v1/farms/${fixture.farmB}/import-mappings`).set('Authorization', b),
+    },
+    {
+      name: 'POST /houses/:id/flocks',
+      call: async () => {
+        const houseId = await spareHouse(fixture.farmB);
+        return (b) =>
+          request(app)
+            .post(`/api/v1/houses/${houseId}/flocks`)
+            .set('Authorization', b)
+            .send({ placedOn: '2026-10-01', hensHoused: 100, ageAtPlacementWeeks: 17 });
+      },
+    },
+    {
+      name: 'GET /reports/daily',
+      call: async () => (b) =>
+        request(app)
+          .get(`/api/v1/reports/daily?houseId=${fixture.houseB}&day=2026-11-01`)
+          .set('Authorization', b),
+    },
+    {
+      name: 'GET /reports/farm',
+      call: async () => (b) =>
+        request(app)
+          .get(`/api/v1/reports/farm?farmId=${fixture.farmB}&from=2026-11-01&to=2026-11-07`)
+          .set('Authorization', b),
     },
   ];
   for (const route of otherFarmRoutes) {

@@ -42,6 +42,8 @@ import { workOrdersRoutes } from './features/work-orders/work-orders.routes';
 import { createWorkOrdersService } from './features/work-orders/work-orders.service';
 import { ImportRunner } from './features/imports/import-runner';
 import { flocksRoutes } from './features/flocks/flocks.routes';
+import { reportsRoutes } from './features/reports/reports.routes';
+import { createReportsService } from './features/reports/reports.service';
 import { createFlocksService } from './features/flocks/flocks.service';
 import { importsRoutes } from './features/imports/imports.routes';
 import { createImportsService } from './features/imports/imports.service';
@@ -176,6 +178,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
   );
   v1.use(notificationsRoutes(db, config.mailCatcherUrl));
   v1.use(flocksRoutes(createFlocksService(db)));
+  v1.use(reportsRoutes(createReportsService(db, runtime.evaluation)));
   v1.use(
     importsRoutes(createImportsService(db, runtime.imports), {
       importsDir: join(config.dataDir, 'imports'),

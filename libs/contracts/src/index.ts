@@ -12,3 +12,4 @@ export * from './work-order.schema';
 export * from './notification.schema';
 export * from './import.schema';
 export * from './flock.schema';
+export * from './report.schema';

@@ -37,6 +37,13 @@ import {
   importStatusSchema,
   savedMappingCreateSchema,
   savedMappingSchema,
+  dailyReportSchema,
+  farmSummarySchema,
+  flockCreateSchema,
+  flockProductionSchema,
+  flockSchema,
+  flockUpdateSchema,
+  mortalityEntrySchema,
 } from '@tierscope/contracts';
 import { z } from 'zod';
 
@@ -377,6 +384,60 @@ export function buildOpenApiDocument(version: string) {
       path: '/api/v1/import-mappings/{mappingId}',
       summary: 'Delete a saved mapping',
       responses: { 204: { description: 'Deleted' }, ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/houses/{houseId}/flocks',
+      summary: "A house's flocks, newest first",
+      responses: { 200: ok(z.array(flockSchema)), ...errors },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/houses/{houseId}/flocks',
+      summary: 'Place a flock (managers and admins; one flock in a house at a time)',
+      body: flockCreateSchema,
+      responses: { 201: ok(flockSchema, 'Placed'), ...errors, 409: error('The house has a flock') },
+    },
+    {
+      method: 'patch',
+      path: '/api/v1/flocks/{flockId}',
+      summary: 'Correct a flock or end it (endedOn)',
+      body: flockUpdateSchema,
+      responses: { 200: ok(flockSchema), ...errors },
+    },
+    {
+      method: 'put',
+      path: '/api/v1/flocks/{flockId}/mortality/{day}',
+      summary: "The morning walk: a day's dead and culled hens (replaces that day's entry)",
+      body: mortalityEntrySchema,
+      responses: { 200: ok(flockSchema), ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/flocks/{flockId}/production',
+      summary:
+        'Hen-day production by day and by week of age, hen-housed production, eggs per hen housed, mortality, livability and the fitted lay curve',
+      responses: { 200: ok(flockProductionSchema), ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/reports/daily',
+      summary:
+        "One production day of a house: each section's eggs against expected, totals, hen-day, collector gap. Query: houseId, day",
+      responses: { 200: ok(dailyReportSchema), ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/reports/daily.csv',
+      summary: 'The daily house report as CSV',
+      responses: { 200: { description: 'text/csv' }, ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/reports/farm',
+      summary:
+        'Farm summary across houses for a date range, with eggs lost to exceptions. Query: farmId, from, to',
+      responses: { 200: ok(farmSummarySchema), ...errors },
     },
   ];
   const jsonSchema = (schema: z.ZodType, io: 'input' | 'output') =>
