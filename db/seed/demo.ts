@@ -76,6 +76,8 @@ export async function seedDemo(
           lightsOn: '04:00',
           photoperiodHours: 16,
           shortfallThresholdPct: 10,
+          // An invented price, so eggs lost to exceptions carry a money figure in the demo.
+          eggPricePerDozen: 2.4,
         });
         // Flocks of different ages, so the farm shows young, peak and older lay.
         const ageWeeks = 18;

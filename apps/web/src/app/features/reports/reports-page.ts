@@ -1,112 +1,42 @@
-import { DecimalPipe } from '@angular/common';
-import { httpResource } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
   Component,
   computed,
-  inject,
-  linkedSignal,
-  signal,
+  input,
+  numberAttribute,
 } from '@angular/core';
-import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatInputModule } from '@angular/material/input';
-import { MatSelectModule } from '@angular/material/select';
-import { MatTableModule } from '@angular/material/table';
-import { workOrderReportSchema, type WorkOrderReport } from '@tierscope/contracts';
-import { can, FINDING_CAUSE_LABELS, FINDING_CAUSES } from '@tierscope/domain';
-import type { EChartsCoreOption } from 'echarts/core';
-import { NgxEchartsDirective } from 'ngx-echarts';
-import { AuthStore } from '../../core/auth/auth-store';
-import { describeApiError } from '../../core/http/api-error';
-import { LoadState } from '../../shared/ui/load-state';
+import { MatTabsModule } from '@angular/material/tabs';
+import { DailyReportView } from './daily-report';
+import { FarmSummaryView } from './farm-summary';
+import { WorkOrderReportView } from './work-order-report';
 
-/** Colour-blind-safe categorical colours (Okabe & Ito, "Color Universal Design", 2002), one per cause. */
-const CAUSE_COLOURS = [
-  '#E69F00',
-  '#56B4E9',
-  '#009E73',
-  '#F0E442',
-  '#0072B2',
-  '#D55E00',
-  '#CC79A7',
-  '#7f7f7f',
-];
-
-/** The manager's reports: how fast flagged spots get fixed, and what the causes were, per house. */
+/** The manager's reports: a house's day, the farm over a range, and how work orders went. */
 @Component({
   selector: 'ts-reports-page',
-  imports: [
-    DecimalPipe,
-    NgxEchartsDirective,
-    MatFormFieldModule,
-    MatInputModule,
-    MatSelectModule,
-    MatTableModule,
-    LoadState,
-  ],
-  templateUrl: './reports-page.html',
-  styleUrl: './reports-page.scss',
+  imports: [MatTabsModule, DailyReportView, FarmSummaryView, WorkOrderReportView],
+  template: `
+    <div class="ts-page">
+      <h1 class="ts-page-title no-print">Reports</h1>
+      <mat-tab-group [selectedIndex]="0" animationDuration="0ms" mat-stretch-tabs="false">
+        <mat-tab label="Daily house report">
+          <ts-daily-report [initialHouseId]="house()" />
+        </mat-tab>
+        <mat-tab label="Farm summary">
+          <ng-template matTabContent><ts-farm-summary /></ng-template>
+        </mat-tab>
+        <mat-tab label="Work orders">
+          <ng-template matTabContent><ts-work-order-report /></ng-template>
+        </mat-tab>
+      </mat-tab-group>
+    </div>
+  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ReportsPage {
-  private readonly auth = inject(AuthStore);
-  protected readonly farms = computed(() =>
-    this.auth.memberships().filter((m) => can(m.role, 'workOrders.manage')),
-  );
-  protected readonly farmId = linkedSignal(() => this.farms()[0]?.farmId ?? null);
-  protected readonly to = signal(new Date().toISOString().slice(0, 10));
-  protected readonly from = signal(
-    new Date(Date.now() - 29 * 86_400_000).toISOString().slice(0, 10),
-  );
-
-  protected readonly report = httpResource(
-    () => {
-      const farm = this.farmId();
-      if (farm === null || !this.from() || !this.to()) return undefined;
-      return `/api/v1/reports/work-orders?farmId=${farm}&from=${this.from()}&to=${this.to()}`;
-    },
-    { parse: (v) => workOrderReportSchema.parse(v) },
-  );
-  protected readonly state = computed(() => {
-    if (this.report.error()) return 'error';
-    if (!this.report.hasValue()) return 'loading';
-    return this.report.value().houses.length === 0 ? 'empty' : 'ready';
+  /** ?houseId= from a house page: the daily report opens on it */
+  readonly houseId = input<number | undefined, unknown>(undefined, { transform: numberAttribute });
+  protected readonly house = computed(() => {
+    const id = this.houseId();
+    return id !== undefined && Number.isInteger(id) ? id : null;
   });
-  protected readonly errorText = computed(() => describeApiError(this.report.error()));
-  protected readonly columns = ['house', 'done', 'fromExceptions', 'median', 'max', 'topCause'];
-  protected readonly chart = computed(() => {
-    const report = this.report.value();
-    return report ? causeChart(report) : null;
-  });
-
-  protected topCause(byCause: WorkOrderReport['houses'][number]['byCause']): string {
-    const [cause, count] = Object.entries(byCause).sort((a, b) => b[1] - a[1])[0] ?? ['', 0];
-    return count > 0
-      ? `${FINDING_CAUSE_LABELS[cause as keyof typeof FINDING_CAUSE_LABELS]} (${count})`
-      : '—';
-  }
-}
-
-/** Findings by cause per house as stacked horizontal bars. */
-export function causeChart(report: WorkOrderReport): EChartsCoreOption {
-  const houses = report.houses.map((h) => h.houseName);
-  return {
-    color: CAUSE_COLOURS,
-    textStyle: { fontFamily: 'IBM Plex Sans' },
-    tooltip: { trigger: 'axis', axisPointer: { type: 'shadow' } },
-    legend: { bottom: 0 },
-    grid: { left: 8, right: 16, top: 8, bottom: 48, containLabel: true },
-    xAxis: { type: 'value', minInterval: 1, name: 'work orders done' },
-    yAxis: { type: 'category', data: houses },
-    series: FINDING_CAUSES.map((cause) => ({
-      name: FINDING_CAUSE_LABELS[cause],
-      type: 'bar',
-      stack: 'causes',
-      label: {
-        show: true,
-        formatter: (p: { value: number }) => (p.value > 0 ? String(p.value) : ''),
-      },
-      data: report.houses.map((h) => h.byCause[cause]),
-    })),
-  };
 }

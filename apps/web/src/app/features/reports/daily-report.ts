@@ -1,0 +1,151 @@
+import { DecimalPipe } from '@angular/common';
+import { HttpClient, httpResource } from '@angular/common/http';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  effect,
+  inject,
+  input,
+  linkedSignal,
+  viewChild,
+} from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatPaginator, MatPaginatorModule } from '@angular/material/paginator';
+import { MatSelectModule } from '@angular/material/select';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { MatSort, MatSortModule } from '@angular/material/sort';
+import { MatTableDataSource, MatTableModule } from '@angular/material/table';
+import { RouterLink } from '@angular/router';
+import { dailyReportSchema, houseSchema, type DailyReport } from '@tierscope/contracts';
+import { firstValueFrom } from 'rxjs';
+import { z } from 'zod';
+import { AuthStore } from '../../core/auth/auth-store';
+import { describeApiError } from '../../core/http/api-error';
+import { LoadState } from '../../shared/ui/load-state';
+
+type SectionLine = DailyReport['sections'][number];
+
+/** Yesterday on this device's calendar: the last complete production day, near enough to start from. */
+function yesterday(): string {
+  const d = new Date(Date.now() - 86_400_000);
+  return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
+}
+
+const KIND_WORDS: Record<string, string> = {
+  shortfall: 'Shortfall',
+  silent_counter: 'Silent counter',
+  collector_gap: 'Collector gap',
+  house_dip: 'House dip',
+};
+
+/** One production day of a house, section by section: sortable, paged, exportable and printable. */
+@Component({
+  selector: 'ts-daily-report',
+  imports: [
+    DecimalPipe,
+    RouterLink,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatPaginatorModule,
+    MatSelectModule,
+    MatSortModule,
+    MatTableModule,
+    LoadState,
+  ],
+  templateUrl: './daily-report.html',
+  styleUrl: './reports-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class DailyReportView {
+  /** a house to open with (from ?houseId=) */
+  readonly initialHouseId = input<number | null>(null);
+
+  private readonly auth = inject(AuthStore);
+  private readonly http = inject(HttpClient);
+  private readonly snackBar = inject(MatSnackBar);
+
+  protected readonly farms = this.auth.memberships;
+  protected readonly farmId = linkedSignal(() => this.farms()[0]?.farmId ?? null);
+  protected readonly houses = httpResource(
+    () => {
+      const farm = this.farmId();
+      return farm === null ? undefined : `/api/v1/farms/${farm}/houses`;
+    },
+    { parse: (v) => z.array(houseSchema).parse(v) },
+  );
+  protected readonly houseId = linkedSignal<number | null>(() => {
+    const wanted = this.initialHouseId();
+    const list = this.houses.value() ?? [];
+    return list.find((h) => h.id === wanted)?.id ?? list[0]?.id ?? null;
+  });
+  protected readonly day = linkedSignal(() => yesterday());
+  protected readonly report = httpResource(
+    () => {
+      const house = this.houseId();
+      return house === null
+        ? undefined
+        : `/api/v1/reports/daily?houseId=${house}&day=${this.day()}`;
+    },
+    { parse: (v) => dailyReportSchema.parse(v) },
+  );
+  protected readonly state = computed(() => {
+    if (this.report.error()) return 'error';
+    if (!this.report.hasValue()) return 'loading';
+    return this.report.value().totals.belts === 0 ? 'empty' : 'ready';
+  });
+  protected readonly errorText = computed(() => describeApiError(this.report.error()));
+  protected readonly columns = ['row', 'tier', 'eggs', 'expected', 'ratio', 'exception'];
+  protected readonly table = new MatTableDataSource<SectionLine>([]);
+  private readonly sort = viewChild(MatSort);
+  private readonly paginator = viewChild(MatPaginator);
+
+  constructor() {
+    this.table.sortingDataAccessor = (line, column) => {
+      const value = line[column as keyof SectionLine];
+      return typeof value === 'number' ? value : typeof value === 'string' ? value : -1;
+    };
+    effect(() => {
+      this.table.data = this.report.value()?.sections ?? [];
+    });
+    effect(() => {
+      const sort = this.sort();
+      const paginator = this.paginator();
+      if (sort) this.table.sort = sort;
+      if (paginator) this.table.paginator = paginator;
+    });
+  }
+
+  protected kindWords(kind: string | null): string {
+    return kind ? (KIND_WORDS[kind] ?? kind) : '';
+  }
+
+  protected print(): void {
+    window.print();
+  }
+
+  protected async exportCsv(): Promise<void> {
+    const house = this.houseId();
+    if (house === null) return;
+    try {
+      const blob = await firstValueFrom(
+        this.http.get(`/api/v1/reports/daily.csv?houseId=${house}&day=${this.day()}`, {
+          responseType: 'blob',
+        }),
+      );
+      const url = URL.createObjectURL(blob);
+      const link = document.createElement('a');
+      link.href = url;
+      link.download = `daily-report-${this.day()}.csv`;
+      link.click();
+      URL.revokeObjectURL(url);
+    } catch (error) {
+      this.snackBar.open(describeApiError(error), 'Dismiss');
+    }
+  }
+}

@@ -1,0 +1,109 @@
+import { DecimalPipe } from '@angular/common';
+import { httpResource } from '@angular/common/http';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  inject,
+  linkedSignal,
+  signal,
+} from '@angular/core';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { MatTableModule } from '@angular/material/table';
+import { farmSummarySchema, type FarmSummary } from '@tierscope/contracts';
+import type { EChartsCoreOption } from 'echarts/core';
+import { NgxEchartsDirective } from 'ngx-echarts';
+import { AuthStore } from '../../core/auth/auth-store';
+import { describeApiError } from '../../core/http/api-error';
+import { LoadState } from '../../shared/ui/load-state';
+
+const dayOf = (msAgo: number) => {
+  const d = new Date(Date.now() - msAgo);
+  return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
+};
+
+/** Okabe & Ito's colour-blind-safe palette ("Color Universal Design", 2002), one colour per house. */
+const HOUSE_COLOURS = [
+  '#0072B2',
+  '#E69F00',
+  '#009E73',
+  '#CC79A7',
+  '#56B4E9',
+  '#D55E00',
+  '#F0E442',
+  '#000000',
+];
+
+/** Every house of a farm over a date range: eggs, hen-day, exceptions and what they cost. */
+@Component({
+  selector: 'ts-farm-summary',
+  imports: [
+    DecimalPipe,
+    NgxEchartsDirective,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatTableModule,
+    LoadState,
+  ],
+  templateUrl: './farm-summary.html',
+  styleUrl: './reports-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class FarmSummaryView {
+  private readonly auth = inject(AuthStore);
+  protected readonly farms = this.auth.memberships;
+  protected readonly farmId = linkedSignal(() => this.farms()[0]?.farmId ?? null);
+  protected readonly from = signal(dayOf(14 * 86_400_000));
+  protected readonly to = signal(dayOf(86_400_000));
+  protected readonly summary = httpResource(
+    () => {
+      const farm = this.farmId();
+      return farm === null
+        ? undefined
+        : `/api/v1/reports/farm?farmId=${farm}&from=${this.from()}&to=${this.to()}`;
+    },
+    { parse: (v) => farmSummarySchema.parse(v) },
+  );
+  protected readonly state = computed(() => {
+    if (this.summary.error()) return 'error';
+    if (!this.summary.hasValue()) return 'loading';
+    return this.summary.value().houses.length === 0 ? 'empty' : 'ready';
+  });
+  protected readonly errorText = computed(() => describeApiError(this.summary.error()));
+  protected readonly columns = [
+    'house',
+    'eggs',
+    'henDay',
+    'collector',
+    'exceptions',
+    'lost',
+    'value',
+  ];
+  protected readonly chart = computed(() => {
+    const s = this.summary.value();
+    return s ? eggsChart(s) : null;
+  });
+}
+
+/** Eggs per production day, one line per house. */
+export function eggsChart(s: FarmSummary): EChartsCoreOption {
+  const days = s.houses[0]?.days.map((d) => d.day) ?? [];
+  return {
+    color: HOUSE_COLOURS,
+    textStyle: { fontFamily: 'IBM Plex Sans' },
+    tooltip: { trigger: 'axis' },
+    legend: { bottom: 0 },
+    grid: { left: 8, right: 16, top: 16, bottom: 40, containLabel: true },
+    xAxis: { type: 'category', data: days },
+    yAxis: { type: 'value', name: 'eggs' },
+    series: s.houses.map((h) => ({
+      name: h.houseName,
+      type: 'line',
+      symbolSize: 4,
+      data: h.days.map((d) => d.eggs),
+    })),
+  };
+}
