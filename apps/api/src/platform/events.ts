@@ -11,6 +11,8 @@ export interface DomainEvents {
     eggsAdded: number;
     firstTs: Date;
     lastTs: Date;
+    /** a historical import: replay all of its days, not only the last two months */
+    isImport?: boolean;
   };
   /** The shortfall engine evaluated a house; `changed` lists exceptions opened, updated or closed. */
   'house.evaluated': {

@@ -8,8 +8,10 @@ import type { Database } from '@tierscope/db';
 export const EVALUATION_INTERVAL_MS = 2000;
 /** Quiet time after past-day readings before their days are evaluated (imports send many batches). */
 export const HISTORY_QUIET_MS = 3000;
-/** The longest history one pass re-evaluates. */
+/** The longest history one pass re-evaluates after live readings for past days. */
 export const MAX_HISTORY_DAYS = 62;
+/** The longest history one pass re-evaluates after a historical import (a background job of minutes). */
+export const MAX_IMPORT_HISTORY_DAYS = 400;
 
 /**
  * Evaluates a house after readings touched it — at once if it has been quiet, then at most every two
@@ -22,7 +24,7 @@ export class EvaluationScheduler {
   private readonly running = new Map<number, Promise<void>>();
   private readonly history = new Map<
     number,
-    { firstTs: Date; timer: ReturnType<typeof setTimeout> }
+    { firstTs: Date; maxDays: number; timer: ReturnType<typeof setTimeout> }
   >();
   private readonly stop: () => void;
 
@@ -35,7 +37,11 @@ export class EvaluationScheduler {
   ) {
     this.stop = events.on('readings.accepted', (e) => {
       this.schedule(e.houseId);
-      this.scheduleHistory(e.houseId, e.firstTs);
+      this.scheduleHistory(
+        e.houseId,
+        e.firstTs,
+        e.isImport ? MAX_IMPORT_HISTORY_DAYS : MAX_HISTORY_DAYS,
+      );
     });
   }
 
@@ -66,12 +72,13 @@ export class EvaluationScheduler {
     this.running.delete(houseId);
   }
 
-  private scheduleHistory(houseId: number, firstTs: Date): void {
+  private scheduleHistory(houseId: number, firstTs: Date, maxDays: number): void {
     const entry = this.history.get(houseId);
     if (entry) clearTimeout(entry.timer);
     const earliest = entry && entry.firstTs < firstTs ? entry.firstTs : firstTs;
     this.history.set(houseId, {
       firstTs: earliest,
+      maxDays: Math.max(maxDays, entry?.maxDays ?? 0),
       timer: setTimeout(() => void this.runHistory(houseId), HISTORY_QUIET_MS),
     });
   }
@@ -87,7 +94,7 @@ export class EvaluationScheduler {
       const firstDay = productionDayOf(entry.firstTs, house.timezone, house.lightsOn);
       if (firstDay > today) return;
       const start =
-        firstDay < addDays(today, -MAX_HISTORY_DAYS) ? addDays(today, -MAX_HISTORY_DAYS) : firstDay;
+        firstDay < addDays(today, -entry.maxDays) ? addDays(today, -entry.maxDays) : firstDay;
       await this.evaluation.evaluateHistory(houseId, start, today);
       // Then today, so live state continues from the replayed days.
       await this.run(houseId);

@@ -165,6 +165,7 @@ export class ImportRunner {
           eggsAdded: 0,
           firstTs: done.firstTs,
           lastTs: done.lastTs,
+          isImport: true,
         });
       }
     } catch (error) {
