@@ -45,6 +45,7 @@ import { flocksRoutes } from './features/flocks/flocks.routes';
 import { reportsRoutes } from './features/reports/reports.routes';
 import { createReportsService } from './features/reports/reports.service';
 import { createFlocksService } from './features/flocks/flocks.service';
+import { createFlockCurves } from './features/flocks/flock-curves';
 import { importsRoutes } from './features/imports/imports.routes';
 import { createImportsService } from './features/imports/imports.service';
 
@@ -95,7 +96,7 @@ export function createRuntime({
   events = createEventBus(),
 }: Pick<AppDeps, 'db' | 'config' | 'log' | 'info' | 'events'>): Runtime {
   const tokens = createTokenService(config.jwtSecret, config.tokenTtlSeconds);
-  const evaluation = createEvaluationService(db, events);
+  const evaluation = createEvaluationService(db, events, createFlockCurves(db));
   const mailer = createMailer({ smtpUrl: config.smtpUrl, from: config.mailFrom, info });
   const notifier = createNotifier({
     db,

@@ -315,6 +315,18 @@ export function judgeHouseDip(henDayPct: number, previous: number[], pct = 5) {
   };
 }
 
+/**
+ * Hen-day production more than 5 % below what the flock's own fitted lay curve expects at its age: used
+ * instead of the 7-day average once the curve fits well, so a flock's normal rise or decline with age is
+ * not mistaken for a dip (nor hides one).
+ */
+export function judgeHouseDipAgainstCurve(henDayPct: number, expectedPct: number, pct = 5) {
+  return {
+    average: expectedPct,
+    isDip: expectedPct > 0 && henDayPct < expectedPct * (1 - pct / 100),
+  };
+}
+
 /** Eggs lost: what was expected and not laid (never negative), and its value at a price per dozen. */
 export function eggsLost(expected: number, eggs: number): number {
   return Math.max(0, Math.round(expected - eggs));

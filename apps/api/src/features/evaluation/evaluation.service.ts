@@ -10,6 +10,7 @@ import {
   judgeCollectorGap,
   judgeHouse,
   judgeHouseDip,
+  judgeHouseDipAgainstCurve,
   minutesSinceLightsOn,
   productionDayOf,
   productionDayStart,
@@ -104,7 +105,16 @@ export interface EvaluationService {
 /** How long a house's layout and its past days' baseline may be reused between evaluations and frames. */
 const CACHE_MS = 30_000;
 
-export function createEvaluationService(db: Database, events: EventBus): EvaluationService {
+/** The hen-day % a house's flock is expected to lay on a day, from its fitted lay curve (flocks feature). */
+export interface ExpectedLay {
+  expectedHenDayPct(houseId: number, day: string): Promise<number | null>;
+}
+
+export function createEvaluationService(
+  db: Database,
+  events: EventBus,
+  expectedLay?: ExpectedLay,
+): EvaluationService {
   // The seven days before today do not change while today runs, so frames and evaluations share them. They
   // are dropped when readings for past days arrive or an exception changes (exceptions shape the baseline).
   const historyCache = new Map<string, { at: number; days: Promise<HistoryDay[]> }>();
@@ -305,13 +315,20 @@ export function createEvaluationService(db: Database, events: EventBus): Evaluat
         .map(hdp)
         .filter((v): v is number => v !== null);
       if (latest !== null) {
-        const dip = judgeHouseDip(latest, previous);
+        // The flock's own lay curve, when it fits well, knows about age; the 7-day average does not.
+        const fromCurve = expectedLay
+          ? await expectedLay.expectedHenDayPct(house.id, yesterday)
+          : null;
+        const dip =
+          fromCurve !== null
+            ? judgeHouseDipAgainstCurve(latest, fromCurve)
+            : judgeHouseDip(latest, previous);
         candidates.push({
           kind: 'house_dip',
           scope: 'house',
           row: null,
           tier: null,
-          isLearning: previous.length < 3,
+          isLearning: fromCurve === null && previous.length < 3,
           eggs: latest,
           expected: dip.average,
           ratio: latest / dip.average,

@@ -79,19 +79,7 @@ export function createFlocksService(db: Database): FlocksService {
   const today = (house: HouseRow) => productionDayOf(new Date(), house.timezone, house.lightsOn);
 
   async function toFlock(flock: FlockRow): Promise<Flock> {
-    const losses = await lossesOf(db, flock.id);
-    const lost = losses.reduce((s, l) => s + l.dead + l.culled, 0);
-    return {
-      id: flock.id,
-      houseId: flock.houseId,
-      placedOn: flock.placedOn,
-      hensHoused: flock.hensHoused,
-      ageAtPlacementWeeks: flock.ageAtPlacementWeeks,
-      breed: flock.breed,
-      endedOn: flock.endedOn,
-      hensAlive: Math.max(0, flock.hensHoused - lost),
-      lost,
-    };
+    return toFlockWith(flock, await lossesOf(db, flock.id));
   }
 
   function checkDay(flock: FlockRow, house: HouseRow, day: string): void {
@@ -197,87 +185,119 @@ export function createFlocksService(db: Database): FlocksService {
 
     async production(ctx, id) {
       const { flock, house } = await flockFor(ctx, id, 'farm.read');
-      // Complete production days only: today's is still being laid.
-      const lastDay = flock.endedOn ?? addDays(today(house), -1);
-      const losses = await lossesOf(db, id);
-      const lossByDay = new Map(losses.map((l) => [l.date, l]));
-      const alive = hensAliveByDay(flock, losses, flock.placedOn, lastDay);
-      const eggs = await houseDays(db, house.id, flock.placedOn, lastDay);
-      const days: FlockProduction['days'] = [];
-      for (const [day, hens] of alive) {
-        const counted = eggs.get(day);
-        const dayEggs = counted?.belts ?? counted?.collector ?? null;
-        const loss = lossByDay.get(day);
-        days.push({
-          day,
-          ageWeeks: ageInWeeks(flock.placedOn, flock.ageAtPlacementWeeks, day),
-          eggs: dayEggs,
-          collector: counted?.collector ?? null,
-          hensAlive: hens,
-          dead: loss?.dead ?? 0,
-          culled: loss?.culled ?? 0,
-          henDayPct: dayEggs === null ? null : round1(henDayProductionPct(dayEggs, hens)),
-        });
-      }
-      const byWeek = new Map<number, typeof days>();
-      for (const d of days) byWeek.set(d.ageWeeks, [...(byWeek.get(d.ageWeeks) ?? []), d]);
-      const weekly = [...byWeek.entries()].map(([ageWeeks, list]) => {
-        const counted = list.filter((d) => d.eggs !== null);
-        const weekEggs = counted.reduce((s, d) => s + (d.eggs ?? 0), 0);
-        const henDaysTotal = counted.reduce((s, d) => s + d.hensAlive, 0);
-        const dead = list.reduce((s, d) => s + d.dead, 0);
-        const culled = list.reduce((s, d) => s + d.culled, 0);
-        const startHens = list[0]?.hensAlive ?? 0;
-        return {
-          ageWeeks,
-          firstDay: list[0]?.day ?? '',
-          days: counted.length,
-          eggs: weekEggs,
-          henDays: henDaysTotal,
-          henDayPct: round1(henDayProductionPct(weekEggs, henDaysTotal)),
-          dead,
-          culled,
-          mortalityPct: startHens > 0 ? round2((100 * (dead + culled)) / startHens) : null,
-          fittedPct: null as number | null,
-        };
-      });
-      // Fit on weeks with at least 5 counted days, so a half week does not pull the curve.
-      const fit = fitLayCurve(
-        weekly
-          .filter((w) => w.days >= 5 && w.henDayPct !== null)
-          .map((w) => ({ ageWeeks: w.ageWeeks, pct: w.henDayPct ?? 0 })),
-      );
-      if (fit)
-        for (const w of weekly) w.fittedPct = round1(compartmentalLay(w.ageWeeks, fit.params));
-      const counted = days.filter((d) => d.eggs !== null);
-      const totalEggs = counted.reduce((s, d) => s + (d.eggs ?? 0), 0);
-      const henDaysAll = counted.reduce((s, d) => s + d.hensAlive, 0);
-      const lost = losses.reduce((s, l) => s + l.dead + l.culled, 0);
-      return {
-        flock: await toFlock(flock),
-        houseName: house.name,
-        timezone: house.timezone,
-        days,
-        weeks: weekly,
-        totals: {
-          eggs: totalEggs,
-          days: counted.length,
-          henDayPct: round1(henDayProductionPct(totalEggs, henDaysAll)),
-          henHousedPct: round1(henHousedProductionPct(totalEggs, flock.hensHoused, counted.length)),
-          eggsPerHenHoused: round1(eggsPerHenHoused(totalEggs, flock.hensHoused)),
-          cumulativeMortalityPct: round2(cumulativeMortalityPct(lost, flock.hensHoused)),
-          livabilityPct: round2(livabilityPct(lost, flock.hensHoused)),
-        },
-        fit: fit
-          ? {
-              model: 'compartmental' as const,
-              params: fit.params,
-              r2: fit.r2 === null ? null : Math.round(fit.r2 * 1000) / 1000,
-              weeks: fit.weeks,
-              isGoodEnough: isFitGoodEnough(fit),
-            }
-          : null,
-      };
+      return computeProduction(db, flock, house);
     },
+  };
+}
+
+/** A flock's production by day and week of age, its figures and its fitted lay curve (no access check). */
+export async function computeProduction(
+  db: Database,
+  flock: FlockRow,
+  house: HouseRow,
+  /** fit the curve only on weeks that end before this day (an expectation must not learn the dip it judges) */
+  fitBefore?: string,
+): Promise<FlockProduction> {
+  const today = (h: HouseRow) => productionDayOf(new Date(), h.timezone, h.lightsOn);
+  const id = flock.id;
+  // Complete production days only: today's is still being laid.
+  const lastDay = flock.endedOn ?? addDays(today(house), -1);
+  const losses = await lossesOf(db, id);
+  const lossByDay = new Map(losses.map((l) => [l.date, l]));
+  const alive = hensAliveByDay(flock, losses, flock.placedOn, lastDay);
+  const eggs = await houseDays(db, house.id, flock.placedOn, lastDay);
+  const days: FlockProduction['days'] = [];
+  for (const [day, hens] of alive) {
+    const counted = eggs.get(day);
+    const dayEggs = counted?.belts ?? counted?.collector ?? null;
+    const loss = lossByDay.get(day);
+    days.push({
+      day,
+      ageWeeks: ageInWeeks(flock.placedOn, flock.ageAtPlacementWeeks, day),
+      eggs: dayEggs,
+      collector: counted?.collector ?? null,
+      hensAlive: hens,
+      dead: loss?.dead ?? 0,
+      culled: loss?.culled ?? 0,
+      henDayPct: dayEggs === null ? null : round1(henDayProductionPct(dayEggs, hens)),
+    });
+  }
+  const byWeek = new Map<number, typeof days>();
+  for (const d of days) byWeek.set(d.ageWeeks, [...(byWeek.get(d.ageWeeks) ?? []), d]);
+  const weekly = [...byWeek.entries()].map(([ageWeeks, list]) => {
+    const counted = list.filter((d) => d.eggs !== null);
+    const weekEggs = counted.reduce((s, d) => s + (d.eggs ?? 0), 0);
+    const henDaysTotal = counted.reduce((s, d) => s + d.hensAlive, 0);
+    const dead = list.reduce((s, d) => s + d.dead, 0);
+    const culled = list.reduce((s, d) => s + d.culled, 0);
+    const startHens = list[0]?.hensAlive ?? 0;
+    return {
+      ageWeeks,
+      firstDay: list[0]?.day ?? '',
+      days: counted.length,
+      eggs: weekEggs,
+      henDays: henDaysTotal,
+      henDayPct: round1(henDayProductionPct(weekEggs, henDaysTotal)),
+      dead,
+      culled,
+      mortalityPct: startHens > 0 ? round2((100 * (dead + culled)) / startHens) : null,
+      fittedPct: null as number | null,
+    };
+  });
+  // Fit on weeks with at least 5 counted days, so a half week does not pull the curve.
+  const fit = fitLayCurve(
+    weekly
+      .filter(
+        (w) =>
+          w.days >= 5 &&
+          w.henDayPct !== null &&
+          (fitBefore === undefined || addDays(w.firstDay, 7) <= fitBefore),
+      )
+      .map((w) => ({ ageWeeks: w.ageWeeks, pct: w.henDayPct ?? 0 })),
+  );
+  if (fit) for (const w of weekly) w.fittedPct = round1(compartmentalLay(w.ageWeeks, fit.params));
+  const counted = days.filter((d) => d.eggs !== null);
+  const totalEggs = counted.reduce((s, d) => s + (d.eggs ?? 0), 0);
+  const henDaysAll = counted.reduce((s, d) => s + d.hensAlive, 0);
+  const lost = losses.reduce((s, l) => s + l.dead + l.culled, 0);
+  return {
+    flock: toFlockWith(flock, losses),
+    houseName: house.name,
+    timezone: house.timezone,
+    days,
+    weeks: weekly,
+    totals: {
+      eggs: totalEggs,
+      days: counted.length,
+      henDayPct: round1(henDayProductionPct(totalEggs, henDaysAll)),
+      henHousedPct: round1(henHousedProductionPct(totalEggs, flock.hensHoused, counted.length)),
+      eggsPerHenHoused: round1(eggsPerHenHoused(totalEggs, flock.hensHoused)),
+      cumulativeMortalityPct: round2(cumulativeMortalityPct(lost, flock.hensHoused)),
+      livabilityPct: round2(livabilityPct(lost, flock.hensHoused)),
+    },
+    fit: fit
+      ? {
+          model: 'compartmental' as const,
+          params: fit.params,
+          r2: fit.r2 === null ? null : Math.round(fit.r2 * 1000) / 1000,
+          weeks: fit.weeks,
+          isGoodEnough: isFitGoodEnough(fit),
+        }
+      : null,
+  };
+}
+
+function toFlockWith(flock: FlockRow, losses: { dead: number; culled: number }[]): Flock {
+  const lost = losses.reduce((s, l) => s + l.dead + l.culled, 0);
+  return {
+    id: flock.id,
+    houseId: flock.houseId,
+    placedOn: flock.placedOn,
+    hensHoused: flock.hensHoused,
+    ageAtPlacementWeeks: flock.ageAtPlacementWeeks,
+    breed: flock.breed,
+    endedOn: flock.endedOn,
+    hensAlive: Math.max(0, flock.hensHoused - lost),
+    lost,
   };
 }
