@@ -94,7 +94,7 @@ export class FlockPage {
   protected readonly state = computed(() => {
     if (this.flocks.error() || this.production.error()) return 'error';
     if (!this.flocks.hasValue()) return 'loading';
-    if ((this.flocks.value() ?? []).length === 0) return 'empty';
+    if (this.flocks.value().length === 0) return 'empty';
     return this.production.hasValue() ? 'ready' : 'loading';
   });
   protected readonly errorText = computed(() =>

@@ -20,15 +20,17 @@ export function previewCsv(
 ): CsvPreview {
   const used = delimiter ?? detectDelimiter(sample);
   // A sample cut mid-line would show a broken last line: drop it unless this is the whole file.
-  const text = isWholeFile ? sample : sample.slice(0, Math.max(0, sample.lastIndexOf('\n')));
-  const records = parse(text, {
+  const text = isWholeFile
+    ? sample
+    : sample.slice(0, Math.max(0, sample.lastIndexOf('\n'))).replace(/\r$/, '');
+  const records: string[][] = parse(text, {
     delimiter: used,
     bom: true,
     relax_column_count: true,
     relax_quotes: true,
     skip_empty_lines: true,
     to_line: 40,
-  }) as string[][];
+  });
   const [firstLine = [], ...rest] = records;
   const lines = rest.slice(0, 10);
   const columnCount = Math.max(firstLine.length, ...lines.map((l) => l.length));

@@ -158,11 +158,11 @@ export class ImportsPage {
     const p = this.preview();
     if (!p) return [] as { ref: ColumnRef; label: string }[];
     const hasHeader = this.formValue().hasHeader ?? true;
-    return Array.from({ length: p.columnCount }, (_, i) => {
+    return Array.from({ length: p.columnCount }, (_, i): { ref: ColumnRef; label: string } => {
       const name = p.firstLine[i]?.trim() ?? '';
       return hasHeader && name !== ''
-        ? { ref: name as ColumnRef, label: name }
-        : { ref: (i + 1) as ColumnRef, label: `Column ${i + 1}` };
+        ? { ref: name, label: name }
+        : { ref: i + 1, label: `Column ${i + 1}` };
     });
   });
   protected readonly previewLines = computed(() => {
@@ -206,15 +206,16 @@ export class ImportsPage {
     effect(() => {
       const p = this.preview();
       if (!p) return;
-      untracked(() => this.applyGuesses(p));
+      untracked(() => {
+        this.applyGuesses(p);
+      });
     });
   }
 
   private guessedFor: CsvPreview | null = null;
 
   private applyGuesses(p: CsvPreview): void {
-    if (this.guessedFor && this.guessedFor.firstLine.join('\u0001') === p.firstLine.join('\u0001'))
-      return;
+    if (this.guessedFor?.firstLine.join('\u0001') === p.firstLine.join('\u0001')) return;
     this.guessedFor = p;
     const c = this.form.controls;
     c.decimal.setValue(p.decimal);
