@@ -36,7 +36,7 @@ describe('gateways', () => {
 
     // Once dismissed it is gone for good; the list shows only its first characters.
     await page.getByRole('button', { name: 'Done' }).click();
-    expect(await page.getByTestId('new-key').count()).toBe(0);
+    await expect.poll(() => page.getByTestId('new-key').count()).toBe(0);
     expect(await page.locator('td.mat-column-keyPrefix').first().textContent()).toContain(
       key.slice(0, 12),
     );

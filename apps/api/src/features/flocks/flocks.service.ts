@@ -10,6 +10,7 @@ import type { Database } from '@tierscope/db';
 import {
   addDays,
   ageInWeeks,
+  calendarDayOf,
   compartmentalLay,
   cumulativeMortalityPct,
   eggsPerHenHoused,

@@ -4,11 +4,13 @@ import {
   ChangeDetectionStrategy,
   Component,
   computed,
+  effect,
   inject,
   input,
   linkedSignal,
   numberAttribute,
   signal,
+  untracked,
 } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -27,6 +29,7 @@ import {
   mortalityEntrySchema,
   type FlockProduction,
 } from '@tierscope/contracts';
+import { calendarDayOf } from '@tierscope/domain';
 import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
 import { firstValueFrom } from 'rxjs';
@@ -127,6 +130,21 @@ export class FlockPage {
   });
   protected readonly endOn = signal(localToday());
   protected readonly isSaving = signal(false);
+
+  constructor() {
+    // Days are the house's own: once its zone is known, today is today on its clock, not on this device's.
+    effect(() => {
+      const zone = this.house.value()?.timezone;
+      if (!zone) return;
+      const today = calendarDayOf(new Date(), zone);
+      untracked(() => {
+        if (!this.walk.controls.day.dirty) this.walk.controls.day.setValue(today);
+        if (!this.placement.controls.placedOn.dirty)
+          this.placement.controls.placedOn.setValue(today);
+        this.endOn.set(today);
+      });
+    });
+  }
 
   private async act(work: () => Promise<unknown>, done: string): Promise<boolean> {
     this.isSaving.set(true);
