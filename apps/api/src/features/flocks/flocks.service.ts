@@ -76,21 +76,17 @@ export function createFlocksService(db: Database): FlocksService {
     return { flock, house };
   }
 
-  /** Today's production day on the house clock: the last one that may hold any eggs. */
-  const today = (house: HouseRow) => productionDayOf(new Date(), house.timezone, house.lightsOn);
 
   async function toFlock(flock: FlockRow): Promise<Flock> {
     return toFlockWith(flock, await lossesOf(db, flock.id));
   }
 
   function checkDay(flock: FlockRow, house: HouseRow, day: string): void {
-    if (
-      day < flock.placedOn ||
-      (flock.endedOn !== null && day > flock.endedOn) ||
-      day > today(house)
-    ) {
+    // Up to today's date on the house's own clock: the morning walk is entered for the day it is made.
+    const latest = flock.endedOn ?? calendarDayOf(new Date(), house.timezone);
+    if (day < flock.placedOn || day > latest) {
       throw new AppError('validation_failed', 'That day is not in the flock’s time in the house', [
-        { path: 'date', message: `Between ${flock.placedOn} and ${flock.endedOn ?? today(house)}` },
+        { path: 'date', message: `Between ${flock.placedOn} and ${latest}` },
       ]);
     }
   }
