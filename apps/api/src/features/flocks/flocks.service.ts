@@ -76,7 +76,6 @@ export function createFlocksService(db: Database): FlocksService {
     return { flock, house };
   }
 
-
   async function toFlock(flock: FlockRow): Promise<Flock> {
     return toFlockWith(flock, await lossesOf(db, flock.id));
   }
