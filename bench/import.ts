@@ -8,7 +8,6 @@
  * its RSS at 100,000 lines, and the ratio to COPY; the last line is one JSON object with every figure.
  * A benchmark, not a test: it asserts only that every line landed, and CI does not run it.
  */
-import { spawnSync } from 'node:child_process';
 import {
   chmodSync,
   createWriteStream,
@@ -25,6 +24,7 @@ import { hash } from '@node-rs/argon2';
 import { eq } from 'drizzle-orm';
 import { insertHouseWithLayout, openDatabase, runMigrations, schema } from '@tierscope/db';
 import { ensurePostgres, startCluster } from '../scripts/postgres';
+import { copyBaselineSeconds } from './copy-baseline';
 import { freePort, signInThroughApi, startApiProcess } from '../scripts/processes';
 
 const { values } = parseArgs({ options: { lines: { type: 'string', default: '1000000' } } });
@@ -176,33 +176,7 @@ async function main(): Promise<void> {
       const l = lineAt(i);
       return `${farm.id},${counterOf.get(`${l.row}:${l.tier}`) ?? 0},${l.ts},${l.eggs}`;
     });
-    const psql = (command: string) => {
-      const result = spawnSync(
-        join(bin, 'psql'),
-        [
-          '-h',
-          '127.0.0.1',
-          '-p',
-          String(pgPort),
-          '-U',
-          'postgres',
-          '-d',
-          'bench_copy',
-          '-v',
-          'ON_ERROR_STOP=1',
-          '-qc',
-          command,
-        ],
-        { encoding: 'utf8' },
-      );
-      if (result.status !== 0) throw new Error(result.stderr);
-    };
-    psql(
-      'CREATE TABLE readings_copy (farm_id int NOT NULL, counter_id int NOT NULL, ts timestamptz NOT NULL, eggs int NOT NULL, PRIMARY KEY (farm_id, counter_id, ts))',
-    );
-    const copyStart = performance.now();
-    psql(`\\copy readings_copy FROM '${copyFile}' WITH (FORMAT csv)`);
-    const copySeconds = (performance.now() - copyStart) / 1000;
+    const copySeconds = copyBaselineSeconds(bin, pgPort, 'bench_copy', copyFile);
     const copyRate = LINES / copySeconds;
     const rate = LINES / seconds;
     console.log(

@@ -8,7 +8,6 @@
  * Prints rows/s, the ratios a/c and b/c and the API's peak RSS; the last line is one JSON object.
  * A benchmark, not a test: it asserts nothing and CI does not run it.
  */
-import { spawnSync } from 'node:child_process';
 import {
   createReadStream,
   chmodSync,
@@ -25,6 +24,7 @@ import { insertHouseWithLayout, openDatabase, runMigrations, schema } from '@tie
 import { createInterface } from 'node:readline';
 import { copyReadingsInChunks } from '../apps/api/src/features/ingest/bulk-ingest.repository';
 import { ensurePostgres, startCluster } from '../scripts/postgres';
+import { copyBaselineSeconds } from './copy-baseline';
 import { freePort, makeGatewayKey, signInThroughApi, startApiProcess } from '../scripts/processes';
 
 const { values } = parseArgs({
@@ -193,33 +193,7 @@ async function main(): Promise<void> {
     );
 
     // (c) the baseline: psql \copy into a plain table with the same key
-    const psql = (command: string) => {
-      const result = spawnSync(
-        join(bin, 'psql'),
-        [
-          '-h',
-          '127.0.0.1',
-          '-p',
-          String(pgPort),
-          '-U',
-          'postgres',
-          '-d',
-          'bench_copy',
-          '-v',
-          'ON_ERROR_STOP=1',
-          '-qc',
-          command,
-        ],
-        { encoding: 'utf8' },
-      );
-      if (result.status !== 0) throw new Error(result.stderr);
-    };
-    psql(
-      'CREATE TABLE readings_copy (farm_id int NOT NULL, counter_id int NOT NULL, ts timestamptz NOT NULL, eggs int NOT NULL, PRIMARY KEY (farm_id, counter_id, ts))',
-    );
-    const copyStart = performance.now();
-    psql(`\\copy readings_copy FROM '${copyFile}' WITH (FORMAT csv)`);
-    const copySeconds = (performance.now() - copyStart) / 1000;
+    const copySeconds = copyBaselineSeconds(bin, pgPort, 'bench_copy', copyFile);
     console.log(
       `[bench] (c) psql \\copy baseline: ${copySeconds.toFixed(1)} s, ${Math.round(ROWS / copySeconds).toLocaleString()} rows/s`,
     );

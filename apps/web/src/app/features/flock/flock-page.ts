@@ -37,13 +37,8 @@ import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
 import { LoadState } from '../../shared/ui/load-state';
+import { localDay } from '../../shared/ui/local-dates';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
-
-/** The day's date on this device, YYYY-MM-DD (the morning walk is entered on the day). */
-function localToday(): string {
-  const now = new Date();
-  return `${now.getFullYear()}-${String(now.getMonth() + 1).padStart(2, '0')}-${String(now.getDate()).padStart(2, '0')}`;
-}
 
 /** A house's flock: placement, the morning walk, hen-day production by week of age against its fitted curve. */
 @Component({
@@ -118,17 +113,17 @@ export class FlockPage {
   protected readonly firstError = firstError;
 
   protected readonly placement = this.fb.group({
-    placedOn: [localToday(), zodValidator(flockCreateSchema.shape.placedOn)],
+    placedOn: [localDay(), zodValidator(flockCreateSchema.shape.placedOn)],
     hensHoused: [0, zodValidator(flockCreateSchema.shape.hensHoused)],
     ageAtPlacementWeeks: [17, zodValidator(flockCreateSchema.shape.ageAtPlacementWeeks)],
     breed: [''],
   });
   protected readonly walk = this.fb.group({
-    day: [localToday()],
+    day: [localDay()],
     dead: [0, zodValidator(mortalityEntrySchema.shape.dead)],
     culled: [0, zodValidator(mortalityEntrySchema.shape.culled)],
   });
-  protected readonly endOn = signal(localToday());
+  protected readonly endOn = signal(localDay());
   protected readonly isSaving = signal(false);
 
   constructor() {

@@ -21,6 +21,7 @@ import { RouterLink } from '@angular/router';
 import { importStatusSchema, type ImportStatus } from '@tierscope/contracts';
 import { firstValueFrom, interval, type Subscription } from 'rxjs';
 import { describeApiError } from '../../core/http/api-error';
+import { FileDownload } from '../../core/http/file-download';
 import { LiveSocket } from '../../core/live/live-socket';
 
 const ENDED = new Set(['done', 'failed', 'cancelled']);
@@ -48,6 +49,7 @@ export class ImportProgress {
   private readonly http = inject(HttpClient);
   private readonly live = inject(LiveSocket);
   private readonly snackBar = inject(MatSnackBar);
+  private readonly files = inject(FileDownload);
 
   /** The newest state: the input, then live messages and reads. */
   protected readonly now = linkedSignal(() => this.status());
@@ -145,16 +147,9 @@ export class ImportProgress {
   }
 
   protected async downloadErrors(): Promise<void> {
+    const id = this.now().id;
     try {
-      const blob = await firstValueFrom(
-        this.http.get(`/api/v1/imports/${this.now().id}/errors.csv`, { responseType: 'blob' }),
-      );
-      const url = URL.createObjectURL(blob);
-      const link = document.createElement('a');
-      link.href = url;
-      link.download = `import-${this.now().id}-errors.csv`;
-      link.click();
-      URL.revokeObjectURL(url);
+      await this.files.save(`/api/v1/imports/${id}/errors.csv`, `import-${id}-errors.csv`);
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
     }

@@ -1,5 +1,5 @@
 import { DecimalPipe } from '@angular/common';
-import { HttpClient, httpResource } from '@angular/common/http';
+import { httpResource } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -21,19 +21,14 @@ import { MatSort, MatSortModule } from '@angular/material/sort';
 import { MatTableDataSource, MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
 import { dailyReportSchema, houseSchema, type DailyReport } from '@tierscope/contracts';
-import { firstValueFrom } from 'rxjs';
 import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
+import { FileDownload } from '../../core/http/file-download';
 import { LoadState } from '../../shared/ui/load-state';
+import { localDay } from '../../shared/ui/local-dates';
 
 type SectionLine = DailyReport['sections'][number];
-
-/** Yesterday on this device's calendar: the last complete production day, near enough to start from. */
-function yesterday(): string {
-  const d = new Date(Date.now() - 86_400_000);
-  return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
-}
 
 const KIND_WORDS: Record<string, string> = {
   shortfall: 'Shortfall',
@@ -67,7 +62,7 @@ export class DailyReportView {
   readonly initialHouseId = input<number | null>(null);
 
   private readonly auth = inject(AuthStore);
-  private readonly http = inject(HttpClient);
+  private readonly files = inject(FileDownload);
   private readonly snackBar = inject(MatSnackBar);
 
   protected readonly farms = this.auth.memberships;
@@ -84,7 +79,7 @@ export class DailyReportView {
     const list = this.houses.value() ?? [];
     return list.find((h) => h.id === wanted)?.id ?? list[0]?.id ?? null;
   });
-  protected readonly day = linkedSignal(() => yesterday());
+  protected readonly day = linkedSignal(() => localDay(1));
   protected readonly report = httpResource(
     () => {
       const house = this.houseId();
@@ -133,17 +128,10 @@ export class DailyReportView {
     const house = this.houseId();
     if (house === null) return;
     try {
-      const blob = await firstValueFrom(
-        this.http.get(`/api/v1/reports/daily.csv?houseId=${house}&day=${this.day()}`, {
-          responseType: 'blob',
-        }),
+      await this.files.save(
+        `/api/v1/reports/daily.csv?houseId=${house}&day=${this.day()}`,
+        `daily-report-${this.day()}.csv`,
       );
-      const url = URL.createObjectURL(blob);
-      const link = document.createElement('a');
-      link.href = url;
-      link.download = `daily-report-${this.day()}.csv`;
-      link.click();
-      URL.revokeObjectURL(url);
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
     }

@@ -18,11 +18,7 @@ import { NgxEchartsDirective } from 'ngx-echarts';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { LoadState } from '../../shared/ui/load-state';
-
-const dayOf = (msAgo: number) => {
-  const d = new Date(Date.now() - msAgo);
-  return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
-};
+import { localDay } from '../../shared/ui/local-dates';
 
 /** Okabe & Ito's colour-blind-safe palette ("Color Universal Design", 2002), one colour per house. */
 const HOUSE_COLOURS = [
@@ -56,8 +52,8 @@ export class FarmSummaryView {
   private readonly auth = inject(AuthStore);
   protected readonly farms = this.auth.memberships;
   protected readonly farmId = linkedSignal(() => this.farms()[0]?.farmId ?? null);
-  protected readonly from = signal(dayOf(14 * 86_400_000));
-  protected readonly to = signal(dayOf(86_400_000));
+  protected readonly from = signal(localDay(14));
+  protected readonly to = signal(localDay(1));
   protected readonly summary = httpResource(
     () => {
       const farm = this.farmId();

@@ -7,11 +7,13 @@ import {
   type WorkOrderUpdate,
 } from '@tierscope/contracts';
 import { firstValueFrom } from 'rxjs';
+import { FileDownload } from '../../core/http/file-download';
 
 /** Calls that change work orders; lists and details are read with httpResource where they are shown. */
 @Injectable({ providedIn: 'root' })
 export class WorkOrdersApi {
   private readonly http = inject(HttpClient);
+  private readonly files = inject(FileDownload);
 
   async create(input: WorkOrderCreate): Promise<WorkOrder> {
     return workOrderSchema.parse(
@@ -50,15 +52,10 @@ export class WorkOrdersApi {
   }
 
   /** Downloads the list as CSV through the browser, with the filters of the page. */
-  async downloadCsv(query: URLSearchParams): Promise<void> {
-    const blob = await firstValueFrom(
-      this.http.get(`/api/v1/work-orders/export.csv?${query.toString()}`, { responseType: 'blob' }),
+  downloadCsv(query: URLSearchParams): Promise<void> {
+    return this.files.save(
+      `/api/v1/work-orders/export.csv?${query.toString()}`,
+      `work-orders-${new Date().toISOString().slice(0, 10)}.csv`,
     );
-    const url = URL.createObjectURL(blob);
-    const link = document.createElement('a');
-    link.href = url;
-    link.download = `work-orders-${new Date().toISOString().slice(0, 10)}.csv`;
-    link.click();
-    URL.revokeObjectURL(url);
   }
 }
