@@ -209,6 +209,9 @@ export class ImportRunner {
     const delimiter = mapping.delimiter ?? detectDelimiter(await readSample(path));
     const parser = parse({
       delimiter,
+      // Every line end ends a line, even in a file that mixes them: guessing one from the first line would
+      // fold the lines with the other ending into a field and lose their readings without a word.
+      record_delimiter: ['\r\n', '\n', '\r'],
       bom: true,
       info: true,
       relax_column_count: true,

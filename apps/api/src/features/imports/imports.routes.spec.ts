@@ -261,18 +261,50 @@ describe('importing a wide export (one column per counter)', () => {
 
 describe('RFC 4180 files', () => {
   const mapping = { ...longIso, timezone: 'UTC' };
-  it('takes quoted fields with delimiters, doubled quotes and line breaks, a byte-order mark and CRLF', async () => {
+  /** Imports `body` (after the header) into a house of its own and answers the status and the eggs stored. */
+  async function importLines(body: string, header = 'timestamp,row,tier,eggs,note\r\n') {
     const house = await newHouse();
-    const csv =
-      '\uFEFFtimestamp,row,tier,eggs,note\r\n' +
-      '2026-10-08T05:00Z,1,1,10,"with, comma"\r\n' +
-      '2026-10-08T06:00Z,1,1,11,"said ""hello"""\r\n' +
-      '2026-10-08T07:00Z,1,1,12,"two\r\nlines"\r\n' +
-      '2026-10-08T08:00Z,1,1,13,plain\r\n' +
-      '"2026-10-08T09:00Z","1","1","14",""\r\n';
-    const { status } = await runImport(house.id, csv, mapping);
-    expect(status).toMatchObject({ state: 'done', linesRead: 5, readingsAdded: 5, errorCount: 0 });
-    expect((await storedEggs(house.id)).eggs).toBe(60);
+    const { status } = await runImport(house.id, header + body, mapping);
+    return { status, eggs: (await storedEggs(house.id)).eggs };
+  }
+
+  it('takes a quoted field holding the delimiter (RFC 4180 §2.6)', async () => {
+    const { status, eggs } = await importLines('2026-10-08T05:00Z,1,1,10,"with, comma"\r\n');
+    expect(status).toMatchObject({ readingsAdded: 1, errorCount: 0 });
+    expect(eggs).toBe(10);
+  });
+
+  it('takes doubled quotes inside a quoted field (RFC 4180 §2.7)', async () => {
+    const { status } = await importLines('2026-10-08T06:00Z,1,1,11,"said ""hello"""\r\n');
+    expect(status).toMatchObject({ readingsAdded: 1, errorCount: 0 });
+  });
+
+  it('takes a line break inside a quoted field (RFC 4180 §2.6)', async () => {
+    const { status } = await importLines(
+      '2026-10-08T07:00Z,1,1,12,"two\r\nlines"\r\n2026-10-08T08:00Z,1,1,13,x\r\n',
+    );
+    expect(status).toMatchObject({ linesRead: 2, readingsAdded: 2, errorCount: 0 });
+  });
+
+  it('takes quoted counts and times, and empty quoted fields (RFC 4180 §2.5)', async () => {
+    const { status, eggs } = await importLines('"2026-10-08T09:00Z","1","1","14",""\r\n');
+    expect(status).toMatchObject({ readingsAdded: 1, errorCount: 0 });
+    expect(eggs).toBe(14);
+  });
+
+  it('takes a byte-order mark before the header', async () => {
+    const { status } = await importLines(
+      '2026-10-08T05:00Z,1,1,10,x\n',
+      '\uFEFFtimestamp,row,tier,eggs,note\n',
+    );
+    expect(status).toMatchObject({ state: 'done', readingsAdded: 1, errorCount: 0 });
+  });
+
+  it('takes CRLF and LF line ends alike, and a last line without one (RFC 4180 §2.1–2.2)', async () => {
+    const { status } = await importLines(
+      '2026-10-08T05:00Z,1,1,10,x\r\n2026-10-08T06:00Z,1,1,10,x\n2026-10-08T07:00Z,1,1,10,x',
+    );
+    expect(status).toMatchObject({ linesRead: 3, readingsAdded: 3, errorCount: 0 });
   });
 
   it('numbers lines as the file does, after a field that spans two lines', async () => {

@@ -25,6 +25,7 @@ export function previewCsv(
     : sample.slice(0, Math.max(0, sample.lastIndexOf('\n'))).replace(/\r$/, '');
   const records: string[][] = parse(text, {
     delimiter: used,
+    record_delimiter: ['\r\n', '\n', '\r'],
     bom: true,
     relax_column_count: true,
     relax_quotes: true,
