@@ -17,7 +17,12 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
 import { Router, RouterLink } from '@angular/router';
-import { exceptionSchema, type CloseException, type ExceptionView } from '@tierscope/contracts';
+import {
+  exceptionSchema,
+  workOrderSummarySchema,
+  type CloseException,
+  type ExceptionView,
+} from '@tierscope/contracts';
 import { firstValueFrom } from 'rxjs';
 import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
@@ -73,6 +78,20 @@ export class ExceptionsPage {
     },
     { parse: (v) => z.array(exceptionSchema).parse(v) },
   );
+  /** Work orders already opened from exceptions (managers), so nobody opens a second one unawares. */
+  private readonly workOrders = httpResource(
+    () => (this.auth.hasPermission('workOrders.manage') ? '/api/v1/work-orders' : undefined),
+    { parse: (v) => z.array(workOrderSummarySchema).parse(v) },
+  );
+  protected readonly ordersByException = computed(() => {
+    const byException = new Map<number, number[]>();
+    for (const o of this.workOrders.value() ?? []) {
+      if (o.exceptionId !== null) {
+        byException.set(o.exceptionId, [...(byException.get(o.exceptionId) ?? []), o.id]);
+      }
+    }
+    return byException;
+  });
   protected readonly houses = computed(() => {
     const seen = new Map<number, string>();
     for (const e of this.exceptions.value() ?? []) seen.set(e.houseId, e.houseName);
