@@ -110,6 +110,8 @@ export class WorkOrderPage {
   protected readonly isBusy = signal(false);
   protected readonly isUploading = signal(false);
   protected readonly photoUrls = signal<Record<number, string>>({});
+  /** Managers go back to every work order; the crew to their own. */
+  protected readonly canSeeAll = computed(() => this.auth.hasPermission('workOrders.manage'));
   protected readonly canCloseException = computed(() => {
     const o = this.order();
     return (
