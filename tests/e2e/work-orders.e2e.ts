@@ -126,6 +126,11 @@ describe('a flagged row handed to the crew', () => {
     await expect.poll(() => page.getByTestId('state').textContent()).toBe('Done');
     await page.getByText('Feed chain off its sprocket').waitFor();
     await screenshot(page, 'work-order-5-done-phone');
+    // Back to My work: nothing left to do, and the order is under Done.
+    await page.getByRole('link', { name: 'My work' }).first().click();
+    await page.getByText('Nothing assigned to you. Enjoy the quiet.').waitFor();
+    await page.locator('mat-button-toggle', { hasText: 'Done' }).click();
+    await page.getByRole('link', { name: /Low lay: House 2, row 4/ }).waitFor();
     await page.close();
 
     const [stored] = await harness.database.db
