@@ -71,7 +71,7 @@ export class ImportRunner {
     private readonly events: EventBus,
     private readonly importsDir: string,
     private readonly log: (message: string, error?: unknown) => void,
-    private readonly options: { chunkRows?: number } = {},
+    private readonly options: { chunkRows?: number; reportMs?: number } = {},
   ) {}
 
   enqueue(id: number): void {
@@ -257,6 +257,7 @@ export class ImportRunner {
     };
 
     const decimal: DecimalMark = mapping.decimal;
+    const reportMs = this.options.reportMs ?? REPORT_MS;
     const db = this.db;
     let columns: Resolved | null = null;
 
@@ -304,7 +305,7 @@ export class ImportRunner {
           valid += 1;
           yield `${reading.counterId},${reading.ts.toISOString()},${eggs},${total}`;
         }
-        if (Date.now() - lastReport > REPORT_MS) await report();
+        if (Date.now() - lastReport > reportMs) await report();
       }
       if (!columns) throw new MappingProblem('The file holds no lines');
     }
