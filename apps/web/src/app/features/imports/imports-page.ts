@@ -393,6 +393,16 @@ export class ImportsPage {
     }
   }
 
+  protected async deleteSaved(mapping: SavedMapping): Promise<void> {
+    try {
+      await firstValueFrom(this.http.delete(`/api/v1/import-mappings/${mapping.id}`));
+      this.snackBar.open(`Mapping "${mapping.name}" deleted`, undefined, { duration: 2000 });
+      this.saved.reload();
+    } catch (error) {
+      this.snackBar.open(describeApiError(error), 'Dismiss');
+    }
+  }
+
   protected onFinished(): void {
     this.recent.reload();
   }
