@@ -18,6 +18,7 @@ FROM node:20-bookworm-slim
 WORKDIR /app
 ENV NODE_ENV=production HOST=0.0.0.0 PORT=8080 WEB_DIST=/app/dist/web/browser
 COPY --from=build /app /app
+RUN mkdir -p /app/data && chown node:node /app/data
 USER node
 EXPOSE 8080
 # The same heap setting as scripts/processes.ts (API_NODE_ARGS): it keeps big imports at ≈ 200 MB.
