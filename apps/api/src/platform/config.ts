@@ -68,7 +68,10 @@ export interface AppConfig {
 
 /** Reads the API's settings from the environment; a bad value stops the start with its name. */
 export function loadConfig(env: NodeJS.ProcessEnv): AppConfig {
-  const parsed = configSchema.safeParse(env);
+  // An empty variable (`SMTP_URL=` in a compose file) means "not set", not an invalid value.
+  const parsed = configSchema.safeParse(
+    Object.fromEntries(Object.entries(env).filter(([, value]) => value !== '')),
+  );
   if (!parsed.success) {
     const problems = parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ');
     throw new Error(`Invalid configuration: ${problems}`);
