@@ -361,6 +361,12 @@ export function buildOpenApiDocument(version: string) {
       responses: { 200: ok(importStatusSchema), ...errors, 409: error('Already ended') },
     },
     {
+      method: 'post',
+      path: '/api/v1/imports/{importId}/retry',
+      summary: 'Run a failed import again from the start (its file is kept when it fails)',
+      responses: { 200: ok(importStatusSchema), ...errors, 409: error('Not a failed import') },
+    },
+    {
       method: 'get',
       path: '/api/v1/imports/{importId}/errors.csv',
       summary: "An import's line errors as CSV (line, column, message)",

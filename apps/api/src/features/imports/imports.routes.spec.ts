@@ -552,3 +552,51 @@ describe('saved mappings', () => {
     expect(gone.status).toBe(204);
   });
 });
+
+describe('running a failed import again', () => {
+  it('re-queues a failed import with its kept file, and refuses anything else', async () => {
+    const house = await newHouse();
+    const csv = 'timestamp,row,tier,eggs\n2026-10-13T05:00Z,1,1,5\n2026-10-13T06:00Z,1,1,6\n';
+    const storedName = `retry-${house.id}.csv`;
+    mkdirSync(join(dataDir, 'imports'), { recursive: true });
+    // The file is missing on the first run (a disk that was not mounted yet, say): the run fails.
+    const [row] = await database.db
+      .insert(schema.imports)
+      .values({
+        farmId: fixture.farmA,
+        houseId: house.id,
+        storedName,
+        fileName: 'retry.csv',
+        bytes: csv.length,
+        mapping: {
+          ...longIso,
+          timezone: 'UTC',
+          decimal: '.',
+          hasHeader: true,
+          timestampFormat: 'iso',
+        },
+      })
+      .returning();
+    runtime.imports.enqueue(row!.id);
+    await runtime.imports.idle();
+    const failed = await request(app)
+      .get(`/api/v1/imports/${row!.id}`)
+      .set('Authorization', integrator);
+    expect(failed.body.state).toBe('failed');
+
+    writeFileSync(join(dataDir, 'imports', storedName), csv);
+    const retried = await request(app)
+      .post(`/api/v1/imports/${row!.id}/retry`)
+      .set('Authorization', integrator);
+    expect(retried.status).toBe(200);
+    await runtime.imports.idle();
+    const done = await request(app)
+      .get(`/api/v1/imports/${row!.id}`)
+      .set('Authorization', integrator);
+    expect(done.body).toMatchObject({ state: 'done', readingsAdded: 2 });
+    const again = await request(app)
+      .post(`/api/v1/imports/${row!.id}/retry`)
+      .set('Authorization', integrator);
+    expect(again.status).toBe(409);
+  });
+});

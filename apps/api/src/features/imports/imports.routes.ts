@@ -109,6 +109,10 @@ export function importsRoutes(
     const id = parseInput(idParam, req.params.importId, 'path');
     res.json(await service.cancel(contextOf(req), id));
   });
+  router.post('/imports/:importId/retry', async (req, res) => {
+    const id = parseInput(idParam, req.params.importId, 'path');
+    res.json(await service.retry(contextOf(req), id));
+  });
   router.get('/imports/:importId/errors.csv', async (req, res) => {
     const id = parseInput(idParam, req.params.importId, 'path');
     const { name, csv } = await service.errorsCsv(contextOf(req), id);

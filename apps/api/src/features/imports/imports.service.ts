@@ -46,6 +46,8 @@ export interface ImportsService {
   get(ctx: RequestContext, id: number): Promise<ImportStatus>;
   list(ctx: RequestContext, farmId?: number): Promise<ImportStatus[]>;
   cancel(ctx: RequestContext, id: number): Promise<ImportStatus>;
+  /** Runs a failed import again from the start (its file is kept when it fails). */
+  retry(ctx: RequestContext, id: number): Promise<ImportStatus>;
   errorsCsv(ctx: RequestContext, id: number): Promise<{ name: string; csv: string }>;
   mappings(ctx: RequestContext, farmId: number): Promise<SavedMapping[]>;
   saveMapping(
@@ -166,6 +168,26 @@ export function createImportsService(db: Database, runner: ImportRunner): Import
         entityId: id,
       });
       return toStatus(await visible(ctx, id), true);
+    },
+
+    async retry(ctx, id) {
+      const found = await visible(ctx, id);
+      if (found.import.state !== 'failed') {
+        throw new AppError(
+          'conflict',
+          `Only a failed import can be run again (this one is ${found.import.state})`,
+        );
+      }
+      await updateImport(db, id, { state: 'queued', cancelRequestedAt: null, message: null });
+      await recordAudit(db, {
+        farmId: found.import.farmId,
+        actorUserId: ctx.user.id,
+        action: 'import.retry',
+        entity: 'import',
+        entityId: id,
+      });
+      runner.enqueue(id);
+      return toStatus(await visible(ctx, id), false);
     },
 
     async errorsCsv(ctx, id) {

@@ -54,6 +54,8 @@ export class ImportProgress {
   /** The newest state: the input, then live messages and reads. */
   protected readonly now = linkedSignal(() => this.status());
   private firstSeen: { at: number; lines: number; bytes: number } | null = null;
+  /** reads while a retried import runs (the live follow-up is tied to the import it was given) */
+  private poll: Subscription | null = null;
   protected readonly rate = linkedSignal<{
     linesPerSecond: number;
     secondsLeft: number | null;
@@ -88,7 +90,10 @@ export class ImportProgress {
       liveSubscription = null;
       pollSubscription = null;
     };
-    destroyRef.onDestroy(stop);
+    destroyRef.onDestroy(() => {
+      stop();
+      this.poll?.unsubscribe();
+    });
     // Follow the import it was given: live messages of its house, and a slow read in case the socket is down.
     effect(() => {
       const given = this.status();
@@ -111,6 +116,8 @@ export class ImportProgress {
       if (!ENDED.has(s.state)) return;
       untracked(() => {
         stop();
+        this.poll?.unsubscribe();
+        this.poll = null;
         if (s.errors.length === 0 && s.errorCount > 0) void this.read(s.id);
         else this.finished.emit(s);
       });
@@ -141,6 +148,22 @@ export class ImportProgress {
           await firstValueFrom(this.http.post(`/api/v1/imports/${this.now().id}/cancel`, {})),
         ),
       );
+    } catch (error) {
+      this.snackBar.open(describeApiError(error), 'Dismiss');
+    }
+  }
+
+  protected async retry(): Promise<void> {
+    try {
+      const status = importStatusSchema.parse(
+        await firstValueFrom(this.http.post(`/api/v1/imports/${this.now().id}/retry`, {})),
+      );
+      this.firstSeen = null;
+      this.now.set(status);
+      void this.read(status.id);
+      this.poll = interval(2000).subscribe(() => {
+        void this.read(status.id);
+      });
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
     }
