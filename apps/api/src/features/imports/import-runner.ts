@@ -205,8 +205,8 @@ export class ImportRunner {
 
   private async load(row: ImportRow, path: string, mapping: ImportMapping) {
     const counters = await houseCounters(this.db, row.houseId);
-    const stream = createReadStream(path);
     const delimiter = mapping.delimiter ?? detectDelimiter(await readSample(path));
+    const stream = createReadStream(path);
     const parser = parse({
       delimiter,
       // Every line end ends a line, even in a file that mixes them: guessing one from the first line would
@@ -230,6 +230,9 @@ export class ImportRunner {
     parser.on('skip', (error: Error & { lines?: number }) => {
       addError({ line: error.lines ?? 0, column: null, message: error.message });
     });
+    // A file that cannot be read (gone, unreadable) fails the parse, and so the import, instead of throwing
+    // from the stream with nobody listening (which would stop the whole API).
+    stream.once('error', (error) => parser.destroy(error));
     stream.pipe(parser);
 
     let linesRead = 0;

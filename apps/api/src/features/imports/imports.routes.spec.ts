@@ -570,6 +570,8 @@ describe('running a failed import again', () => {
         bytes: csv.length,
         mapping: {
           ...longIso,
+          // A delimiter given, so the run opens the file straight away (no sample read first).
+          delimiter: ',',
           timezone: 'UTC',
           decimal: '.',
           hasHeader: true,
