@@ -51,6 +51,16 @@ async function spareGateway(farmId: number): Promise<number> {
   return row.id;
 }
 
+/** A small long-layout mapping for the import routes. */
+const IMPORT_MAPPING = JSON.stringify({
+  layout: 'long',
+  timestamp: 'ts',
+  timezone: 'UTC',
+  row: 'row',
+  tier: 'tier',
+  eggs: 'eggs',
+});
+
 /** A fresh work order on a farm, assigned to that farm's crew member when `isForCrew`. */
 async function spareWorkOrder(farmId: number, houseId: number, isForCrew = true): Promise<number> {
   counter += 1;
@@ -294,17 +304,7 @@ const ownFarmRoutes: { name: string; call: () => Promise<Call>; allowed: Record<
         request(app)
           .post(`/api/v1/houses/${fixture.houseA}/imports`)
           .set('Authorization', b)
-          .field(
-            'mapping',
-            JSON.stringify({
-              layout: 'long',
-              timestamp: 'ts',
-              timezone: 'UTC',
-              row: 'row',
-              tier: 'tier',
-              eggs: 'eggs',
-            }),
-          )
+          .field('mapping', IMPORT_MAPPING)
           .attach('file', Buffer.from('ts,row,tier,eggs\n2026-01-01T05:00Z,1,1,1\n'), 'a.csv'),
       allowed: { admin: 202, manager: 403, crew: 403, integrator: 202 },
     },
@@ -485,17 +485,7 @@ describe('on a farm they do not belong to', () => {
         request(app)
           .post(`/api/v1/houses/${fixture.houseB}/imports`)
           .set('Authorization', b)
-          .field(
-            'mapping',
-            JSON.stringify({
-              layout: 'long',
-              timestamp: 'ts',
-              timezone: 'UTC',
-              row: 'row',
-              tier: 'tier',
-              eggs: 'eggs',
-            }),
-          )
+          .field('mapping', IMPORT_MAPPING)
           .attach('file', Buffer.from('ts,row,tier,eggs\n'), 'a.csv'),
     },
     {

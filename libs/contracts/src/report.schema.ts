@@ -1,3 +1,4 @@
+import { EXCEPTION_KINDS } from '@tierscope/domain';
 import { z } from 'zod';
 import { exceptionSchema } from './live.schema';
 
@@ -25,7 +26,7 @@ export const dailyReportSchema = z.object({
       eggs: z.number().nullable(),
       expected: z.number().nullable(),
       ratio: z.number().nullable(),
-      exceptionKind: z.string().nullable(),
+      exceptionKind: z.enum(EXCEPTION_KINDS).nullable(),
       isLearning: z.boolean(),
     }),
   ),

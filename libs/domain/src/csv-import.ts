@@ -8,6 +8,11 @@ export const DELIMITERS = [',', ';', '\t'] as const;
 export type Delimiter = (typeof DELIMITERS)[number];
 export const DECIMAL_MARKS = ['.', ','] as const;
 export type DecimalMark = (typeof DECIMAL_MARKS)[number];
+/**
+ * Every line end ends a line, even in a file that mixes them: guessing one from the first line would fold
+ * the lines with the other ending into a field and lose their readings without a word.
+ */
+export const LINE_ENDINGS = ['\r\n', '\n', '\r'];
 export const TIMESTAMP_FORMATS = ['iso', 'dmy', 'mdy', 'ymd'] as const;
 export type TimestampFormat = (typeof TIMESTAMP_FORMATS)[number];
 

@@ -16,6 +16,14 @@ export const EXCEPTION_KINDS = [
   'house_dip',
 ] as const;
 export type ExceptionKind = (typeof EXCEPTION_KINDS)[number];
+
+/** Plain words for each kind, the same on every screen, mail and report. */
+export const EXCEPTION_KIND_LABELS: Record<ExceptionKind, string> = {
+  shortfall: 'Shortfall',
+  silent_counter: 'Silent counter',
+  collector_gap: 'Collector gap',
+  house_dip: 'House dip',
+};
 export const EXCEPTION_SCOPES = ['section', 'row', 'tier', 'house'] as const;
 export type ExceptionScope = (typeof EXCEPTION_SCOPES)[number];
 

@@ -6,6 +6,7 @@ import type { Database } from '@tierscope/db';
 import {
   detectDelimiter,
   intervalFromTotals,
+  LINE_ENDINGS,
   parseCount,
   parseTimestamp,
   type DecimalMark,
@@ -20,7 +21,6 @@ import {
   houseCounters,
   insertErrors,
   interruptedImports,
-  isCancelRequested,
   poolOf,
   updateImport,
   type ImportRow,
@@ -209,9 +209,7 @@ export class ImportRunner {
     const stream = createReadStream(path);
     const parser = parse({
       delimiter,
-      // Every line end ends a line, even in a file that mixes them: guessing one from the first line would
-      // fold the lines with the other ending into a field and lose their readings without a word.
-      record_delimiter: ['\r\n', '\n', '\r'],
+      record_delimiter: LINE_ENDINGS,
       bom: true,
       info: true,
       relax_column_count: true,
@@ -249,13 +247,14 @@ export class ImportRunner {
       const batch = errors.splice(0);
       stored += batch.length;
       await insertErrors(this.db, row.id, batch);
-      if (await isCancelRequested(this.db, row.id)) throw new Cancelled();
+      // One statement writes the progress and answers whether someone asked to cancel.
       const updated = await updateImport(this.db, row.id, {
         linesRead,
         readingsAdded: added,
         errorCount,
         bytesRead: stream.bytesRead,
       });
+      if (updated?.cancelRequestedAt) throw new Cancelled();
       if (updated) this.emit(updated);
     };
 

@@ -1,5 +1,5 @@
 import { schema, type Database, type Queryable } from '@tierscope/db';
-import { and, asc, desc, eq, inArray, isNotNull, sql } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import pg from 'pg';
 
 const { imports, importErrors, importMappings, houses, users, counters, sections } = schema;
@@ -59,14 +59,6 @@ export async function interruptedImports(db: Queryable): Promise<ImportRow[]> {
     .from(imports)
     .where(inArray(imports.state, ['queued', 'running']))
     .orderBy(asc(imports.id));
-}
-
-export async function isCancelRequested(db: Queryable, id: number): Promise<boolean> {
-  const rows = await db
-    .select({ id: imports.id })
-    .from(imports)
-    .where(and(eq(imports.id, id), isNotNull(imports.cancelRequestedAt)));
-  return rows.length > 0;
 }
 
 export async function clearErrors(db: Queryable, importId: number): Promise<void> {

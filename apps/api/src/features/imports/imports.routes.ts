@@ -85,7 +85,6 @@ export function importsRoutes(
               storedName: file.filename,
               fileName: file.originalname,
               bytes: file.size,
-              path: file.path,
             },
             mapping,
           ),

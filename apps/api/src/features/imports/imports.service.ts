@@ -1,4 +1,3 @@
-import { rm } from 'node:fs/promises';
 import {
   importMappingSchema,
   type ImportMapping,
@@ -33,7 +32,6 @@ export interface StoredUpload {
   storedName: string;
   fileName: string;
   bytes: number;
-  path: string;
 }
 
 export interface ImportsService {
@@ -98,19 +96,14 @@ export function createImportsService(db: Database, runner: ImportRunner): Import
 
   return {
     async start(ctx, houseId, upload, mapping) {
+      // A refusal here leaves no file behind: the route removes the upload of any request that fails.
       const house = await findHouse(db, houseId);
-      try {
-        if (!house || !ctx.user.roles.has(house.farmId)) throw notFound('House');
-        requireFarmPermission(ctx, house.farmId, 'imports.run', 'House');
-        if (upload.bytes === 0) {
-          throw new AppError('validation_failed', 'The file is empty', [
-            { path: 'file', message: 'Choose a CSV export with lines in it' },
-          ]);
-        }
-      } catch (error) {
-        // Nothing will read this upload: do not keep it.
-        await rm(upload.path, { force: true });
-        throw error;
+      if (!house || !ctx.user.roles.has(house.farmId)) throw notFound('House');
+      requireFarmPermission(ctx, house.farmId, 'imports.run', 'House');
+      if (upload.bytes === 0) {
+        throw new AppError('validation_failed', 'The file is empty', [
+          { path: 'file', message: 'Choose a CSV export with lines in it' },
+        ]);
       }
       const row = await db.transaction(async (tx) => {
         const created = await insertImport(tx, {

@@ -1,4 +1,5 @@
 import {
+  EXCEPTION_KIND_LABELS,
   FINDING_CAUSE_LABELS,
   type ExceptionKind,
   type ExceptionScope,
@@ -11,13 +12,6 @@ import type { OutgoingMail } from '../../platform/mailer';
  * The words of every mail Tierscope sends: plain text and HTML, the product and the farm in the subject,
  * and a link to the exact page. Pure functions of their inputs, so the wording is tested without SMTP.
  */
-
-const KIND_WORDS: Record<ExceptionKind, string> = {
-  shortfall: 'Shortfall',
-  silent_counter: 'Silent counter',
-  collector_gap: 'Collector gap',
-  house_dip: 'House dip',
-};
 
 export function spotWords(scope: ExceptionScope, row: number | null, tier: number | null): string {
   if (scope === 'section') return `row ${row ?? '?'}, tier ${tier ?? '?'}`;
@@ -85,7 +79,7 @@ export function newExceptionsMail(input: {
         : e.kind === 'silent_counter'
           ? 'no eggs counted for 30 minutes'
           : `${Math.round(e.ratio * 1000) / 10} %`;
-    return `${KIND_WORDS[e.kind]} at ${spotWords(e.scope, e.row, e.tier)}: ${measured}, since ${when(e.openedAt)} (${input.timezone})`;
+    return `${EXCEPTION_KIND_LABELS[e.kind]} at ${spotWords(e.scope, e.row, e.tier)}: ${measured}, since ${when(e.openedAt)} (${input.timezone})`;
   };
   const link = `${input.publicUrl}/exceptions?houseId=${input.houseId}`;
   const checks = (e: ExceptionForMail) => likelyChecks(e.kind, e.scope).join('; ');

@@ -184,6 +184,13 @@ export function createWorkOrdersService(options: {
     };
   }
 
+  /** The order as it is now, after a change the caller was just allowed to make. */
+  async function fresh(ctx: RequestContext, id: number, role: Role): Promise<WorkOrder> {
+    const row = await findWorkOrder(db, id);
+    if (!row) throw notFound('Work order');
+    return detail(ctx, row, role);
+  }
+
   async function reread(ctx: RequestContext, id: number): Promise<WorkOrder> {
     const { row, role } = await visible(ctx, id);
     return detail(ctx, row, role);
@@ -452,16 +459,9 @@ export function createWorkOrdersService(options: {
           });
         }
       }
-      const { row: after, role: roleAfter } = await visible(ctx, id).catch(
-        async (error: unknown) => {
-          // A crew member who handed the order to someone else can no longer see it; answer what changed.
-          if (error instanceof AppError && error.code === 'forbidden') {
-            const found = await findWorkOrder(db, id);
-            if (found) return { row: found, role };
-          }
-          throw error;
-        },
-      );
+      // Only managers reassign, and they see every order of the farm: re-read without the access check.
+      const after = await findWorkOrder(db, id);
+      if (!after) throw notFound('Work order');
       if (
         input.assigneeId !== undefined &&
         input.assigneeId !== null &&
@@ -487,7 +487,7 @@ export function createWorkOrdersService(options: {
           notes: after.order.findingNotes,
         });
       }
-      return detail(ctx, after, roleAfter);
+      return detail(ctx, after, role);
     },
 
     async setChecklist(ctx, id, itemId, isChecked) {
@@ -512,7 +512,7 @@ export function createWorkOrdersService(options: {
         return true;
       });
       if (!isChanged) throw notFound('Checklist item');
-      return detail(ctx, (await visible(ctx, id)).row, role);
+      return fresh(ctx, id, role);
     },
 
     async addPhotos(ctx, id, files) {
@@ -570,7 +570,7 @@ export function createWorkOrdersService(options: {
         await Promise.all(written.map((name) => rm(join(folder, name), { force: true })));
         throw error;
       }
-      return detail(ctx, (await visible(ctx, id)).row, role);
+      return fresh(ctx, id, role);
     },
 
     async photo(ctx, id, photoId) {

@@ -24,6 +24,7 @@ import {
   type ExceptionView,
 } from '@tierscope/contracts';
 import { firstValueFrom } from 'rxjs';
+import { EXCEPTION_KIND_LABELS } from '@tierscope/domain';
 import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
@@ -130,12 +131,7 @@ export class ExceptionsPage {
   }
 
   protected what(e: ExceptionView): string {
-    return {
-      shortfall: 'Shortfall',
-      silent_counter: 'Silent counter',
-      collector_gap: 'Collector gap',
-      house_dip: 'House dip',
-    }[e.kind];
+    return EXCEPTION_KIND_LABELS[e.kind];
   }
 
   protected async acknowledge(e: ExceptionView): Promise<void> {

@@ -1,5 +1,10 @@
 import type { ImportMappingInput } from '@tierscope/contracts';
-import { detectDecimalMark, detectDelimiter, type Delimiter } from '@tierscope/domain';
+import {
+  detectDecimalMark,
+  detectDelimiter,
+  LINE_ENDINGS,
+  type Delimiter,
+} from '@tierscope/domain';
 import { parse } from 'csv-parse/browser/esm/sync';
 
 export interface CsvPreview {
@@ -25,7 +30,7 @@ export function previewCsv(
     : sample.slice(0, Math.max(0, sample.lastIndexOf('\n'))).replace(/\r$/, '');
   const records: string[][] = parse(text, {
     delimiter: used,
-    record_delimiter: ['\r\n', '\n', '\r'],
+    record_delimiter: LINE_ENDINGS,
     bom: true,
     relax_column_count: true,
     relax_quotes: true,

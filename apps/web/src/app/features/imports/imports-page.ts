@@ -42,6 +42,7 @@ import { firstValueFrom, startWith } from 'rxjs';
 import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
+import { FarmSelect } from '../../shared/ui/farm-select';
 import { LoadState, listState } from '../../shared/ui/load-state';
 import { guessLongMapping, guessTimestampFormat, previewCsv, type CsvPreview } from './csv-preview';
 import { ImportProgress } from './import-progress';
@@ -54,6 +55,7 @@ type WideColumn = Extract<ImportMappingInput, { layout: 'wide' }>['columns'][num
 @Component({
   selector: 'ts-imports-page',
   imports: [
+    FarmSelect,
     DatePipe,
     DecimalPipe,
     ReactiveFormsModule,

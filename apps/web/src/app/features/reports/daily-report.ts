@@ -21,26 +21,22 @@ import { MatSort, MatSortModule } from '@angular/material/sort';
 import { MatTableDataSource, MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
 import { dailyReportSchema, houseSchema, type DailyReport } from '@tierscope/contracts';
+import { EXCEPTION_KIND_LABELS, type ExceptionKind } from '@tierscope/domain';
 import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { FileDownload } from '../../core/http/file-download';
+import { FarmSelect } from '../../shared/ui/farm-select';
 import { LoadState } from '../../shared/ui/load-state';
 import { localDay } from '../../shared/ui/local-dates';
 
 type SectionLine = DailyReport['sections'][number];
 
-const KIND_WORDS: Record<string, string> = {
-  shortfall: 'Shortfall',
-  silent_counter: 'Silent counter',
-  collector_gap: 'Collector gap',
-  house_dip: 'House dip',
-};
-
 /** One production day of a house, section by section: sortable, paged, exportable and printable. */
 @Component({
   selector: 'ts-daily-report',
   imports: [
+    FarmSelect,
     DecimalPipe,
     RouterLink,
     MatButtonModule,
@@ -116,8 +112,8 @@ export class DailyReportView {
     });
   }
 
-  protected kindWords(kind: string | null): string {
-    return kind ? (KIND_WORDS[kind] ?? kind) : '';
+  protected kindWords(kind: ExceptionKind | null): string {
+    return kind ? EXCEPTION_KIND_LABELS[kind] : '';
   }
 
   protected print(): void {

@@ -10,13 +10,13 @@ import {
 } from '@angular/core';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
-import { MatSelectModule } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
 import { farmSummarySchema, type FarmSummary } from '@tierscope/contracts';
 import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
+import { FarmSelect } from '../../shared/ui/farm-select';
 import { LoadState } from '../../shared/ui/load-state';
 import { localDay } from '../../shared/ui/local-dates';
 
@@ -36,11 +36,11 @@ const HOUSE_COLOURS = [
 @Component({
   selector: 'ts-farm-summary',
   imports: [
+    FarmSelect,
     DecimalPipe,
     NgxEchartsDirective,
     MatFormFieldModule,
     MatInputModule,
-    MatSelectModule,
     MatTableModule,
     LoadState,
   ],

@@ -10,7 +10,6 @@ import {
 } from '@angular/core';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
-import { MatSelectModule } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
 import { workOrderReportSchema, type WorkOrderReport } from '@tierscope/contracts';
 import { can, FINDING_CAUSE_LABELS, FINDING_CAUSES } from '@tierscope/domain';
@@ -18,6 +17,7 @@ import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
+import { FarmSelect } from '../../shared/ui/farm-select';
 import { LoadState } from '../../shared/ui/load-state';
 
 /** Colour-blind-safe categorical colours (Okabe & Ito, "Color Universal Design", 2002), one per cause. */
@@ -36,11 +36,11 @@ const CAUSE_COLOURS = [
 @Component({
   selector: 'ts-work-order-report',
   imports: [
+    FarmSelect,
     DecimalPipe,
     NgxEchartsDirective,
     MatFormFieldModule,
     MatInputModule,
-    MatSelectModule,
     MatTableModule,
     LoadState,
   ],
