@@ -22,7 +22,12 @@ export default defineConfig({
       {
         test: {
           name: 'api',
-          include: ['apps/api/**/*.spec.ts', 'db/**/*.spec.ts', 'tests/integration/**/*.spec.ts'],
+          include: [
+            'apps/api/**/*.spec.ts',
+            'db/**/*.spec.ts',
+            'tests/integration/**/*.spec.ts',
+            'tests/robustness/**/*.spec.ts',
+          ],
           environment: 'node',
           // Each file makes its own database; two files at once would still be fine, but 2 cores are few.
           fileParallelism: false,

@@ -66,6 +66,41 @@ function stopAll(code: number): void {
   process.exit(code);
 }
 
+/** Restarts within this long of each other mean the API cannot stay up: then stop instead of looping. */
+const RESTART_WINDOW_MS = 60_000;
+const MAX_RESTARTS_IN_WINDOW = 5;
+
+/**
+ * Starts the API and starts it again if it crashes (the database, the simulator and the mail catcher keep
+ * running; the simulator keeps its unsent batches and retries). Only a crash loop stops everything.
+ */
+function superviseApi(env: NodeJS.ProcessEnv): void {
+  const restarts: number[] = [];
+  const launch = () => {
+    // One node process with tsx's loader (not npx → tsx → node), so stopping it stops the API itself.
+    const api = spawn(process.execPath, API_NODE_ARGS, { cwd: ROOT, env, stdio: 'inherit' });
+    children.push(api);
+    api.on('exit', (code, signal) => {
+      children.splice(children.indexOf(api), 1);
+      if (isStopping) return;
+      const now = Date.now();
+      restarts.push(now);
+      while (restarts.length > 0 && (restarts[0] ?? now) < now - RESTART_WINDOW_MS)
+        restarts.shift();
+      if (restarts.length > MAX_RESTARTS_IN_WINDOW) {
+        console.error(
+          `[start] the API exited ${restarts.length} times within a minute (last: ${code ?? signal}); stopping`,
+        );
+        stopAll(1);
+        return;
+      }
+      console.error(`[start] the API exited (${code ?? signal}); starting it again in 1 s`);
+      setTimeout(launch, 1000);
+    });
+  };
+  launch();
+}
+
 function isPortFree(port: number): Promise<boolean> {
   return new Promise((resolve) => {
     const probe = createServer();
@@ -152,19 +187,7 @@ async function main(): Promise<void> {
     JWT_SECRET: jwtSecret(),
     WEB_DIST: join(ROOT, 'dist/web/browser'),
   };
-  // One node process with tsx's loader (not npx → tsx → node), so stopping it stops the API itself.
-  const api = spawn(process.execPath, API_NODE_ARGS, {
-    cwd: ROOT,
-    env,
-    stdio: 'inherit',
-  });
-  children.push(api);
-  api.on('exit', (code) => {
-    if (!isStopping) {
-      console.error(`[start] the API exited (${code}); stopping`);
-      stopAll(1);
-    }
-  });
+  superviseApi(env);
   const url = `http://127.0.0.1:${PORT}`;
   await waitForHealth(url, 60_000);
 

@@ -1,4 +1,12 @@
-import { boolean, pgTable, serial, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
+import {
+  boolean,
+  integer,
+  pgTable,
+  serial,
+  text,
+  timestamp,
+  uniqueIndex,
+} from 'drizzle-orm/pg-core';
 import { sql } from 'drizzle-orm';
 
 export const users = pgTable(
@@ -10,6 +18,8 @@ export const users = pgTable(
     /** argon2id PHC string; never the password. */
     passwordHash: text('password_hash').notNull(),
     disabled: boolean('disabled').notNull().default(false),
+    /** Carried in every token; raised when the password is reset, so tokens issued before stop working. */
+    sessionVersion: integer('session_version').notNull().default(0),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },
   // Sign-in looks users up by e-mail, whatever its case.

@@ -22,6 +22,7 @@ import { createAuthenticator } from './platform/auth';
 import type { AppConfig } from './platform/config';
 import { AppError, errorMiddleware } from './platform/errors';
 import { createEventBus, type EventBus } from './platform/events';
+import { inputGuard } from './platform/input-guard';
 import { buildOpenApiDocument } from './platform/openapi';
 import { createTokenService, type TokenService } from './platform/tokens';
 import { EvaluationScheduler } from './features/evaluation/evaluation-scheduler';
@@ -140,6 +141,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
   const ingest = ingestRoutes(db, createIngestService(db, events), info);
   app.use('/api/v1', ingest);
   app.use(express.json({ limit: '1mb' }));
+  app.use(inputGuard());
 
   const authenticate = createAuthenticator(tokens, (id) => loadActiveUser(db, id));
   const openApi = buildOpenApiDocument(API_VERSION);
@@ -155,15 +157,20 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
   });
   v1.use(
     '/auth',
-    authRoutes(createAuthService(db, tokens, runtime.notifier), authenticate, {
-      maxFailures: config.loginMaxFailures,
-      windowSeconds: config.loginWindowSeconds,
-    }),
+    authRoutes(
+      createAuthService(db, tokens, runtime.notifier, events),
+      authenticate,
+      {
+        maxFailures: config.loginMaxFailures,
+        windowSeconds: config.loginWindowSeconds,
+      },
+      log,
+    ),
   );
   v1.use(authenticate);
   v1.use(farmsRoutes(createFarmsService(db)));
   v1.use(housesRoutes(createHousesService(db)));
-  v1.use(usersRoutes(createUsersService(db, runtime.notifier)));
+  v1.use(usersRoutes(createUsersService(db, runtime.notifier, events)));
   v1.use(gatewaysRoutes(createGatewaysService(db)));
   v1.use(exceptionsRoutes(runtime.exceptions));
   v1.use(

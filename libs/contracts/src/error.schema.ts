@@ -9,6 +9,3 @@ export const apiErrorSchema = z.object({
   }),
 });
 export type ApiError = z.infer<typeof apiErrorSchema>;
-
-/** Positive database ids as they appear in URLs. */
-export const idParam = z.coerce.number().int().positive();

@@ -1,6 +1,7 @@
 import { z } from 'zod';
+import { calendarDay } from './primitives.schema';
 
-const day = z.iso.date('A date such as 2026-11-01');
+const day = calendarDay('A date such as 2026-11-01');
 
 export const flockCreateSchema = z.object({
   placedOn: day,

@@ -1,3 +1,4 @@
+export * from './primitives.schema';
 export * from './error.schema';
 export * from './auth.schema';
 export * from './farm.schema';

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { instant, safeText } from './primitives.schema';
 
 /** The most readings one batch may carry; a larger batch is answered 413. */
 export const MAX_READINGS_PER_BATCH = 10_000;
@@ -10,8 +11,8 @@ export const MAX_EGGS_PER_READING = 1_000_000;
 /** One reading as a gateway sends it: `eggs` since the previous reading, or the counter's running `total`. */
 export const readingInputSchema = z
   .object({
-    counter: z.string().trim().min(1, 'counter is empty').max(100, 'counter id is too long'),
-    ts: z.iso.datetime({ offset: true, error: 'ts must be an ISO-8601 time with an offset' }),
+    counter: safeText().trim().min(1, 'counter is empty').max(100, 'counter id is too long'),
+    ts: instant('ts must be an ISO-8601 time with an offset'),
     eggs: z
       .number('eggs must be a number')
       .int('eggs must be a whole number')

@@ -1,5 +1,6 @@
 import { EXCEPTION_KINDS, EXCEPTION_SCOPES, WINDOW_KINDS } from '@tierscope/domain';
 import { z } from 'zod';
+import { calendarDay, dbId, idParam, instant } from './primitives.schema';
 
 export const EXCEPTION_STATUSES = ['open', 'acknowledged', 'closed'] as const;
 /** Reasons a person may close an exception with; `recovered` is the engine's own. */
@@ -8,8 +9,8 @@ export const PERSON_CLOSE_REASONS = ['normal_for_spot', 'fixed', 'false_alarm', 
 export const mapQuerySchema = z
   .object({
     window: z.enum(WINDOW_KINDS).default('today'),
-    from: z.iso.date('from is a date such as 2026-11-01').optional(),
-    to: z.iso.date('to is a date such as 2026-11-30').optional(),
+    from: calendarDay('from is a date such as 2026-11-01').optional(),
+    to: calendarDay('to is a date such as 2026-11-30').optional(),
   })
   .refine(
     (q) => q.window !== 'custom' || (q.from !== undefined && q.to !== undefined && q.from <= q.to),
@@ -86,12 +87,12 @@ export const exceptionSchema = z.object({
 export type ExceptionView = z.infer<typeof exceptionSchema>;
 
 export const exceptionsQuerySchema = z.object({
-  farmId: z.coerce.number().int().positive().optional(),
-  houseId: z.coerce.number().int().positive().optional(),
+  farmId: idParam.optional(),
+  houseId: idParam.optional(),
   status: z.enum([...EXCEPTION_STATUSES, 'live']).optional(),
   kind: z.enum(EXCEPTION_KINDS).optional(),
-  from: z.iso.datetime({ offset: true }).optional(),
-  to: z.iso.datetime({ offset: true }).optional(),
+  from: instant().optional(),
+  to: instant().optional(),
 });
 export type ExceptionsQuery = z.infer<typeof exceptionsQuerySchema>;
 
@@ -104,8 +105,8 @@ export type CloseException = z.infer<typeof closeExceptionSchema>;
 /** Messages the browser sends on /api/v1/live. */
 export const liveClientMessageSchema = z.discriminatedUnion('type', [
   z.object({ type: z.literal('auth'), token: z.string().min(1) }),
-  z.object({ type: z.literal('subscribe'), houseId: z.number().int().positive() }),
-  z.object({ type: z.literal('unsubscribe'), houseId: z.number().int().positive() }),
+  z.object({ type: z.literal('subscribe'), houseId: dbId }),
+  z.object({ type: z.literal('unsubscribe'), houseId: dbId }),
 ]);
 export type LiveClientMessage = z.infer<typeof liveClientMessageSchema>;
 

@@ -1,11 +1,12 @@
 import { EXCEPTION_KINDS } from '@tierscope/domain';
 import { z } from 'zod';
+import { calendarDay, idParam } from './primitives.schema';
 import { exceptionSchema } from './live.schema';
 
-const day = z.iso.date('A date such as 2026-11-30');
+const day = calendarDay('A date such as 2026-11-30');
 
 export const dailyReportQuerySchema = z.object({
-  houseId: z.coerce.number().int().positive(),
+  houseId: idParam,
   day,
 });
 export type DailyReportQuery = z.infer<typeof dailyReportQuerySchema>;
@@ -43,7 +44,7 @@ export const dailyReportSchema = z.object({
 export type DailyReport = z.infer<typeof dailyReportSchema>;
 
 export const farmSummaryQuerySchema = z
-  .object({ farmId: z.coerce.number().int().positive(), from: day, to: day })
+  .object({ farmId: idParam, from: day, to: day })
   .refine((q) => q.from <= q.to, { error: 'from comes before to', path: ['from'] })
   .refine((q) => Date.parse(q.to) - Date.parse(q.from) <= 400 * 86_400_000, {
     error: 'At most 400 days at once',

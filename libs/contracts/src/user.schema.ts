@@ -1,10 +1,11 @@
 import { z } from 'zod';
+import { dbId } from './primitives.schema';
 import { roleSchema } from './auth.schema';
 
 export const PASSWORD_MIN_LENGTH = 10;
 
 export const membershipInputSchema = z.object({
-  farmId: z.number().int().positive(),
+  farmId: dbId,
   role: roleSchema,
 });
 

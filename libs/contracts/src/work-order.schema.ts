@@ -1,24 +1,25 @@
 import { FINDING_CAUSES, WORK_ORDER_PRIORITIES, WORK_ORDER_STATES } from '@tierscope/domain';
 import { z } from 'zod';
+import { calendarDay, dbId, idParam } from './primitives.schema';
 
 const location = {
-  houseId: z.number().int().positive(),
+  houseId: dbId,
   row: z.number().int().min(1, 'Rows are numbered from 1').max(200).nullable().default(null),
   tier: z.number().int().min(1, 'Tiers are numbered from 1').max(12).nullable().default(null),
 };
 const title = z.string().trim().min(3, 'Give the work order a title').max(160);
 const checklistLabel = z.string().trim().min(1, 'A checklist item needs words').max(200);
-const dueOn = z.iso.date('Due is a date such as 2026-12-24').nullable();
+const dueOn = calendarDay('Due is a date such as 2026-12-24').nullable();
 
 export const workOrderCreateSchema = z.object({
   ...location,
   title,
   description: z.string().trim().max(4000).default(''),
   priority: z.enum(WORK_ORDER_PRIORITIES).default('normal'),
-  assigneeId: z.number().int().positive().nullable().default(null),
+  assigneeId: dbId.nullable().default(null),
   dueOn: dueOn.default(null),
   /** when opened from an exception: the house, spot and checklist come from it */
-  exceptionId: z.number().int().positive().optional(),
+  exceptionId: dbId.optional(),
   checklist: z.array(checklistLabel).max(40).optional(),
 });
 export type WorkOrderCreate = z.input<typeof workOrderCreateSchema>;
@@ -29,7 +30,7 @@ export const workOrderUpdateSchema = z
     title,
     description: z.string().trim().max(4000),
     priority: z.enum(WORK_ORDER_PRIORITIES),
-    assigneeId: z.number().int().positive().nullable(),
+    assigneeId: dbId.nullable(),
     dueOn,
     state: z.enum(WORK_ORDER_STATES),
     findingCause: z.enum(FINDING_CAUSES).nullable(),
@@ -47,10 +48,10 @@ export const checklistToggleSchema = z.object({ isChecked: z.boolean() });
 export type ChecklistToggle = z.infer<typeof checklistToggleSchema>;
 
 export const workOrdersQuerySchema = z.object({
-  farmId: z.coerce.number().int().positive().optional(),
-  houseId: z.coerce.number().int().positive().optional(),
+  farmId: idParam.optional(),
+  houseId: idParam.optional(),
   state: z.enum([...WORK_ORDER_STATES, 'active']).optional(),
-  assigneeId: z.coerce.number().int().positive().optional(),
+  assigneeId: idParam.optional(),
   /** only what is assigned to the caller ("My work") */
   mine: z
     .enum(['true', 'false'])
@@ -60,7 +61,7 @@ export const workOrdersQuerySchema = z.object({
     .enum(['true', 'false'])
     .transform((v) => v === 'true')
     .optional(),
-  exceptionId: z.coerce.number().int().positive().optional(),
+  exceptionId: idParam.optional(),
 });
 export type WorkOrdersQuery = z.infer<typeof workOrdersQuerySchema>;
 
@@ -138,9 +139,9 @@ export const assigneeSchema = z.object({
 export type Assignee = z.infer<typeof assigneeSchema>;
 
 export const workOrderReportQuerySchema = z.object({
-  farmId: z.coerce.number().int().positive(),
-  from: z.iso.date('from is a date such as 2026-11-01').optional(),
-  to: z.iso.date('to is a date such as 2026-11-30').optional(),
+  farmId: idParam,
+  from: calendarDay('from is a date such as 2026-11-01').optional(),
+  to: calendarDay('to is a date such as 2026-11-30').optional(),
 });
 export type WorkOrderReportQuery = z.infer<typeof workOrderReportQuerySchema>;
 

@@ -1,3 +1,4 @@
+import { MAX_DB_ID } from '@tierscope/contracts';
 import type { Role } from '@tierscope/domain';
 import type { RequestHandler } from 'express';
 import { Passport } from 'passport';
@@ -12,6 +13,8 @@ export interface AuthUser {
   readonly name: string;
   /** farm id → role on that farm */
   readonly roles: ReadonlyMap<number, Role>;
+  /** tokens issued under another version (before a password reset) are refused */
+  readonly sessionVersion: number;
 }
 
 export interface RequestContext {
@@ -44,15 +47,19 @@ export function createAuthenticator(
         issuer: tokens.issuer,
         audience: tokens.audience,
       },
-      (payload: { sub?: string }, done: (error: unknown, user?: AuthUser | false) => void) => {
+      (
+        payload: { sub?: string; sv?: unknown },
+        done: (error: unknown, user?: AuthUser | false) => void,
+      ) => {
         const userId = Number(payload.sub);
-        if (!Number.isInteger(userId)) {
+        const sessionVersion = Number(payload.sv ?? 0);
+        if (!Number.isInteger(userId) || userId > MAX_DB_ID || !Number.isInteger(sessionVersion)) {
           done(null, false);
           return;
         }
         loadUser(userId).then(
           (user) => {
-            done(null, user ?? false);
+            done(null, user?.sessionVersion === sessionVersion ? user : false);
           },
           (error: unknown) => {
             done(error);

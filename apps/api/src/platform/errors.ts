@@ -12,6 +12,7 @@ export type ErrorCode =
   | 'conflict'
   | 'too_many_requests'
   | 'payload_too_large'
+  | 'unsupported_media_type'
   | 'unavailable'
   | 'internal';
 
@@ -25,6 +26,7 @@ const STATUS: Record<ErrorCode, number> = {
   conflict: 409,
   too_many_requests: 429,
   payload_too_large: 413,
+  unsupported_media_type: 415,
   unavailable: 503,
   internal: 500,
 };
@@ -92,12 +94,8 @@ export function errorMiddleware(
         'unavailable',
         'The database is not reachable right now: try again shortly',
       );
-    } else if (isBodyParserError(error) && error.type === 'entity.too.large') {
-      appError = new AppError('payload_too_large', 'The request body is too large');
-    } else if (isBodyParserError(error)) {
-      appError = new AppError('validation_failed', 'The request body is not valid JSON', [
-        { path: '(root)', message: 'Malformed JSON' },
-      ]);
+    } else if (isClientError(error)) {
+      appError = clientError(error);
     } else {
       log('unhandled error', error);
       appError = new AppError('internal', 'Something went wrong on our side');
@@ -135,6 +133,38 @@ function isDatabaseUnavailable(error: unknown): boolean {
   return false;
 }
 
-function isBodyParserError(error: unknown): error is { type: string; status: number } {
-  return typeof error === 'object' && error !== null && 'type' in error && 'status' in error;
+/**
+ * An error that Express, body-parser or zlib raised about the request itself (http-errors style: a 4xx
+ * `status`): a path that is not valid percent-encoding, a body that is not JSON, an encoding or charset
+ * not taken, a compressed body that does not inflate, a body too large once inflated.
+ */
+function isClientError(error: unknown): error is { status: number; type?: unknown } {
+  if (typeof error !== 'object' || error === null || !('status' in error)) return false;
+  const { status } = error;
+  return typeof status === 'number' && status >= 400 && status < 500;
+}
+
+function clientError(error: { status: number; type?: unknown }): AppError {
+  if (error.status === 413 || error.type === 'entity.too.large') {
+    return new AppError('payload_too_large', 'The request body is too large');
+  }
+  if (error.status === 415) {
+    return new AppError(
+      'unsupported_media_type',
+      'Send JSON in UTF-8, uncompressed or with gzip or deflate',
+    );
+  }
+  if (error.type === 'entity.parse.failed') {
+    return new AppError('validation_failed', 'The request body is not valid JSON', [
+      { path: '(root)', message: 'Malformed JSON' },
+    ]);
+  }
+  if (error instanceof URIError || /decode param/i.test(error instanceof Error ? error.message : '')) {
+    return new AppError('validation_failed', 'The request path is not valid', [
+      { path: 'path', message: 'Not valid percent-encoding' },
+    ]);
+  }
+  return new AppError('validation_failed', 'The request could not be read', [
+    { path: '(root)', message: 'Malformed request body' },
+  ]);
 }

@@ -33,6 +33,11 @@ export interface DomainEvents {
     bytesRead: number;
     bytes: number;
   };
+  /** A person's access changed: disabled, roles changed, or password reset (older tokens retired). */
+  'user.access-changed': {
+    userId: number;
+    reason: 'disabled' | 'roles' | 'password';
+  };
   /** A person acknowledged or closed an exception. */
   'exception.changed': {
     farmId: number;

@@ -44,6 +44,10 @@ import {
   flockSchema,
   flockUpdateSchema,
   mortalityEntrySchema,
+  houseMapSchema,
+  cellDetailSchema,
+  exceptionSchema,
+  closeExceptionSchema,
 } from '@tierscope/contracts';
 import { z } from 'zod';
 
@@ -437,6 +441,37 @@ export function buildOpenApiDocument(version: string) {
       path: '/api/v1/reports/daily.csv',
       summary: 'The daily house report as CSV',
       responses: { 200: { description: 'text/csv' }, ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/houses/{houseId}/map',
+      summary: 'The rows × tiers map of a house for a window. Query: window, from, to',
+      responses: { 200: ok(houseMapSchema), ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/houses/{houseId}/cells/{row}/{tier}',
+      summary: 'One section of a house: today, the last days against expected, its exception',
+      responses: { 200: ok(cellDetailSchema), ...errors },
+    },
+    {
+      method: 'get',
+      path: '/api/v1/exceptions',
+      summary: 'Exceptions on your farms. Query: farmId, houseId, status, kind, from, to',
+      responses: { 200: ok(z.array(exceptionSchema)), ...errors },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/exceptions/{exceptionId}/acknowledge',
+      summary: 'Acknowledge an exception (someone is on it)',
+      responses: { 200: ok(exceptionSchema), ...errors },
+    },
+    {
+      method: 'post',
+      path: '/api/v1/exceptions/{exceptionId}/close',
+      summary: 'Close an exception with a reason',
+      body: closeExceptionSchema,
+      responses: { 200: ok(exceptionSchema), ...errors },
     },
     {
       method: 'get',

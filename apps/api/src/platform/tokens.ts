@@ -3,10 +3,17 @@ import jwt from 'jsonwebtoken';
 const ISSUER = 'tierscope';
 const AUDIENCE = 'tierscope-user';
 
+/** What a valid token says: whose it is, the session version it was issued under, when it ends. */
+export interface TokenClaims {
+  userId: number;
+  sessionVersion: number;
+  expiresAt: Date;
+}
+
 export interface TokenService {
-  sign(userId: number): { token: string; expiresAt: Date };
-  /** The user id of a valid, unexpired token; null for anything else. */
-  verify(token: string): number | null;
+  sign(userId: number, sessionVersion: number): { token: string; expiresAt: Date };
+  /** The claims of a valid, unexpired token; null for anything else. */
+  verify(token: string): TokenClaims | null;
   readonly secret: string;
   readonly issuer: string;
   readonly audience: string;
@@ -18,8 +25,8 @@ export function createTokenService(secret: string, ttlSeconds: number): TokenSer
     secret,
     issuer: ISSUER,
     audience: AUDIENCE,
-    sign(userId) {
-      const token = jwt.sign({}, secret, {
+    sign(userId, sessionVersion) {
+      const token = jwt.sign({ sv: sessionVersion }, secret, {
         algorithm: 'HS256',
         subject: String(userId),
         issuer: ISSUER,
@@ -35,8 +42,13 @@ export function createTokenService(secret: string, ttlSeconds: number): TokenSer
           issuer: ISSUER,
           audience: AUDIENCE,
         });
-        const id = typeof claims === 'object' ? Number(claims.sub) : Number.NaN;
-        return Number.isInteger(id) ? id : null;
+        if (typeof claims !== 'object') return null;
+        const userId = Number(claims.sub);
+        const sessionVersion = Number((claims as { sv?: unknown }).sv ?? 0);
+        if (!Number.isInteger(userId) || !Number.isInteger(sessionVersion) || !claims.exp) {
+          return null;
+        }
+        return { userId, sessionVersion, expiresAt: new Date(claims.exp * 1000) };
       } catch {
         // Expired, tampered or foreign: all mean "not signed in".
         return null;

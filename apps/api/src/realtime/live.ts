@@ -16,11 +16,25 @@ export const LIVE_PATH = '/api/v1/live';
 const MAX_BUFFERED_BYTES = 256 * 1024;
 const FRAME_THROTTLE_MS = 100;
 const HEARTBEAT_MS = 30_000;
+/** A socket that has not signed in by then is closed. */
 const AUTH_TIMEOUT_MS = 10_000;
+/** The largest message a browser sends is a sign-in with its token: far below this. */
+const MAX_MESSAGE_BYTES = 16 * 1024;
+/** Houses one socket may watch at once (a person looks at a few; a farm has at most a few dozen). */
+export const MAX_SUBSCRIPTIONS = 64;
+/** Messages waiting to be handled on one socket; a client that floods past this is closed. */
+const MAX_PENDING_MESSAGES = 32;
+
+/** Close codes the browser reads: sign in again; or reconnect (access changed, server going away). */
+export const CLOSE_SIGN_IN = 4401;
+export const CLOSE_ACCESS_CHANGED = 4403;
+const CLOSE_POLICY = 1008;
 
 interface Client {
   socket: WebSocket;
   user: AuthUser | null;
+  /** the token's own end: the socket closes then, as a request with that token would be refused */
+  tokenExpiresAt: Date | null;
   houses: Set<number>;
   isAlive: boolean;
   /** newest frame per house not yet sent because the client was slow */
@@ -44,7 +58,11 @@ export function attachLive(
   server: Server,
   deps: LiveDeps,
 ): { close(): void; clientCount(): number } {
-  const wss = new WebSocketServer({ noServer: true, maxPayload: 16 * 1024 });
+  const wss = new WebSocketServer({ noServer: true, maxPayload: MAX_MESSAGE_BYTES });
+  // Errors of the server itself (never of one socket) are logged; they must not stop the process.
+  wss.on('error', (error) => {
+    deps.log('live socket server error', error);
+  });
   const clients = new Set<Client>();
   const frameTimers = new Map<number, ReturnType<typeof setTimeout>>();
 
@@ -142,6 +160,14 @@ export function attachLive(
         }
       }
     }),
+    deps.events.on('user.access-changed', (e) => {
+      for (const client of clients) {
+        if (client.user?.id !== e.userId) continue;
+        if (e.reason === 'roles') {
+          client.socket.close(CLOSE_ACCESS_CHANGED, 'your access changed: reconnect');
+        } else client.socket.close(CLOSE_SIGN_IN, 'sign in again');
+      }
+    }),
     deps.events.on('exception.changed', (e) => {
       scheduleFrame(e.houseId);
       pushExceptions(e.houseId, [e.exception.id]).catch((error: unknown) => {
@@ -154,14 +180,22 @@ export function attachLive(
     const client: Client = {
       socket,
       user: null,
+      tokenExpiresAt: null,
       houses: new Set(),
       isAlive: true,
       waiting: new Map(),
     };
     clients.add(client);
     const authTimer = setTimeout(() => {
-      if (!client.user) socket.close(4401, 'sign in first');
+      if (!client.user) socket.close(CLOSE_SIGN_IN, 'sign in first');
     }, AUTH_TIMEOUT_MS);
+    // A bad frame (invalid UTF-8, unmasked, too large) is an error of this socket only: ws has already
+    // started closing it with the right code; without this listener the error would stop the process.
+    socket.on('error', (error: Error) => {
+      deps.log(`live socket closed on a bad frame: ${error.message}`);
+      socket.terminate();
+    });
+    let pending = 0;
     socket.on('pong', () => {
       client.isAlive = true;
     });
@@ -169,12 +203,22 @@ export function attachLive(
       clearTimeout(authTimer);
       clients.delete(client);
     });
-    // Text frames arrive as one Buffer (no fragments: maxPayload is small).
+    // Text frames arrive as one Buffer (fragments are joined by ws up to maxPayload).
     // One message at a time per client, in order: a subscribe sent right after auth waits for the sign-in.
     let queue: Promise<void> = Promise.resolve();
-    socket.on('message', (data: Buffer) => {
+    socket.on('message', (data: Buffer, isBinary: boolean) => {
+      if (isBinary) {
+        socket.close(CLOSE_POLICY, 'messages are JSON text');
+        return;
+      }
+      pending += 1;
+      if (pending > MAX_PENDING_MESSAGES) {
+        socket.close(CLOSE_POLICY, 'too many messages');
+        return;
+      }
       queue = queue
         .then(async () => {
+          if (socket.readyState !== WebSocket.OPEN) return;
           let raw: unknown;
           try {
             raw = JSON.parse(data.toString('utf8'));
@@ -190,29 +234,43 @@ export function attachLive(
           }
           const message = parsed.data;
           if (message.type === 'auth') {
-            const userId = deps.tokens.verify(message.token);
-            const user = userId === null ? null : await loadActiveUser(deps.db, userId);
-            if (!user) {
-              socket.close(4401, 'invalid or expired token');
+            const claims = deps.tokens.verify(message.token);
+            const user = claims === null ? null : await loadActiveUser(deps.db, claims.userId);
+            if (!claims || user?.sessionVersion !== claims.sessionVersion) {
+              socket.close(CLOSE_SIGN_IN, 'invalid or expired token');
               return;
             }
             client.user = user;
+            client.tokenExpiresAt = claims.expiresAt;
             clearTimeout(authTimer);
             send(client, { type: 'ready' });
             return;
           }
           if (!client.user) {
-            socket.close(4401, 'sign in first');
+            socket.close(CLOSE_SIGN_IN, 'sign in first');
             return;
           }
           if (message.type === 'unsubscribe') {
             client.houses.delete(message.houseId);
             return;
           }
+          if (!client.houses.has(message.houseId) && client.houses.size >= MAX_SUBSCRIPTIONS) {
+            send(client, {
+              type: 'error',
+              code: 'bad_message',
+              message: `Watch at most ${MAX_SUBSCRIPTIONS} houses on one connection`,
+              houseId: message.houseId,
+            });
+            return;
+          }
           // Re-read the user so a role taken away since sign-in counts at once.
           const user = await loadActiveUser(deps.db, client.user.id);
+          if (user?.sessionVersion !== client.user.sessionVersion) {
+            socket.close(CLOSE_SIGN_IN, 'sign in again');
+            return;
+          }
           const house = await findHouse(deps.db, message.houseId);
-          if (!user || !house || !user.roles.has(house.farmId)) {
+          if (!house || !user.roles.has(house.farmId)) {
             send(client, {
               type: 'error',
               code: 'not_found',
@@ -227,9 +285,47 @@ export function attachLive(
         })
         .catch((error: unknown) => {
           deps.log('live message failed', error);
+          send(client, { type: 'error', code: 'bad_message', message: 'That message failed' });
+        })
+        .finally(() => {
+          pending -= 1;
         });
     });
   });
+
+  /**
+   * Every signed-in socket is checked again against the database on each heartbeat: a token that has
+   * ended, or a user disabled or reset by any API process, closes the socket within one beat.
+   */
+  const recheckUsers = async () => {
+    const now = Date.now();
+    const byUser = new Map<number, Client[]>();
+    for (const client of clients) {
+      if (!client.user) continue;
+      if (client.tokenExpiresAt && client.tokenExpiresAt.getTime() <= now) {
+        client.socket.close(CLOSE_SIGN_IN, 'your session has ended');
+        continue;
+      }
+      const list = byUser.get(client.user.id) ?? [];
+      list.push(client);
+      byUser.set(client.user.id, list);
+    }
+    for (const [userId, list] of byUser) {
+      const user = await loadActiveUser(deps.db, userId);
+      for (const client of list) {
+        if (!user || user.sessionVersion !== client.user?.sessionVersion) {
+          client.socket.close(CLOSE_SIGN_IN, 'sign in again');
+        } else {
+          // Houses on farms no longer theirs stop at once.
+          for (const houseId of client.houses) {
+            const house = await findHouse(deps.db, houseId);
+            if (!house || !user.roles.has(house.farmId)) client.houses.delete(houseId);
+          }
+          client.user = user;
+        }
+      }
+    }
+  };
 
   const heartbeat = setInterval(() => {
     for (const client of clients) {
@@ -241,6 +337,9 @@ export function attachLive(
       client.isAlive = false;
       client.socket.ping();
     }
+    recheckUsers().catch((error: unknown) => {
+      deps.log('live user re-check failed', error);
+    });
   }, HEARTBEAT_MS);
 
   return {

@@ -41,6 +41,7 @@ export function authRoutes(
   service: AuthService,
   authenticate: RequestHandler,
   limits: { maxFailures: number; windowSeconds: number },
+  log: (message: string, error?: unknown) => void,
 ): Router {
   const router = Router();
   router.post(
@@ -50,13 +51,19 @@ export function authRoutes(
       res.json(await service.login(parseInput(loginRequestSchema, req.body)));
     },
   );
-  // The same answer whether or not the address has an account, so it cannot be used to find accounts.
+  // The same answer, in the same time, whether or not the address has an account: the look-up and the
+  // mail happen after the answer has gone, so neither its words nor its timing can find accounts.
   router.post(
     '/forgot',
     loginLimiter(limits.maxFailures, limits.windowSeconds, false),
-    async (req, res) => {
-      await service.forgot(parseInput(forgotPasswordSchema, req.body));
+    (req, res) => {
+      const input = parseInput(forgotPasswordSchema, req.body);
       res.status(202).json({ message: 'If that address has an account, a link is on its way.' });
+      setImmediate(() => {
+        service.forgot(input).catch((error: unknown) => {
+          log('password reset mail failed', error);
+        });
+      });
     },
   );
   router.post(

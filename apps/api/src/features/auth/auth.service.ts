@@ -9,6 +9,7 @@ import type {
 import type { Database } from '@tierscope/db';
 import { AppError } from '../../platform/errors';
 import type { RequestContext } from '../../platform/auth';
+import type { EventBus } from '../../platform/events';
 import type { TokenService } from '../../platform/tokens';
 import { findUserByEmail, findUserById, membershipsOf } from '../users/users.repository';
 import { consumeUserToken, setPasswordHash } from '../notifications/notifications.repository';
@@ -30,9 +31,12 @@ export function createAuthService(
   db: Database,
   tokens: TokenService,
   notifier: Notifier,
+  events: EventBus,
 ): AuthService {
   async function signedIn(user: { id: number; email: string; name: string }) {
-    const { token, expiresAt } = tokens.sign(user.id);
+    // Read again: a password just set has raised the session version.
+    const current = await findUserById(db, user.id);
+    const { token, expiresAt } = tokens.sign(user.id, current?.sessionVersion ?? 0);
     return {
       token,
       expiresAt: expiresAt.toISOString(),
@@ -63,6 +67,8 @@ export function createAuthService(
           [{ path: 'token', message: 'Expired or already used' }],
         );
       }
+      // Sockets signed in with a token from before the new password close now.
+      events.emit('user.access-changed', { userId: user.id, reason: 'password' });
       return signedIn(user);
     },
     async login({ email, password }) {

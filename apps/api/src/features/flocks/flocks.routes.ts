@@ -1,16 +1,16 @@
 import {
   flockCreateSchema,
   flockUpdateSchema,
+  calendarDay,
   idParam,
   mortalityEntrySchema,
 } from '@tierscope/contracts';
 import { Router } from 'express';
-import { z } from 'zod';
 import { contextOf } from '../../platform/auth';
 import { parseInput } from '../../platform/errors';
 import type { FlocksService } from './flocks.service';
 
-const dayParam = z.iso.date('A date such as 2026-11-01');
+const dayParam = calendarDay('A date such as 2026-11-01');
 
 export function flocksRoutes(service: FlocksService): Router {
   const router = Router();

@@ -1,3 +1,4 @@
+import { rollUpHeldReadings } from '../ingest/ingest.repository';
 import {
   insertHouseWithLayout,
   layOutHouse,
@@ -41,7 +42,9 @@ export async function createHouse(
   farmId: number,
   input: NewHouse,
 ): Promise<HouseRow> {
-  return insertHouseWithLayout(db, farmId, input);
+  const { adoptedCounterIds, ...house } = await insertHouseWithLayout(db, farmId, input);
+  await rollUpHeldReadings(db, farmId, adoptedCounterIds);
+  return house;
 }
 
 export async function updateHouse(db: Queryable, id: number, patch: Partial<NewHouse>) {
@@ -50,7 +53,14 @@ export async function updateHouse(db: Queryable, id: number, patch: Partial<NewH
 }
 
 export async function relayOutHouse(db: Queryable, house: HouseRow): Promise<void> {
-  await layOutHouse(db, house.id, house.farmId, house.rows, house.tiers);
+  const { adoptedCounterIds } = await layOutHouse(
+    db,
+    house.id,
+    house.farmId,
+    house.rows,
+    house.tiers,
+  );
+  await rollUpHeldReadings(db, house.farmId, adoptedCounterIds);
 }
 
 export async function deleteHouse(db: Queryable, id: number): Promise<void> {

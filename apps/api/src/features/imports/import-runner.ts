@@ -102,8 +102,16 @@ export class ImportRunner {
     const next = this.queue.shift();
     if (next === undefined) return;
     this.current = this.run(next)
-      .catch((error: unknown) => {
+      .catch(async (error: unknown) => {
         this.log(`import ${next} failed`, error);
+        // Never leave a job "running" behind: it would be queued again at every start.
+        await updateImport(this.db, next, {
+          state: 'failed',
+          finishedAt: new Date(),
+          message: 'The import stopped on an unexpected error; it can be run again',
+        }).catch((again: unknown) => {
+          this.log(`import ${next} could not be marked failed`, again);
+        });
       })
       .finally(() => {
         this.current = null;

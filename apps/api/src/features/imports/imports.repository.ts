@@ -1,6 +1,11 @@
+import { cleanText } from '@tierscope/contracts';
 import { schema, type Database, type Queryable } from '@tierscope/db';
 import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import pg from 'pg';
+
+/** What an import's message or a line error keeps of a text taken from the file. */
+export const MAX_IMPORT_MESSAGE_LENGTH = 500;
+const MAX_COLUMN_NAME_LENGTH = 100;
 
 const { imports, importErrors, importMappings, houses, users, counters, sections } = schema;
 
@@ -48,7 +53,11 @@ export async function updateImport(
   id: number,
   patch: Partial<NewImport>,
 ): Promise<ImportRow | undefined> {
-  const [row] = await db.update(imports).set(patch).where(eq(imports.id, id)).returning();
+  const safe =
+    typeof patch.message === 'string'
+      ? { ...patch, message: cleanText(patch.message, MAX_IMPORT_MESSAGE_LENGTH) }
+      : patch;
+  const [row] = await db.update(imports).set(safe).where(eq(imports.id, id)).returning();
   return row;
 }
 
@@ -71,7 +80,15 @@ export async function insertErrors(
   errors: { line: number; column: string | null; message: string }[],
 ): Promise<void> {
   if (errors.length === 0) return;
-  await db.insert(importErrors).values(errors.map((e) => ({ importId, ...e })));
+  // Messages quote the file's own cells: cleaned (a NUL would fail the whole insert) and cut short.
+  await db.insert(importErrors).values(
+    errors.map((e) => ({
+      importId,
+      line: e.line,
+      column: e.column === null ? null : cleanText(e.column, MAX_COLUMN_NAME_LENGTH),
+      message: cleanText(e.message, MAX_IMPORT_MESSAGE_LENGTH),
+    })),
+  );
 }
 
 export async function errorsOf(db: Queryable, importId: number, limit: number) {

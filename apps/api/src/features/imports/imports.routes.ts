@@ -1,7 +1,16 @@
 import { randomBytes } from 'node:crypto';
 import { mkdirSync, rmSync } from 'node:fs';
-import { idParam, importMappingSchema, savedMappingCreateSchema } from '@tierscope/contracts';
+import { open } from 'node:fs/promises';
+import {
+  cleanText,
+  findUnsafeInput,
+  idParam,
+  importMappingSchema,
+  MAX_FILE_NAME_LENGTH,
+  savedMappingCreateSchema,
+} from '@tierscope/contracts';
 import { Router, type RequestHandler } from 'express';
+import { handleUpload } from '../../platform/uploads';
 import multer from 'multer';
 import { z } from 'zod';
 import { contextOf } from '../../platform/auth';
@@ -23,31 +32,38 @@ function fileUpload(dir: string, maxBytes: number): RequestHandler {
     }),
     limits: { fileSize: maxBytes, files: 1, fields: 4, fieldSize: 256 * 1024 },
   }).single('file');
-  return (req, res, next) => {
-    upload(req, res, (error: unknown) => {
-      if (!error) {
-        next();
-        return;
-      }
-      if (error instanceof multer.MulterError) {
-        next(
-          error.code === 'LIMIT_FILE_SIZE'
-            ? new AppError(
-                'payload_too_large',
-                `An import file may be at most ${Math.round(maxBytes / 1024 / 1024)} MB`,
-              )
-            : new AppError('validation_failed', 'The upload is not valid', [
-                { path: error.field ?? 'file', message: error.message },
-              ]),
-        );
-        return;
-      }
-      next(error);
-    });
-  };
+  return handleUpload(upload, {
+    field: 'file',
+    tooLarge: `An import file may be at most ${Math.round(maxBytes / 1024 / 1024)} MB`,
+  });
 }
 
-const listQuery = z.object({ farmId: z.coerce.number().int().positive().optional() });
+/** How much of an upload is read to tell text from binary before anything is queued. */
+const TEXT_SNIFF_BYTES = 64 * 1024;
+
+/**
+ * Whether the file starts like a text export: valid UTF-8 without NUL bytes (binary files, and UTF-16
+ * exports, which the parser would read as garbage, both fail).
+ */
+async function looksLikeText(path: string): Promise<boolean> {
+  const handle = await open(path, 'r');
+  try {
+    const buffer = Buffer.alloc(TEXT_SNIFF_BYTES);
+    const { bytesRead } = await handle.read(buffer, 0, TEXT_SNIFF_BYTES, 0);
+    const sample = buffer.subarray(0, bytesRead);
+    if (sample.includes(0)) return false;
+    // stream: true lets a character cut by the sample's end pass; a real bad byte still throws.
+    new TextDecoder('utf-8', { fatal: true }).decode(sample, { stream: true });
+    return true;
+  } catch {
+    // fatal decoding found bytes that are not UTF-8
+    return false;
+  } finally {
+    await handle.close();
+  }
+}
+
+const listQuery = z.object({ farmId: idParam.optional() });
 
 export function importsRoutes(
   service: ImportsService,
@@ -66,6 +82,12 @@ export function importsRoutes(
             { path: 'file', message: 'No file received' },
           ]);
         }
+        if (!(await looksLikeText(file.path))) {
+          throw new AppError(
+            'unsupported_media_type',
+            'This file is not a text (CSV) export: save it as CSV in UTF-8 and try again',
+          );
+        }
         const body = req.body as { mapping?: unknown };
         let raw: unknown;
         try {
@@ -76,6 +98,12 @@ export function importsRoutes(
             { path: 'mapping', message: 'Malformed JSON' },
           ]);
         }
+        const unsafe = findUnsafeInput(raw);
+        if (unsafe) {
+          throw new AppError('validation_failed', 'The mapping is not valid', [
+            { path: `mapping.${unsafe.path}`, message: unsafe.message },
+          ]);
+        }
         const mapping = parseInput(importMappingSchema, raw, 'mapping');
         res.status(202).json(
           await service.start(
@@ -83,7 +111,7 @@ export function importsRoutes(
             houseId,
             {
               storedName: file.filename,
-              fileName: file.originalname,
+              fileName: cleanText(file.originalname, MAX_FILE_NAME_LENGTH),
               bytes: file.size,
             },
             mapping,

@@ -179,3 +179,22 @@ export async function dropReadingPartitionsBefore(
   );
   return result.rows.map((r) => r.name);
 }
+
+/**
+ * Rolls up the readings held for counters that have just been mapped into a house (they were stored while
+ * the counter was unknown, without rollups). Run in the transaction that maps them, once.
+ */
+export async function rollUpHeldReadings(
+  db: Queryable,
+  farmId: number,
+  counterIds: number[],
+): Promise<void> {
+  if (counterIds.length === 0) return;
+  await db.execute(sql`
+    WITH held AS (
+      SELECT counter_id, ts, eggs FROM readings
+      WHERE farm_id = ${farmId} AND counter_id = ANY(${sql.param(counterIds)}::int[])
+    ),
+    ${rollUp(farmId, 'held')}
+    SELECT 1`);
+}

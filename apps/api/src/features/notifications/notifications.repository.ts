@@ -186,5 +186,9 @@ export async function setPasswordHash(
   userId: number,
   passwordHash: string,
 ): Promise<void> {
-  await db.update(users).set({ passwordHash }).where(eq(users.id, userId));
+  // A new password retires every token issued before it.
+  await db
+    .update(users)
+    .set({ passwordHash, sessionVersion: sql`${users.sessionVersion} + 1` })
+    .where(eq(users.id, userId));
 }

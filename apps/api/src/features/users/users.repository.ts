@@ -39,6 +39,7 @@ export async function loadActiveUser(db: Queryable, id: number): Promise<AuthUse
     email: user.email,
     name: user.name,
     roles: new Map(list.map((m) => [m.farmId, m.role])),
+    sessionVersion: user.sessionVersion,
   };
 }
 
@@ -61,7 +62,9 @@ export async function listUsersOfFarms(db: Queryable, farmIds: number[]) {
     .orderBy(asc(users.name), asc(users.id));
   const byId = new Map<
     number,
-    Omit<UserRow, 'passwordHash'> & { memberships: { farmId: number; role: Role }[] }
+    Omit<UserRow, 'passwordHash' | 'sessionVersion'> & {
+      memberships: { farmId: number; role: Role }[];
+    }
   >();
   for (const row of rows) {
     const entry = byId.get(row.id) ?? {
@@ -90,7 +93,7 @@ export async function insertUser(
 export async function updateUser(
   db: Queryable,
   id: number,
-  patch: Partial<Pick<UserRow, 'name' | 'disabled' | 'passwordHash'>>,
+  patch: Partial<Pick<UserRow, 'name' | 'disabled'>>,
 ): Promise<UserRow | undefined> {
   const [row] = await db.update(users).set(patch).where(eq(users.id, id)).returning();
   return row;

@@ -6,6 +6,7 @@ import { farmsWith } from '../../platform/access';
 import type { RequestContext } from '../../platform/auth';
 import { AppError, forbidden, notFound } from '../../platform/errors';
 import { recordAudit } from '../audit/audit.repository';
+import type { EventBus } from '../../platform/events';
 import type { Notifier } from '../notifications/notifier';
 import { existingFarmIds, existingFarmNames } from '../farms/farms.repository';
 import {
@@ -13,6 +14,7 @@ import {
   findUserById,
   insertUser,
   listUsersOfFarms,
+  membershipsOf,
   replaceMemberships,
   updateUser,
 } from './users.repository';
@@ -23,8 +25,16 @@ export interface UsersService {
   update(ctx: RequestContext, id: number, input: UserUpdate): Promise<User>;
 }
 
-/** Admins manage the users of the farms they administer, and only their roles on those farms. */
-export function createUsersService(db: Database, notifier: Notifier): UsersService {
+/**
+ * Admins manage the users of the farms they administer, and only their roles on those farms. What belongs
+ * to the whole account (name, disabled) changes only for an admin of every farm the person is on: an
+ * admin of one farm takes a shared person off their farm by removing that farm's role (ADR 0004).
+ */
+export function createUsersService(
+  db: Database,
+  notifier: Notifier,
+  events: EventBus,
+): UsersService {
   function adminFarms(ctx: RequestContext): number[] {
     const farms = farmsWith(ctx, 'users.manage');
     if (farms.length === 0) throw forbidden('Only administrators manage users');
@@ -100,6 +110,16 @@ export function createUsersService(db: Database, notifier: Notifier): UsersServi
         ]);
       }
       const managed = adminFarms(ctx);
+      if (input.name !== undefined || input.disabled !== undefined) {
+        const everyFarm = (await findUserById(db, id)) ? await membershipsOf(db, id) : [];
+        const outside = everyFarm.filter((m) => !managed.includes(m.farmId));
+        if (outside.length > 0) {
+          throw forbidden(
+            'This person also works on farms you do not administer: only an administrator of ' +
+              'all their farms can rename or disable the account. Remove their role on your farms instead.',
+          );
+        }
+      }
       if (input.memberships) {
         checkMembershipFarms(
           ctx,
@@ -130,6 +150,11 @@ export function createUsersService(db: Database, notifier: Notifier): UsersServi
           after: input,
         });
       });
+      if (input.disabled === true && !before.disabled) {
+        events.emit('user.access-changed', { userId: id, reason: 'disabled' });
+      } else if (input.memberships) {
+        events.emit('user.access-changed', { userId: id, reason: 'roles' });
+      }
       const list = await listUsersOfFarms(db, managed);
       const after = list.find((u) => u.id === id);
       // A user whose last role on the admin's farms was removed is no longer theirs to see.

@@ -1,15 +1,18 @@
 import {
   checklistToggleSchema,
+  cleanText,
   idParam,
+  MAX_FILE_NAME_LENGTH,
   workOrderCreateSchema,
   workOrderReportQuerySchema,
   workOrdersQuerySchema,
   workOrderUpdateSchema,
 } from '@tierscope/contracts';
 import { Router, type RequestHandler } from 'express';
+import { handleUpload } from '../../platform/uploads';
 import multer from 'multer';
 import { contextOf } from '../../platform/auth';
-import { AppError, parseInput } from '../../platform/errors';
+import { parseInput } from '../../platform/errors';
 import type { WorkOrdersService } from './work-orders.service';
 
 export const MAX_PHOTOS_PER_UPLOAD = 6;
@@ -20,32 +23,11 @@ function photoUpload(maxBytes: number): RequestHandler {
     storage: multer.memoryStorage(),
     limits: { fileSize: maxBytes, files: MAX_PHOTOS_PER_UPLOAD, fields: 5 },
   }).array('photos', MAX_PHOTOS_PER_UPLOAD);
-  return (req, res, next) => {
-    upload(req, res, (error: unknown) => {
-      if (!error) {
-        next();
-        return;
-      }
-      if (error instanceof multer.MulterError) {
-        const mb = (maxBytes / 1024 / 1024).toFixed(0);
-        next(
-          error.code === 'LIMIT_FILE_SIZE'
-            ? new AppError('payload_too_large', `A photo may be at most ${mb} MB`)
-            : error.code === 'LIMIT_FILE_COUNT' || error.code === 'LIMIT_UNEXPECTED_FILE'
-              ? new AppError(
-                  'validation_failed',
-                  `Send up to ${MAX_PHOTOS_PER_UPLOAD} photos in the field "photos"`,
-                  [{ path: 'photos', message: error.message }],
-                )
-              : new AppError('validation_failed', 'The upload is not valid', [
-                  { path: 'photos', message: error.message },
-                ]),
-        );
-        return;
-      }
-      next(error);
-    });
-  };
+  return handleUpload(upload, {
+    field: 'photos',
+    tooLarge: `A photo may be at most ${(maxBytes / 1024 / 1024).toFixed(0)} MB`,
+    tooMany: `Send up to ${MAX_PHOTOS_PER_UPLOAD} photos in the field "photos"`,
+  });
 }
 
 export function workOrdersRoutes(service: WorkOrdersService, photoMaxBytes: number): Router {
@@ -84,7 +66,7 @@ export function workOrdersRoutes(service: WorkOrdersService, photoMaxBytes: numb
   router.post('/work-orders/:workOrderId/photos', photoUpload(photoMaxBytes), async (req, res) => {
     const id = parseInput(idParam, req.params['workOrderId'], 'path');
     const files = (Array.isArray(req.files) ? req.files : []).map((f) => ({
-      originalName: f.originalname,
+      originalName: cleanText(f.originalname, MAX_FILE_NAME_LENGTH),
       buffer: f.buffer,
     }));
     res.status(201).json(await service.addPhotos(contextOf(req), id, files));

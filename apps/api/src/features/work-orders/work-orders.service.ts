@@ -27,7 +27,6 @@ import {
   type FindingCause,
   type Role,
 } from '@tierscope/domain';
-import { fileTypeFromBuffer } from 'file-type';
 import { farmsWith, requireFarmPermission } from '../../platform/access';
 import type { RequestContext } from '../../platform/auth';
 import { AppError, forbidden, notFound } from '../../platform/errors';
@@ -53,18 +52,7 @@ import {
   updateWorkOrder,
   type NewWorkOrder,
 } from './work-orders.repository';
-
-/** Photo types accepted, judged by the file's content (its magic bytes), never by its name. */
-const PHOTO_TYPES: Record<string, string> = {
-  'image/jpeg': 'jpg',
-  'image/png': 'png',
-  'image/webp': 'webp',
-};
-
-export interface UploadedPhoto {
-  originalName: string;
-  buffer: Buffer;
-}
+import { readPhotos, type UploadedPhoto } from './work-order-photos';
 
 export interface WorkOrdersService {
   list(ctx: RequestContext, query: WorkOrdersQuery): Promise<WorkOrderSummary[]>;
@@ -522,37 +510,23 @@ export function createWorkOrdersService(options: {
           { path: 'photos', message: 'No file received' },
         ]);
       }
-      const checked = await Promise.all(
-        files.map(async (file) => ({ file, type: await fileTypeFromBuffer(file.buffer) })),
-      );
-      const bad = checked.filter((c) => !c.type || !(c.type.mime in PHOTO_TYPES));
-      if (bad.length > 0) {
-        throw new AppError(
-          'validation_failed',
-          'Only photos (JPEG, PNG or WebP) can be attached',
-          bad.map((b) => ({
-            path: 'photos',
-            message: `${b.file.originalName} is not a JPEG, PNG or WebP image`,
-          })),
-        );
-      }
+      const decoded = await readPhotos(files);
       const folder = join(photosDir, String(row.order.farmId));
       await mkdir(folder, { recursive: true });
       const written: string[] = [];
       try {
         await db.transaction(async (tx) => {
-          for (const { file, type } of checked) {
-            if (!type) continue;
-            const storedName = `${randomBytes(16).toString('hex')}.${PHOTO_TYPES[type.mime] ?? 'bin'}`;
-            await writeFile(join(folder, storedName), file.buffer, { mode: 0o600 });
+          for (const { file, mime, extension, image } of decoded) {
+            const storedName = `${randomBytes(16).toString('hex')}.${extension}`;
+            await writeFile(join(folder, storedName), image, { mode: 0o600 });
             written.push(storedName);
             await insertPhoto(tx, {
               workOrderId: id,
               farmId: row.order.farmId,
               storedName,
-              originalName: file.originalName.slice(0, 200),
-              contentType: type.mime,
-              bytes: file.buffer.length,
+              originalName: file.originalName,
+              contentType: mime,
+              bytes: image.length,
               uploadedBy: ctx.user.id,
             });
           }
