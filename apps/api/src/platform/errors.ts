@@ -159,7 +159,10 @@ function clientError(error: { status: number; type?: unknown }): AppError {
       { path: '(root)', message: 'Malformed JSON' },
     ]);
   }
-  if (error instanceof URIError || /decode param/i.test(error instanceof Error ? error.message : '')) {
+  if (
+    error instanceof URIError ||
+    /decode param/i.test(error instanceof Error ? error.message : '')
+  ) {
     return new AppError('validation_failed', 'The request path is not valid', [
       { path: 'path', message: 'Not valid percent-encoding' },
     ]);

@@ -22,8 +22,11 @@ const AUTH_TIMEOUT_MS = 10_000;
 const MAX_MESSAGE_BYTES = 16 * 1024;
 /** Houses one socket may watch at once (a person looks at a few; a farm has at most a few dozen). */
 export const MAX_SUBSCRIPTIONS = 64;
-/** Messages waiting to be handled on one socket; a client that floods past this is closed. */
-const MAX_PENDING_MESSAGES = 32;
+/**
+ * Messages waiting to be handled on one socket (room for re-subscribing every house at once after a
+ * reconnect); a client that floods past this is closed.
+ */
+const MAX_PENDING_MESSAGES = MAX_SUBSCRIPTIONS + 36;
 
 /** Close codes the browser reads: sign in again; or reconnect (access changed, server going away). */
 export const CLOSE_SIGN_IN = 4401;

@@ -42,8 +42,8 @@ function fileUpload(dir: string, maxBytes: number): RequestHandler {
 const TEXT_SNIFF_BYTES = 64 * 1024;
 
 /**
- * Whether the file starts like a text export: valid UTF-8 without NUL bytes (binary files, and UTF-16
- * exports, which the parser would read as garbage, both fail).
+ * Whether the file starts like a text export: valid UTF-8 with at most a stray NUL byte (binary files, and
+ * UTF-16 exports, which the parser would read as garbage, both fail).
  */
 async function looksLikeText(path: string): Promise<boolean> {
   const handle = await open(path, 'r');
@@ -51,7 +51,10 @@ async function looksLikeText(path: string): Promise<boolean> {
     const buffer = Buffer.alloc(TEXT_SNIFF_BYTES);
     const { bytesRead } = await handle.read(buffer, 0, TEXT_SNIFF_BYTES, 0);
     const sample = buffer.subarray(0, bytesRead);
-    if (sample.includes(0)) return false;
+    // A NUL in a cell is that line's error; many (UTF-16 text, binary files) mean it is not a text export.
+    let nulBytes = 0;
+    for (const byte of sample) if (byte === 0) nulBytes += 1;
+    if (nulBytes > Math.max(4, sample.length / 100)) return false;
     // stream: true lets a character cut by the sample's end pass; a real bad byte still throws.
     new TextDecoder('utf-8', { fatal: true }).decode(sample, { stream: true });
     return true;
