@@ -101,8 +101,8 @@ function nextMessage(
   isWanted: (m: { type: string; [k: string]: unknown }) => boolean,
 ): Promise<{ type: string; [k: string]: unknown }> {
   return new Promise((resolve) => {
-    const onMessage = (data: WebSocket.RawData) => {
-      const message = JSON.parse(data.toString()) as { type: string };
+    const onMessage = (data: Buffer) => {
+      const message = JSON.parse(data.toString('utf8')) as { type: string };
       if (isWanted(message)) {
         socket.off('message', onMessage);
         resolve(message);
@@ -203,8 +203,8 @@ describe('the live socket under bad frames', () => {
     // The cap counts houses really watched: the one above and the farm's others, then one too many.
     const snapshots: unknown[] = [];
     const overCap = new Promise<{ message?: unknown }>((resolve) => {
-      socket.on('message', (data) => {
-        const m = JSON.parse(data.toString()) as { type: string; message?: unknown };
+      socket.on('message', (data: Buffer) => {
+        const m = JSON.parse(data.toString('utf8')) as { type: string; message?: unknown };
         if (m.type === 'snapshot') snapshots.push(m);
         if (m.type === 'error') resolve(m);
       });

@@ -363,7 +363,7 @@ describe('7: broken multipart bodies are 400, never 500', () => {
 
 describe('8: a reset request answers before looking the address up', () => {
   it('answers while the mail for a known address is still being made', async () => {
-    let release = () => undefined as void;
+    let release: () => void = () => undefined;
     const gate = new Promise<void>((resolve) => {
       release = resolve;
     });

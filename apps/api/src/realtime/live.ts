@@ -67,6 +67,8 @@ export function attachLive(
     deps.log('live socket server error', error);
   });
   const clients = new Set<Client>();
+  /** Sockets closed on bad frames, said once per heartbeat rather than once each (a flood must not flood the log). */
+  const badFrames = { count: 0, last: '' };
   const frameTimers = new Map<number, ReturnType<typeof setTimeout>>();
 
   const onUpgrade = (req: IncomingMessage, socket: Duplex, head: Buffer) => {
@@ -195,7 +197,8 @@ export function attachLive(
     // A bad frame (invalid UTF-8, unmasked, too large) is an error of this socket only: ws has already
     // started closing it with the right code; without this listener the error would stop the process.
     socket.on('error', (error: Error) => {
-      deps.log(`live socket closed on a bad frame: ${error.message}`);
+      badFrames.count += 1;
+      badFrames.last = error.message;
       socket.terminate();
     });
     let pending = 0;
@@ -339,6 +342,10 @@ export function attachLive(
       }
       client.isAlive = false;
       client.socket.ping();
+    }
+    if (badFrames.count > 0) {
+      deps.log(`live: ${badFrames.count} socket(s) closed on bad frames (last: ${badFrames.last})`);
+      badFrames.count = 0;
     }
     recheckUsers().catch((error: unknown) => {
       deps.log('live user re-check failed', error);
