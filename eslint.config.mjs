@@ -70,8 +70,8 @@ export default tseslint.config(
         {
           patterns: [
             {
-              regex: '^(?!\\.|vitest$|simple-statistics$|jstat$)',
-              message: 'Domain specs may use only reference libraries.',
+              regex: '^(?!\\.|vitest$|simple-statistics$|jstat$|fast-check$)',
+              message: 'Domain specs may use only reference libraries and fast-check.',
             },
           ],
         },
@@ -88,6 +88,23 @@ export default tseslint.config(
             {
               regex: '^(?!\\.|zod$|@tierscope/domain$|vitest$)',
               message: 'libs/contracts imports only zod and libs/domain.',
+            },
+          ],
+        },
+      ],
+    },
+  },
+  {
+    // Contract specs may generate their inputs with fast-check (seeded).
+    files: ['libs/contracts/**/*.spec.ts'],
+    rules: {
+      '@typescript-eslint/no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            {
+              regex: '^(?!\\.|zod$|@tierscope/domain$|vitest$|fast-check$)',
+              message: 'Contract specs import only zod, libs/domain, vitest and fast-check.',
             },
           ],
         },

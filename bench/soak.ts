@@ -90,7 +90,11 @@ async function main(): Promise<void> {
       ],
       { cwd: ROOT, stdio: ['ignore', 'ignore', 'inherit'] },
     );
-    const simulatorDone = new Promise<void>((resolve) => simulator.once('exit', () => resolve()));
+    const simulatorDone = new Promise<void>((resolve) => {
+      simulator.once('exit', () => {
+        resolve();
+      });
+    });
 
     // The corpus, in a loop beside the simulator, until it ends.
     const { token } = await signInThroughApi(
@@ -142,9 +146,13 @@ async function main(): Promise<void> {
         // A socket that sends bad frames each round: it is closed, the API keeps going.
         await new Promise<void>((resolve) => {
           const socket = new WebSocket(`${api.baseUrl.replace('http', 'ws')}/api/v1/live`);
-          socket.on('open', () => socket.send(Buffer.from([0xff, 0xfe]), { binary: false }));
+          socket.on('open', () => {
+            socket.send(Buffer.from([0xff, 0xfe]), { binary: false });
+          });
           socket.on('error', () => undefined);
-          socket.on('close', () => resolve());
+          socket.on('close', () => {
+            resolve();
+          });
         });
         if (round % 20 === 0) await new Promise((r) => setTimeout(r, 100));
       }
@@ -167,7 +175,7 @@ async function main(): Promise<void> {
         readings: number;
         accepted: number;
         duplicates: number;
-        backlog: unknown[] | number;
+        backlog: { batches: number; readings: number };
       }[];
     };
     const readingsSent = sent.farms.reduce((n, f) => n + f.readings, 0);
@@ -186,12 +194,14 @@ async function main(): Promise<void> {
               (select coalesce(sum(r.eggs), 0) from readings r join counters c on c.id = r.counter_id where c.kind = 'belt') as belts,
               (select coalesce(sum(r.eggs), 0) from readings r join counters c on c.id = r.counter_id where c.kind = 'collector') as collector_raw`,
     );
-    const r = rollups.rows[0]!;
+    const r = rollups.rows[0];
+    const storedReadings = Number(stored.rows[0]?.readings ?? 0);
+    if (!r) throw new Error('no rollup sums');
     const serverErrors = [...statuses].filter(([s]) => s >= 500).reduce((n, [, c]) => n + c, 0);
-    const isEveryReadingOnce = Number(stored.rows[0]!.readings) === readingsSent && backlog === 0;
+    const isEveryReadingOnce = storedReadings === readingsSent && backlog === 0;
     const isRollupsEqual = r.sections === r.belts && r.collectors === r.collector_raw;
     console.log(
-      `[soak] simulator: ${readingsSent} readings sent, ${backlog} left unsent; stored ${stored.rows[0]!.readings}`,
+      `[soak] simulator: ${readingsSent} readings sent, ${backlog} left unsent; stored ${storedReadings}`,
     );
     console.log(
       `[soak] rollups: sections ${r.sections} = belts ${r.belts}: ${r.sections === r.belts}; collectors ${r.collectors} = raw ${r.collector_raw}: ${r.collectors === r.collector_raw}`,
@@ -208,7 +218,7 @@ async function main(): Promise<void> {
         simulated_days: days,
         speed,
         readings_sent: readingsSent,
-        readings_stored: Number(stored.rows[0]!.readings),
+        readings_stored: storedReadings,
         every_reading_once: isEveryReadingOnce,
         rollups_equal_raw: isRollupsEqual,
         corpus_requests: requests,
