@@ -10,3 +10,5 @@ export * from './work-orders';
 export * from './csv';
 export * from './csv-import';
 export * from './flock';
+export * from './detection';
+export * from './house-judgement';

@@ -1,0 +1,684 @@
+/**
+ * npm run bench:detect [-- --seeds 3 --weeks 2]
+ *
+ * The quality of Tierscope's exceptions, measured on simulated houses with real-world noise (the realistic
+ * simulator: binomial counts, day-to-day section and house noise, persistent differences, lay-time offsets,
+ * belt schedules, collector lag, glitches, late gateways) — never on tidy data. The pure engine from
+ * libs/domain, exactly the functions the server calls, runs in-process over every house-day, 15 minutes at
+ * a time, with the data a server would have by then. Beside it, on the same data, two yardsticks:
+ *  (a) the rule a general-purpose monitoring stack would be set up with: alert when a section's running
+ *      count today is 10 % below its tier median on two successive 15-minute evaluations;
+ *  (b) an oracle that knows each section's true expected eggs and noise: a tabular CUSUM on complete days
+ *      with the true parameters, its decision interval set so its false-alarm rate matches the engine's.
+ * Prints, per fault kind, recall, median and p90 delay in laying hours from onset, and wrong-kind
+ * attributions; false exceptions per house-week by kind; and the same for the yardsticks. The last line is
+ * one JSON object. Not a test; CI does not run it.
+ */
+import { parseArgs } from 'node:util';
+import {
+  CHECKPOINT_HOURS,
+  COMPLETE_DAY,
+  isSilent,
+  judgeCollector,
+  judgeHouseDay,
+  judgeStage,
+  median,
+  pastDayOf,
+  silentStep,
+  spotKeyOf,
+  type CusumState,
+  type PastDay,
+  type SectionCounts,
+  type StageJudgement,
+} from '@tierscope/domain';
+import {
+  RealisticHouse,
+  SLOT_MINUTES,
+  SLOTS_PER_DAY,
+  type PlantedFault,
+  type SimDay,
+} from '../simulator/src/realistic';
+import { generator, hashSeed } from '../simulator/src/random';
+
+const { values } = parseArgs({
+  options: {
+    seeds: { type: 'string', default: '3' },
+    weeks: { type: 'string', default: '2' },
+  },
+});
+const SEEDS = Number(values.seeds);
+const JUDGED_DAYS = Number(values.weeks) * 7;
+const WARMUP_DAYS = 28;
+const THRESHOLD_PCT = 10;
+const PHOTOPERIOD_HOURS = 16;
+const LIGHT_SLOTS = (PHOTOPERIOD_HOURS * 60) / SLOT_MINUTES;
+const SIZES: [number, number][] = [
+  [6, 3],
+  [8, 3],
+  [16, 3],
+];
+
+type FaultKind =
+  | 'none'
+  | 'section -10%'
+  | 'section -15%'
+  | 'section -20%'
+  | 'row -10%'
+  | 'row -15%'
+  | 'tier -10%'
+  | 'tier -15%'
+  | 'slide 1.5%/day'
+  | 'dead counter'
+  | 'over-counting counter'
+  | 'collector drift'
+  | 'late gateway'
+  | 'structural end row'
+  | 'section 30 min late';
+const FAULT_KINDS: FaultKind[] = [
+  'none',
+  'section -10%',
+  'section -15%',
+  'section -20%',
+  'row -10%',
+  'row -15%',
+  'tier -10%',
+  'tier -15%',
+  'slide 1.5%/day',
+  'dead counter',
+  'over-counting counter',
+  'collector drift',
+  'late gateway',
+  'structural end row',
+  'section 30 min late',
+];
+/** Kinds that are not faults: a good engine raises nothing for them. */
+const NOT_FAULTS = new Set<FaultKind>(['none', 'structural end row', 'section 30 min late']);
+
+interface Planted {
+  kind: FaultKind;
+  fault: PlantedFault | null;
+  onsetSlot: number;
+  row: number;
+  tier: number;
+}
+
+type EventKind =
+  'shortfall' | 'silent_counter' | 'collector_gap' | 'house_dip' | 'counter_high' | 'data_late';
+
+interface Event {
+  kind: EventKind;
+  key: string;
+  slot: number;
+}
+
+/** Plants one fault of a kind at a random place and time in the judged weeks. */
+function plant(kind: FaultKind, rows: number, tiers: number, seed: number): Planted {
+  const random = generator(hashSeed(seed, 'plant', kind, rows));
+  const row = 1 + Math.floor(random() * rows);
+  const tier = 1 + Math.floor(random() * tiers);
+  const day = WARMUP_DAYS + 2 + Math.floor(random() * 4);
+  const onsetSlot = day * SLOTS_PER_DAY + Math.floor(random() * (LIGHT_SLOTS - 8));
+  const at = { onsetSlot };
+  const fault = ((): PlantedFault | null => {
+    switch (kind) {
+      case 'section -10%':
+        return { kind: 'section', row, tier, drop: 0.1, ...at };
+      case 'section -15%':
+        return { kind: 'section', row, tier, drop: 0.15, ...at };
+      case 'section -20%':
+        return { kind: 'section', row, tier, drop: 0.2, ...at };
+      case 'row -10%':
+        return { kind: 'row', row, drop: 0.1, ...at };
+      case 'row -15%':
+        return { kind: 'row', row, drop: 0.15, ...at };
+      case 'tier -10%':
+        return { kind: 'tier', tier, drop: 0.1, ...at };
+      case 'tier -15%':
+        return { kind: 'tier', tier, drop: 0.15, ...at };
+      case 'slide 1.5%/day':
+        return { kind: 'slide', row, tier, perDay: 0.015, ...at };
+      case 'dead counter':
+        return { kind: 'dead', row, tier, ...at };
+      case 'over-counting counter':
+        return { kind: 'overcount', row, tier, factor: 1.15, ...at };
+      case 'collector drift':
+        return { kind: 'collector-drift', pct: 4, ...at };
+      case 'late gateway':
+        return { kind: 'late-gateway', hours: 4, ...at };
+      case 'structural end row':
+        return { kind: 'end-row', row: random() < 0.5 ? 1 : rows, factor: 0.92 };
+      case 'section 30 min late':
+        return { kind: 'late-section', row, tier, minutes: 30 };
+      default:
+        return null;
+    }
+  })();
+  return { kind, fault, onsetSlot, row, tier };
+}
+
+/** Whether an event is the planted fault found (correct), at the fault but of the wrong kind, or false. */
+function classify(event: Event, planted: Planted): 'correct' | 'wrong' | 'false' {
+  if (NOT_FAULTS.has(planted.kind) || event.slot < planted.onsetSlot) return 'false';
+  const [scope, r, t] = event.key.split(':');
+  const row = Number(r);
+  const tier = Number(t);
+  const isSection = scope === 'section' && row === planted.row && tier === planted.tier;
+  const isRowOf = scope === 'row' && row === planted.row;
+  const isTierOf = scope === 'tier' && tier === planted.tier;
+  switch (planted.kind) {
+    case 'section -10%':
+    case 'section -15%':
+    case 'section -20%':
+    case 'slide 1.5%/day':
+      if (event.kind === 'shortfall' && isSection) return 'correct';
+      return event.kind === 'shortfall' && (isRowOf || isTierOf) ? 'wrong' : 'false';
+    case 'row -10%':
+    case 'row -15%':
+      if (event.kind === 'shortfall' && isRowOf) return 'correct';
+      return event.kind === 'shortfall' && scope === 'section' && row === planted.row
+        ? 'wrong'
+        : event.kind === 'house_dip'
+          ? 'wrong'
+          : 'false';
+    case 'tier -10%':
+    case 'tier -15%':
+      if (event.kind === 'shortfall' && isTierOf) return 'correct';
+      return (event.kind === 'shortfall' && scope === 'section' && tier === planted.tier) ||
+        event.kind === 'house_dip'
+        ? 'wrong'
+        : 'false';
+    case 'dead counter':
+      if (event.kind === 'silent_counter' && isSection) return 'correct';
+      return isSection ||
+        isRowOf ||
+        isTierOf ||
+        event.kind === 'collector_gap' ||
+        event.kind === 'house_dip'
+        ? 'wrong'
+        : 'false';
+    case 'over-counting counter':
+      if ((event.kind === 'counter_high' && isSection) || event.kind === 'collector_gap')
+        return 'correct';
+      return isSection || isRowOf || isTierOf ? 'wrong' : 'false';
+    case 'collector drift':
+      return event.kind === 'collector_gap'
+        ? 'correct'
+        : event.kind === 'house_dip'
+          ? 'wrong'
+          : 'false';
+    case 'late gateway':
+      if (event.kind === 'data_late') return 'correct';
+      // Anything raised while its data was late is a wrong reading of lateness.
+      return event.slot < planted.onsetSlot + 6 * 4 ? 'wrong' : 'false';
+    default:
+      return 'false';
+  }
+}
+
+/**
+ * The yardsticks alert on sections only and know no kinds: an alert on a section the fault makes lay (or
+ * count) less is the fault found; anything else is a false alert.
+ */
+function classifyAffected(event: Event, planted: Planted): 'correct' | 'false' {
+  if (NOT_FAULTS.has(planted.kind) || event.slot < planted.onsetSlot) return 'false';
+  const [, r, t] = event.key.split(':');
+  const row = Number(r);
+  const tier = Number(t);
+  const fault = planted.fault;
+  if (!fault) return 'false';
+  switch (fault.kind) {
+    case 'section':
+    case 'slide':
+    case 'dead':
+      return row === fault.row && tier === fault.tier ? 'correct' : 'false';
+    case 'row':
+      return row === fault.row ? 'correct' : 'false';
+    case 'tier':
+      return tier === fault.tier ? 'correct' : 'false';
+    default:
+      return 'false';
+  }
+}
+
+/** Laying hours (hours of light) between two absolute slots. */
+function layingHours(from: number, to: number): number {
+  let slots = 0;
+  for (let s = from; s < to; s++) if (s % SLOTS_PER_DAY < LIGHT_SLOTS) slots += 1;
+  return (slots * SLOT_MINUTES) / 60;
+}
+
+/** Cumulative counts by stage of a simulated day, from the slots known (`knownSlots` of the day). */
+function countsOf(day: SimDay, knownSlots: number): SectionCounts[] {
+  const stageEnds = [...CHECKPOINT_HOURS.map((h) => (h * 60) / SLOT_MINUTES), SLOTS_PER_DAY];
+  return day.sections.map((s) => {
+    const byStage: number[] = [];
+    let sum = 0;
+    let slot = 0;
+    for (const end of stageEnds) {
+      for (; slot < Math.min(end, knownSlots); slot++) sum += s.counted[slot] ?? 0;
+      byStage.push(sum);
+    }
+    return { row: s.row, tier: s.tier, byStage };
+  });
+}
+
+interface HouseResult {
+  events: Event[];
+  naive: Event[];
+  /** per section: the oracle's standardised daily residuals over the judged days */
+  oracleSeries: Map<string, { slot: number; u: number }[]>;
+}
+
+/** Runs the engine over a house, as the server would: every 15 minutes, with the data that has arrived. */
+function runEngine(house: RealisticHouse, planted: Planted, totalDays: number): HouseResult {
+  const events: Event[] = [];
+  const naive: Event[] = [];
+  const oracleSeries = new Map<string, { slot: number; u: number }[]>();
+  const past: PastDay[] = [];
+  const open = new Map<string, { kind: EventKind; recovered: number }>();
+  let cusum = new Map<string, CusumState>();
+  const silentRuns = new Map<string, { zeroSlots: number; expectedEggs: number }>();
+  const collectorPast: number[] = [];
+  const henDayPast: number[] = [];
+  const naiveState = new Map<string, { shortRuns: number; isAlerting: boolean }>();
+  let lastCollectorBelts: { collector: number; belts: number } | null = null;
+  const highYesterday = new Set<string>();
+
+  const raise = (kind: EventKind, key: string, slot: number) => {
+    const id = `${kind}|${key}`;
+    if (open.has(id)) return;
+    open.set(id, { kind, recovered: 0 });
+    if (slot >= WARMUP_DAYS * SLOTS_PER_DAY) events.push({ kind, key, slot });
+  };
+  const settle = (kind: EventKind, key: string, isRecovered: boolean, needed = 2) => {
+    const id = `${kind}|${key}`;
+    const state = open.get(id);
+    if (!state) return;
+    state.recovered = isRecovered ? state.recovered + 1 : 0;
+    if (state.recovered >= needed) open.delete(id);
+  };
+  const openKeys = (kind: EventKind) =>
+    new Set(
+      [...open.keys()]
+        .filter((id) => id.startsWith(`${kind}|`))
+        .map((id) => id.slice(kind.length + 1)),
+    );
+
+  const applyShortfalls = (judged: StageJudgement, slot: number, isCompleteDay = false) => {
+    for (const spot of judged.short) raise('shortfall', spot.key, slot);
+    // A counter reading high opens after two complete days in a row.
+    for (const spot of judged.high) {
+      if (highYesterday.has(spot.key)) raise('counter_high', spot.key, slot);
+    }
+    if (isCompleteDay) {
+      highYesterday.clear();
+      for (const spot of judged.high) highYesterday.add(spot.key);
+    }
+    for (const id of [...open.keys()]) {
+      const [kind, key] = id.split('|') as [EventKind, string];
+      const spot = judged.spots.get(key);
+      if (!spot) continue;
+      if (kind === 'shortfall') settle(kind, key, spot.isRecovered);
+      if (kind === 'counter_high') settle(kind, key, spot.ratio <= 1 + THRESHOLD_PCT / 200);
+    }
+  };
+
+  for (let d = 0; d < totalDays; d++) {
+    const day = house.dayData(d);
+    const dayStart = d * SLOTS_PER_DAY;
+    const baselineOf = (key: string) => {
+      const values: number[] = [];
+      for (const p of past.slice(0, 28)) {
+        const v = p.logRatios[COMPLETE_DAY]?.get(key);
+        if (v !== undefined && !p.excluded.has(key)) values.push(v);
+      }
+      return values.length ? median(values) : 0;
+    };
+    const baselines = new Map(
+      day.sections.map((s) => [
+        spotKeyOf('section', s.row, s.tier),
+        baselineOf(spotKeyOf('section', s.row, s.tier)),
+      ]),
+    );
+    const stageSlots = CHECKPOINT_HOURS.map((h) => (h * 60) / SLOT_MINUTES);
+    const judgedStages = new Set<number>();
+    const excludedToday = new Set<string>();
+    let processed = 0;
+    for (let j = 0; j < SLOTS_PER_DAY; j++) {
+      const now = dayStart + j + 1;
+      // What has arrived by now: every slot up to the first one still held back by a late gateway.
+      let known = 0;
+      while (known <= j && house.arrivalSlot(dayStart + known) <= now - 1) known++;
+      const isLight = j < LIGHT_SLOTS;
+      if (isLight && known < j + 1 - 3 && j >= 4) raise('data_late', 'house:-:-', now);
+      else if (known >= j + 1) settle('data_late', 'house:-:-', true, 1);
+
+      // Silent counters, slot by slot as the data arrives.
+      for (; processed < known; processed++) {
+        const k = processed;
+        for (const s of day.sections) {
+          const key = spotKeyOf('section', s.row, s.tier);
+          const peers = day.sections
+            .filter((p) => p.tier === s.tier && p.row !== s.row)
+            .map((p) => p.counted[k] ?? 0);
+          const run = silentStep(
+            silentRuns.get(key) ?? { zeroSlots: 0, expectedEggs: 0 },
+            s.counted[k] ?? 0,
+            peers.length ? median(peers) : 0,
+            baselines.get(key) ?? 0,
+            (k * SLOT_MINUTES) / 60,
+          );
+          silentRuns.set(key, run);
+          if (isSilent(run)) raise('silent_counter', key, dayStart + k + 1);
+          if ((s.counted[k] ?? 0) > 0) settle('silent_counter', key, true, 1);
+        }
+      }
+
+      // The yardstick rule, every 15 minutes of light after the first hour.
+      if (isLight && j >= 4) {
+        const running = day.sections.map((s) => {
+          let sum = 0;
+          for (let k = 0; k < known; k++) sum += s.counted[k] ?? 0;
+          return { s, sum };
+        });
+        for (const { s, sum } of running) {
+          const key = spotKeyOf('section', s.row, s.tier);
+          const tierMedian = median(running.filter((x) => x.s.tier === s.tier).map((x) => x.sum));
+          const state = naiveState.get(key) ?? { shortRuns: 0, isAlerting: false };
+          const isShort = tierMedian > 0 && sum < 0.9 * tierMedian;
+          state.shortRuns = isShort ? state.shortRuns + 1 : 0;
+          if (state.shortRuns >= 2 && !state.isAlerting) {
+            state.isAlerting = true;
+            if (now >= WARMUP_DAYS * SLOTS_PER_DAY)
+              naive.push({ kind: 'shortfall', key, slot: now });
+          }
+          if (!isShort) state.isAlerting = false;
+          naiveState.set(key, state);
+        }
+      }
+
+      // Checkpoints, once each, when their data is in.
+      for (let c = 0; c < stageSlots.length; c++) {
+        if (judgedStages.has(c) || known < (stageSlots[c] ?? 0)) continue;
+        judgedStages.add(c);
+        const judged = judgeStage({
+          thresholdPct: THRESHOLD_PCT,
+          stage: c,
+          sections: countsOf(day, known),
+          past,
+          silent: openKeys('silent_counter'),
+          open: openKeys('shortfall'),
+        });
+        applyShortfalls(judged, now);
+      }
+      for (const id of open.keys()) excludedToday.add(id.split('|')[1] ?? '');
+    }
+
+    // The complete day (its data is in by the day's end in every planted case).
+    const sections = countsOf(day, SLOTS_PER_DAY);
+    const silentNow = openKeys('silent_counter');
+    const judged = judgeStage({
+      thresholdPct: THRESHOLD_PCT,
+      stage: COMPLETE_DAY,
+      sections,
+      past,
+      silent: silentNow,
+      open: openKeys('shortfall'),
+      cusum,
+    });
+    cusum = judged.cusum;
+    const endSlot = dayStart + SLOTS_PER_DAY;
+    if (process.env['DETECT_DEBUG'] === planted.kind && d >= WARMUP_DAYS) {
+      const spot = judged.spots.get(spotKeyOf('section', planted.row, planted.tier));
+      console.log(
+        '  day',
+        d,
+        spot
+          ? `${spot.eggs} ${spot.expected.toFixed(0)} ${spot.z.toFixed(2)} ${spot.isShort}`
+          : 'no spot',
+        [...open.keys()].join(' '),
+        'silent',
+        [...silentNow].join(' '),
+      );
+    }
+    applyShortfalls(judged, endSlot, true);
+
+    // Collector against belts (silent sections filled in), over the last two complete days.
+    const collector = day.collector.reduce((a, b) => a + b, 0);
+    const belts = judged.houseEggs;
+    if (lastCollectorBelts) {
+      const c2 = collector + lastCollectorBelts.collector;
+      const b2 = belts + lastCollectorBelts.belts;
+      const gap = judgeCollector(c2, b2, collectorPast);
+      if (gap.isGap) raise('collector_gap', 'house:-:-', endSlot);
+      else settle('collector_gap', 'house:-:-', gap.isRecovered);
+      if (!gap.isGap) collectorPast.unshift(Math.log(c2 / b2));
+    }
+    lastCollectorBelts = { collector, belts };
+
+    // The house's day: from the belts with silent and short spots filled in.
+    const hens = house.rows * house.tiers * 860;
+    const henDay = (judged.houseEggsFilled / hens) * 100;
+    const dip = judgeHouseDay(henDay, henDayPast);
+    if (dip.isDip) raise('house_dip', 'house:-:-', endSlot);
+    else settle('house_dip', 'house:-:-', dip.isRecovered);
+    henDayPast.unshift(henDay);
+
+    // The oracle's residuals: true expected eggs and true noise (section noise and binomial counting).
+    for (const s of day.sections) {
+      const key = spotKeyOf('section', s.row, s.tier);
+      const counted = s.counted.reduce((a, b) => a + b, 0);
+      const laidExpected = s.expectedWithoutFault;
+      const sigma = Math.sqrt(0.025 ** 2 + 0.01 ** 2 + 1 / Math.max(1, laidExpected));
+      const u = Math.log(Math.max(counted, 1) / laidExpected) / sigma;
+      const list = oracleSeries.get(key) ?? [];
+      if (d >= WARMUP_DAYS) list.push({ slot: endSlot, u });
+      oracleSeries.set(key, list);
+    }
+
+    const excluded = new Set(excludedToday);
+    for (const id of open.keys()) excluded.add(id.split('|')[1] ?? '');
+    past.unshift(pastDayOf(`d${d}`, sections, excluded));
+    if (past.length > 60) past.pop();
+  }
+  return { events, naive, oracleSeries };
+}
+
+/** The oracle's CUSUM over every section's residuals, with the tuned k and decision interval h. */
+function oracleEvents(series: Map<string, { slot: number; u: number }[]>, h: number): Event[] {
+  // Tuned for a 10 % drop: k is half the shift in σ units (σ ≈ 3 %).
+  const k = 0.5 * (Math.log(1 / 0.9) / Math.sqrt(0.025 ** 2 + 0.01 ** 2 + 1 / 800));
+  const events: Event[] = [];
+  for (const [key, list] of series) {
+    let s = 0;
+    for (const { slot, u } of list) {
+      s = Math.min(0, s + u + k);
+      if (s < -h) {
+        events.push({ kind: 'shortfall', key, slot });
+        s = 0;
+      }
+    }
+  }
+  return events;
+}
+
+interface Tally {
+  houses: number;
+  found: number;
+  delays: number[];
+  wrong: number;
+}
+
+function percentile(values: number[], p: number): number | null {
+  if (values.length === 0) return null;
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))] ?? null;
+}
+
+const round1 = (v: number | null) => (v === null ? null : Math.round(v * 10) / 10);
+
+function main(): void {
+  const started = Date.now();
+  const runs: { planted: Planted; result: HouseResult; size: string }[] = [];
+  for (const [rows, tiers] of SIZES) {
+    for (const kind of FAULT_KINDS) {
+      for (let seed = 1; seed <= SEEDS; seed++) {
+        const houseSeed = hashSeed(rows, tiers, kind, seed);
+        const planted = plant(kind, rows, tiers, houseSeed);
+        const house = new RealisticHouse({
+          rows,
+          tiers,
+          seed: houseSeed,
+          breed: seed % 2 === 0 ? 'brown' : 'white',
+          photoperiodHours: PHOTOPERIOD_HOURS,
+          beltRunHours: seed % 3 === 0 ? [1.5, 3, 4.5, 6, 8, 10, 13, 16] : undefined,
+          faults: planted.fault ? [planted.fault] : [],
+        });
+        const result = runEngine(house, planted, WARMUP_DAYS + JUDGED_DAYS);
+        if (process.env['DETECT_DEBUG'] === kind) {
+          console.log(
+            `${rows}×${tiers} ${kind} at ${planted.row}:${planted.tier} onset day ${Math.floor(planted.onsetSlot / SLOTS_PER_DAY)} slot ${planted.onsetSlot % SLOTS_PER_DAY}`,
+          );
+          for (const e of result.events)
+            console.log(
+              '   ',
+              e.kind,
+              e.key,
+              'day',
+              Math.floor(e.slot / SLOTS_PER_DAY),
+              'slot',
+              e.slot % SLOTS_PER_DAY,
+              classify(e, planted),
+            );
+        }
+        runs.push({ planted, result, size: `${rows}×${tiers}` });
+      }
+    }
+  }
+  const houseWeeks = (runs.length * JUDGED_DAYS) / 7;
+
+  const score = (
+    eventsOf: (r: (typeof runs)[number]) => Event[],
+    judge: (event: Event, planted: Planted) => 'correct' | 'wrong' | 'false' = classify,
+  ) => {
+    const byFault = new Map<FaultKind, Tally>();
+    const falseByKind = new Map<string, number>();
+    for (const run of runs) {
+      const tally = byFault.get(run.planted.kind) ?? { houses: 0, found: 0, delays: [], wrong: 0 };
+      tally.houses += 1;
+      let firstCorrect: number | null = null;
+      for (const event of eventsOf(run)) {
+        const verdict = judge(event, run.planted);
+        if (verdict === 'correct') firstCorrect = Math.min(firstCorrect ?? Infinity, event.slot);
+        else if (verdict === 'wrong') tally.wrong += 1;
+        else falseByKind.set(event.kind, (falseByKind.get(event.kind) ?? 0) + 1);
+      }
+      if (firstCorrect !== null) {
+        tally.found += 1;
+        tally.delays.push(layingHours(run.planted.onsetSlot, firstCorrect));
+      }
+      byFault.set(run.planted.kind, tally);
+    }
+    const falseTotal = [...falseByKind.values()].reduce((a, b) => a + b, 0);
+    return { byFault, falseByKind, falsePerHouseWeek: falseTotal / houseWeeks };
+  };
+
+  const engine = score((r) => r.result.events);
+  const naive = score((r) => r.result.naive, classifyAffected);
+  // The oracle at the engine's false-alarm rate (or the lowest h that reaches it).
+  let oracleH = 0.25;
+  let oracle = score((r) => oracleEvents(r.result.oracleSeries, oracleH), classifyAffected);
+  for (const h of [0.25, 0.5, 1, 1.5, 2, 3, 4, 5, 6, 8, 10, 12, 15]) {
+    oracleH = h;
+    oracle = score((r) => oracleEvents(r.result.oracleSeries, h), classifyAffected);
+    if (oracle.falsePerHouseWeek <= Math.max(engine.falsePerHouseWeek, 0.02)) break;
+  }
+
+  console.log(
+    `[bench] ${runs.length} houses (${SIZES.map(([r, t]) => `${r}×${t}`).join(', ')}), ${SEEDS} seeds a kind, ` +
+      `${WARMUP_DAYS} days of history then ${JUDGED_DAYS} judged days: ${houseWeeks} house-weeks`,
+  );
+  console.log('');
+  const header = [
+    'fault',
+    'recall',
+    'median h',
+    'p90 h',
+    'wrong',
+    '| naive recall',
+    'naive med h',
+    '| oracle recall',
+    'oracle med h',
+  ];
+  console.log(header.map((h, i) => (i === 0 ? h.padEnd(24) : h.padStart(12))).join(''));
+  const recall: Record<string, number> = {};
+  const delay: Record<string, number | null> = {};
+  for (const kind of FAULT_KINDS.filter((k) => !NOT_FAULTS.has(k))) {
+    const e = engine.byFault.get(kind);
+    const n = naive.byFault.get(kind);
+    const o = oracle.byFault.get(kind);
+    if (!e || !n || !o) continue;
+    recall[kind] = e.found / e.houses;
+    delay[kind] = round1(percentile(e.delays, 50));
+    const cells = [
+      kind,
+      `${e.found}/${e.houses}`,
+      String(round1(percentile(e.delays, 50)) ?? '–'),
+      String(round1(percentile(e.delays, 90)) ?? '–'),
+      String(e.wrong),
+      `${n.found}/${n.houses}`,
+      String(round1(percentile(n.delays, 50)) ?? '–'),
+      `${o.found}/${o.houses}`,
+      String(round1(percentile(o.delays, 50)) ?? '–'),
+    ];
+    console.log(cells.map((c, i) => (i === 0 ? c.padEnd(24) : c.padStart(12))).join(''));
+  }
+  console.log('');
+  console.log(
+    `false exceptions per house-week: engine ${engine.falsePerHouseWeek.toFixed(3)} ` +
+      `(${JSON.stringify(Object.fromEntries(engine.falseByKind))}), naive ${naive.falsePerHouseWeek.toFixed(2)}, ` +
+      `oracle ${oracle.falsePerHouseWeek.toFixed(3)} (h = ${oracleH})`,
+  );
+  const medianOf = (m: ReturnType<typeof score>) =>
+    round1(
+      percentile(
+        [...m.byFault.values()].flatMap((t) => t.delays),
+        50,
+      ),
+    );
+  console.log(
+    `median delay over every fault found: engine ${medianOf(engine)} h, naive ${medianOf(naive)} h, oracle ${medianOf(oracle)} h; ` +
+      `${((Date.now() - started) / 1000).toFixed(1)} s`,
+  );
+  console.log(
+    JSON.stringify({
+      bench: 'detect',
+      house_weeks: houseWeeks,
+      false_per_house_week: Math.round(engine.falsePerHouseWeek * 1000) / 1000,
+      false_by_kind: Object.fromEntries(engine.falseByKind),
+      recall,
+      delay_h: delay,
+      naive: {
+        false_per_house_week: Math.round(naive.falsePerHouseWeek * 100) / 100,
+        recall: Object.fromEntries(
+          [...naive.byFault]
+            .filter(([k]) => !NOT_FAULTS.has(k))
+            .map(([k, t]) => [k, t.found / t.houses]),
+        ),
+        median_delay_h: medianOf(naive),
+      },
+      oracle: {
+        h: oracleH,
+        false_per_house_week: Math.round(oracle.falsePerHouseWeek * 1000) / 1000,
+        recall: Object.fromEntries(
+          [...oracle.byFault]
+            .filter(([k]) => !NOT_FAULTS.has(k))
+            .map(([k, t]) => [k, t.found / t.houses]),
+        ),
+        median_delay_h: medianOf(oracle),
+      },
+    }),
+  );
+}
+
+main();

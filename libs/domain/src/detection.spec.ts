@@ -1,0 +1,111 @@
+import { describe, expect, it } from 'vitest';
+import {
+  cusumStep,
+  CUSUM_START,
+  isSilent,
+  judgeSpot,
+  learnNorm,
+  robustSd,
+  silentStep,
+  type CusumState,
+} from './detection';
+
+describe('robustSd', () => {
+  it('is the MAD × 1.4826 of the MZ1 example', () => {
+    // Fixture MZ1 (TRADE-FACTS §5: a calculator example at codingace.net, not NIST): median 12, MAD 1.
+    expect(robustSd([10, 12, 12, 13, 12, 11, 14, 300])).toBeCloseTo(1.4826, 4);
+  });
+});
+
+describe('cusumStep', () => {
+  it('signals first at observation 14 of the NIST/SEMATECH tabular CUSUM example', () => {
+    // NIST/SEMATECH e-Handbook §6.3.2.3 (pmc323.htm), data as transcribed in TRADE-FACTS §5 [S2]: target 325,
+    // k = 0.3175, h = 4.1959; S_hi first exceeds h at observation 14 (4.945) [C]. The upper side of x is the
+    // lower side of 325 − x, which is what cusumStep keeps.
+    const x = [
+      324.93, 324.68, 324.73, 324.35, 325.35, 325.23, 324.13, 324.53, 325.23, 324.6, 324.63, 325.15,
+      328.33, 327.25, 327.83, 328.5, 326.68, 327.78, 326.88, 328.35,
+    ];
+    let state: CusumState = CUSUM_START;
+    const sums: number[] = [];
+    let first: number | null = null;
+    x.forEach((value, i) => {
+      const step = cusumStep(state, 325 - value, 1, 10, { k: 0.3175, h: 4.1959, clamp: 100 });
+      sums.push(-step.state.sum);
+      if (step.isAlarm && first === null) first = i + 1;
+      state = step.state;
+    });
+    expect(first).toBe(14);
+    expect(sums[12]).toBeCloseTo(3.0125, 4);
+    expect(sums[13]).toBeCloseTo(4.945, 4);
+  });
+
+  it('stays in control on the Montgomery & Runger example 16-6', () => {
+    // Montgomery & Runger, Applied Statistics and Probability for Engineers, Ex. 16-6, Tables 16-7/16-8
+    // (TRADE-FACTS §5 [S]): μ0 = 99, K = 1, H = 10; S_L = 0, 3.2, 2.9, 2.5, 0, … never exceeds 10.
+    const x = [
+      102.0, 94.8, 98.3, 98.4, 102.0, 98.5, 99.0, 97.7, 100.0, 98.1, 101.3, 98.7, 101.1, 98.4, 97.0,
+      96.7, 100.3, 101.4, 97.2, 101.0,
+    ];
+    const expected = [0, 3.2, 2.9, 2.5, 0, 0, 0, 0.3, 0, 0, 0, 0, 0, 0, 1.0, 2.3, 0, 0, 0.8, 0];
+    let state: CusumState = CUSUM_START;
+    x.forEach((value, i) => {
+      const step = cusumStep(state, value - 99, 1, 10, { k: 1, h: 10, clamp: 100 });
+      expect(-step.state.sum).toBeCloseTo(expected[i] ?? NaN, 6);
+      expect(step.isAlarm).toBe(false);
+      state = step.state;
+    });
+  });
+
+  it('calls a run of small wobbles no shortfall even past h (the run must be ¾ of the threshold below)', () => {
+    let state: CusumState = CUSUM_START;
+    let isAlarm = false;
+    for (let day = 0; day < 40; day++) {
+      // 2 % below every day with a 0.2 % wobble: far past h, but only 2 % short.
+      const step = cusumStep(state, Math.log(0.98), 0.002, 10);
+      isAlarm ||= step.isAlarm;
+      state = step.state;
+    }
+    expect(isAlarm).toBe(false);
+  });
+});
+
+describe('judgeSpot', () => {
+  const norm = learnNorm([0.01, -0.02, 0.0, 0.03, -0.01, 0.02, -0.03, 0.0]);
+
+  it('needs both: more than the threshold below and far outside the usual wobble', () => {
+    const wobble = 0.03;
+    // 15 % below at a 3 % wobble: both.
+    expect(judgeSpot({ own: 850, yardstick: 1000 }, norm, wobble, 10).isShort).toBe(true);
+    // 12 % below at a 5 % wobble: past the threshold, but only 2.6 σ: not short.
+    expect(judgeSpot({ own: 880, yardstick: 1000 }, norm, 0.05, 10).isShort).toBe(false);
+    // 6 % below at a 1 % wobble: very unusual, but under the 10 % threshold: not short.
+    expect(judgeSpot({ own: 940, yardstick: 1000 }, norm, 0.01, 10).isShort).toBe(false);
+  });
+
+  it('takes a ratio a person accepted as normal as the spot’s usual', () => {
+    const verdict = judgeSpot({ own: 880, yardstick: 1000 }, norm, 0.02, 10, Math.log(0.88));
+    expect(verdict.ratio).toBeCloseTo(1, 6);
+    expect(verdict.isShort).toBe(false);
+  });
+});
+
+describe('silent counters', () => {
+  it('are silent after 30 minutes in which their peers say ≥ 14 eggs were due, not in the first hours', () => {
+    let run = { zeroSlots: 0, expectedEggs: 0 };
+    // 3 h after lights-on, peers count 10 a slot: two slots of nothing is 20 eggs due.
+    run = silentStep(run, 0, 10, 0, 3);
+    expect(isSilent(run)).toBe(false);
+    run = silentStep(run, 0, 10, 0, 3.25);
+    expect(isSilent(run)).toBe(true);
+    // In the first hours of light a zero adds nothing due.
+    let early = { zeroSlots: 0, expectedEggs: 0 };
+    for (let slot = 0; slot < 6; slot++) early = silentStep(early, 0, 10, 0, slot / 4);
+    expect(isSilent(early)).toBe(false);
+    // Peers that counted nothing (belts not running) make a zero no evidence.
+    let idle = { zeroSlots: 0, expectedEggs: 0 };
+    for (let slot = 0; slot < 8; slot++) idle = silentStep(idle, 0, 0, 0, 4);
+    expect(isSilent(idle)).toBe(false);
+    expect(silentStep(run, 3, 10, 0, 4)).toEqual({ zeroSlots: 0, expectedEggs: 0 });
+  });
+});

@@ -1,0 +1,158 @@
+import { describe, expect, it } from 'vitest';
+import { CHECKPOINT_HOURS, COMPLETE_DAY, spotKeyOf, type SectionCounts } from './detection';
+import { judgeStage, pastDayOf, type PastDay } from './house-judgement';
+
+/**
+ * judgeStage on noisy generated days (never identical history days): each section lays a lognormal 2.5 %
+ * day-to-day factor around its own persistent level, with binomial-sized counting noise, from a seeded
+ * generator. The claims are about noise: quiet without a fault, and the fault found at its own scope.
+ */
+function seeded(seed: number): () => number {
+  let state = seed >>> 0;
+  return () => {
+    state = (state + 0x6d2b79f5) >>> 0;
+    let t = state;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+function normal(random: () => number): number {
+  return Math.sqrt(-2 * Math.log(Math.max(random(), 1e-12))) * Math.cos(2 * Math.PI * random());
+}
+
+const ROWS = 8;
+const TIERS = 3;
+/** Share of a day's eggs by each checkpoint (a smooth morning curve). */
+const SHARES = [...CHECKPOINT_HOURS.map((h) => 1 - Math.exp(-h / 4)), 1];
+
+function makeDay(
+  random: () => number,
+  factorOf: (row: number, tier: number) => number,
+): SectionCounts[] {
+  const sections: SectionCounts[] = [];
+  const house = Math.exp(0.01 * normal(random));
+  for (let row = 1; row <= ROWS; row++) {
+    for (let tier = 1; tier <= TIERS; tier++) {
+      const level = (row === 1 || row === ROWS ? 0.95 : 1) * (tier === 1 ? 0.94 : 1);
+      const mean = 775 * level * house * Math.exp(0.025 * normal(random)) * factorOf(row, tier);
+      const total = Math.max(0, Math.round(mean + Math.sqrt(mean * 0.1) * normal(random)));
+      sections.push({ row, tier, byStage: SHARES.map((share) => Math.round(total * share)) });
+    }
+  }
+  return sections;
+}
+
+function history(random: () => number, days: number): PastDay[] {
+  const past: PastDay[] = [];
+  for (let d = 0; d < days; d++)
+    past.unshift(
+      pastDayOf(
+        `d${d}`,
+        makeDay(random, () => 1),
+        new Set(),
+      ),
+    );
+  return past;
+}
+
+describe('judgeStage on noisy days', () => {
+  it('raises nothing on 14 fault-free days, at any stage', () => {
+    const random = seeded(11);
+    const past = history(random, 28);
+    let raised = 0;
+    for (let d = 0; d < 14; d++) {
+      const today = makeDay(random, () => 1);
+      for (let stage = 0; stage <= COMPLETE_DAY; stage++) {
+        raised += judgeStage({ thresholdPct: 10, stage, sections: today, past }).short.length;
+      }
+      past.unshift(pastDayOf(`t${d}`, today, new Set()));
+    }
+    expect(raised).toBe(0);
+  });
+
+  it('finds a section 20 % short as that section', () => {
+    const random = seeded(12);
+    const past = history(random, 28);
+    const today = makeDay(random, (row, tier) => (row === 3 && tier === 2 ? 0.8 : 1));
+    const judged = judgeStage({ thresholdPct: 10, stage: COMPLETE_DAY, sections: today, past });
+    expect(judged.short.map((s) => s.key)).toEqual([spotKeyOf('section', 3, 2)]);
+    expect(judged.short[0]?.ratio).toBeLessThan(0.88);
+  });
+
+  it('finds a whole row short as the row, not as its sections', () => {
+    const random = seeded(13);
+    const past = history(random, 28);
+    const today = makeDay(random, (row) => (row === 5 ? 0.85 : 1));
+    const judged = judgeStage({ thresholdPct: 10, stage: COMPLETE_DAY, sections: today, past });
+    expect(judged.short.map((s) => s.key)).toEqual([spotKeyOf('row', 5, null)]);
+  });
+
+  it('finds a whole tier short against the rest of the house, with its full drop', () => {
+    const random = seeded(14);
+    const past = history(random, 28);
+    const today = makeDay(random, (_row, tier) => (tier === 3 ? 0.85 : 1));
+    const judged = judgeStage({ thresholdPct: 10, stage: COMPLETE_DAY, sections: today, past });
+    expect(judged.short.map((s) => s.key)).toEqual([spotKeyOf('tier', null, 3)]);
+    // Against the rest of the house, a 15 % drop reads as about 15 % (not diluted by its own drop).
+    expect(judged.short[0]?.ratio).toBeLessThan(0.89);
+  });
+
+  it('learns a structural end row as normal', () => {
+    const random = seeded(15);
+    const past: PastDay[] = [];
+    const endRow = (row: number) => (row === ROWS ? 0.92 : 1);
+    for (let d = 0; d < 28; d++)
+      past.unshift(pastDayOf(`d${d}`, makeDay(random, endRow), new Set()));
+    const judged = judgeStage({
+      thresholdPct: 10,
+      stage: COMPLETE_DAY,
+      sections: makeDay(random, endRow),
+      past,
+    });
+    expect(judged.short).toEqual([]);
+  });
+
+  it('treats a silent section as a counter matter: no shortfall for it, its row or its tier', () => {
+    const random = seeded(16);
+    const past = history(random, 28);
+    const today = makeDay(random, () => 1).map((s) =>
+      s.row === 2 && s.tier === 1 ? { ...s, byStage: s.byStage.map(() => 0) } : s,
+    );
+    const judged = judgeStage({
+      thresholdPct: 10,
+      stage: COMPLETE_DAY,
+      sections: today,
+      past,
+      silent: new Set([spotKeyOf('section', 2, 1)]),
+    });
+    expect(judged.short).toEqual([]);
+    const plain = judgeStage({ thresholdPct: 10, stage: COMPLETE_DAY, sections: today, past });
+    expect(plain.short.length).toBeGreaterThan(0);
+  });
+
+  it('catches a 1.5 %/day slide with the CUSUM before it reaches −15 %', () => {
+    const random = seeded(17);
+    const past = history(random, 28);
+    let cusum = new Map();
+    let foundAtDrop: number | null = null;
+    for (let d = 1; d <= 12 && foundAtDrop === null; d++) {
+      const drop = 0.015 * d;
+      const today = makeDay(random, (row, tier) => (row === 4 && tier === 2 ? 1 - drop : 1));
+      const judged = judgeStage({
+        thresholdPct: 10,
+        stage: COMPLETE_DAY,
+        sections: today,
+        past,
+        cusum,
+      });
+      cusum = judged.cusum;
+      if (judged.short.some((s) => s.key === spotKeyOf('section', 4, 2))) foundAtDrop = drop;
+      // The slide is not yet an exception, so its days are learned like any other (the hard case).
+      past.unshift(pastDayOf(`s${d}`, today, new Set()));
+    }
+    expect(foundAtDrop).not.toBeNull();
+    expect(foundAtDrop ?? 1).toBeLessThan(0.15);
+  });
+});

@@ -1,0 +1,236 @@
+import {
+  COMPLETE_DAY,
+  cusumStep,
+  CUSUM_START,
+  effectiveWobble,
+  learnNorm,
+  logRatio,
+  measureSpots,
+  MIN_CLEAN_DAYS,
+  spotKeyOf,
+  STAGES,
+  judgeSpot,
+  type CusumState,
+  type SectionCounts,
+  type SpotMeasure,
+  type SpotScope,
+  type SpotVerdict,
+} from './detection';
+import { median } from './statistics';
+
+/** One complete past day of a house, reduced to what judging needs: each spot's log ratio at each stage. */
+export interface PastDay {
+  day: string;
+  /** per stage: spot key → log ratio to its yardstick */
+  logRatios: readonly ReadonlyMap<string, number>[];
+  /** spot keys that had an exception that day: not learned as normal */
+  excluded: ReadonlySet<string>;
+}
+
+/** A complete day's spot log ratios at every stage, to keep as a PastDay. */
+export function pastDayOf(
+  day: string,
+  sections: readonly SectionCounts[],
+  excluded: ReadonlySet<string>,
+  filled: ReadonlyMap<string, number> = new Map(),
+): PastDay {
+  const logRatios: Map<string, number>[] = [];
+  for (let stage = 0; stage < STAGES; stage++) {
+    const map = new Map<string, number>();
+    for (const m of measureSpots(sections, stage, filled)) {
+      const value = logRatio(m);
+      if (value !== null) map.set(m.key, value);
+    }
+    logRatios.push(map);
+  }
+  return { day, logRatios, excluded };
+}
+
+export interface SpotJudgement extends SpotVerdict {
+  key: string;
+  scope: SpotScope;
+  row: number | null;
+  tier: number | null;
+  /** fewer than MIN_CLEAN_DAYS clean days: shown, never mailed */
+  isLearning: boolean;
+  /** set when the CUSUM of complete days (a slow slide), not the day itself, says short */
+  isSlide: boolean;
+  /** the spot's usual log ratio and effective wobble, for plain words ("far outside its usual wobble") */
+  wobble: number;
+  cleanDays: number;
+}
+
+export interface StageInput {
+  thresholdPct: number;
+  /** 0 … COMPLETE_DAY */
+  stage: number;
+  /** today's sections, cumulative counts by stage (only `stage` is read) */
+  sections: readonly SectionCounts[];
+  /** complete past days, newest first */
+  past: readonly PastDay[];
+  /** sections whose counter is silent now: a counter matter, filled in at their expected counts */
+  silent?: ReadonlySet<string>;
+  /** spots with an open exception now (absorbing the sections of a short row or tier) */
+  open?: ReadonlySet<string>;
+  /** log ratio a person accepted as normal for a spot */
+  accepted?: ReadonlyMap<string, number>;
+  /** the CUSUM of each spot before this day (complete-day stage only) */
+  cusum?: ReadonlyMap<string, CusumState>;
+}
+
+export interface StageJudgement {
+  /** every spot measured, by key */
+  spots: Map<string, SpotJudgement>;
+  /** spots that are short now after one cause, one alarm (short rows and tiers absorb their sections) */
+  short: SpotJudgement[];
+  /** sections whose counter reads well above expected */
+  high: SpotJudgement[];
+  /** the CUSUM after this day (complete-day stage only; otherwise the input's) */
+  cusum: Map<string, CusumState>;
+  /** eggs of the house at this stage with silent sections filled in */
+  houseEggs: number;
+  /** expected eggs of the house with short spots at their expected counts (for the house-day check) */
+  houseEggsFilled: number;
+}
+
+const scopeOf = (key: string): SpotScope => key.split(':')[0] as SpotScope;
+
+/**
+ * Judges every spot of a house at one stage of one day against its own clean history, then applies one
+ * cause, one alarm: a silent section is not a shortfall (and is filled in for its row, tier and house), a
+ * short row or tier absorbs its sections, and when half or more of a row's sections are short the row is
+ * the finding, not each section.
+ */
+export function judgeStage(input: StageInput): StageJudgement {
+  const silent = input.silent ?? new Set<string>();
+  const open = input.open ?? new Set<string>();
+  const stage = input.stage;
+
+  // Silent sections are filled in at their expected counts: yardstick × usual ratio.
+  const filled = new Map<string, number>();
+  if (silent.size > 0) {
+    const plain = measureSpots(input.sections, stage);
+    for (const m of plain) {
+      if (m.scope !== 'section' || !silent.has(m.key)) continue;
+      const norm = learnNorm(cleanRatios(input.past, m.key, stage));
+      filled.set(m.key, m.yardstick * Math.exp(norm.baseline));
+    }
+  }
+  const measures = measureSpots(input.sections, stage, filled);
+
+  const norms = new Map(
+    measures.map((m) => [m.key, learnNorm(cleanRatios(input.past, m.key, stage))] as const),
+  );
+  const houseWobble = new Map<SpotScope, number | null>();
+  for (const scope of ['section', 'row', 'tier'] as const) {
+    const wobbles = measures
+      .filter((m) => m.scope === scope)
+      .map((m) => norms.get(m.key)?.wobble)
+      .filter((w): w is number => w !== null && w !== undefined);
+    houseWobble.set(scope, wobbles.length ? median(wobbles) : null);
+  }
+
+  const spots = new Map<string, SpotJudgement>();
+  const cusum = new Map(input.cusum ?? []);
+  for (const m of measures) {
+    const norm = norms.get(m.key) ?? learnNorm([]);
+    // Nothing learned yet: no fair yardstick (tiers and end rows differ by design), so no judgement.
+    if (norm.days === 0) continue;
+    const wobble = effectiveWobble(norm, houseWobble.get(m.scope) ?? null);
+    const verdict = judgeSpot(m, norm, wobble, input.thresholdPct, input.accepted?.get(m.key));
+    let isSlide = false;
+    if (stage === COMPLETE_DAY && norm.days >= MIN_CLEAN_DAYS) {
+      const deviation = Math.log(Math.max(verdict.ratio, 1e-6));
+      const step = cusumStep(
+        cusum.get(m.key) ?? CUSUM_START,
+        deviation,
+        wobble,
+        input.thresholdPct,
+      );
+      cusum.set(m.key, step.isAlarm ? CUSUM_START : step.state);
+      isSlide = step.isAlarm && !verdict.isShort;
+    }
+    spots.set(m.key, {
+      ...verdict,
+      isShort: verdict.isShort || isSlide,
+      isSlide,
+      key: m.key,
+      scope: m.scope,
+      row: m.row,
+      tier: m.tier,
+      isLearning: norm.days < MIN_CLEAN_DAYS,
+      wobble,
+      cleanDays: norm.days,
+    });
+  }
+
+  const all = [...spots.values()];
+  const rowSections = new Map<number, SpotJudgement[]>();
+  for (const s of all.filter((x) => x.scope === 'section')) {
+    const list = rowSections.get(s.row ?? 0) ?? [];
+    list.push(s);
+    rowSections.set(s.row ?? 0, list);
+  }
+  const shortRows = new Set<number>();
+  for (const s of all.filter((x) => x.scope === 'row')) {
+    const sections = rowSections.get(s.row ?? 0) ?? [];
+    const shortSections = sections.filter((x) => x.isShort).length;
+    // Half or more of a row's sections short is the row's problem, whatever the row total says yet.
+    const isRowShort = s.isShort || (sections.length > 1 && shortSections * 2 >= sections.length);
+    if (isRowShort) {
+      s.isShort = true;
+      shortRows.add(s.row ?? 0);
+    }
+    if (open.has(s.key)) shortRows.add(s.row ?? 0);
+  }
+  const shortTiers = new Set<number>();
+  for (const s of all.filter((x) => x.scope === 'tier')) {
+    if (s.isShort || open.has(s.key)) shortTiers.add(s.tier ?? 0);
+  }
+  const short = all.filter((s) => {
+    if (!s.isShort) return false;
+    if (s.scope !== 'section') return true;
+    return !shortRows.has(s.row ?? 0) && !shortTiers.has(s.tier ?? 0);
+  });
+  // A counter reading high is a calibration matter: judged on complete days only.
+  const high = all.filter((s) => s.scope === 'section' && s.isHigh && stage === COMPLETE_DAY);
+
+  const houseEggs = measures.filter((m) => m.scope === 'tier').reduce((n, m) => n + m.own, 0);
+  const shortExpected = short
+    .filter((s) => s.scope !== 'section' || !shortRows.has(s.row ?? 0))
+    .reduce((n, s) => n + Math.max(0, s.expected - s.eggs), 0);
+  return {
+    spots,
+    short,
+    high,
+    cusum,
+    houseEggs: houseEggs || sumOwn(measures),
+    houseEggsFilled: (houseEggs || sumOwn(measures)) + shortExpected,
+  };
+}
+
+function sumOwn(measures: readonly SpotMeasure[]): number {
+  return measures.filter((m) => m.scope === 'row').reduce((n, m) => n + m.own, 0);
+}
+
+/** A spot's log ratios at one stage over its clean past days, newest first. */
+function cleanRatios(past: readonly PastDay[], key: string, stage: number): number[] {
+  const values: number[] = [];
+  for (const day of past) {
+    if (isExcluded(day.excluded, key)) continue;
+    const value = day.logRatios[stage]?.get(key);
+    if (value !== undefined) values.push(value);
+  }
+  return values;
+}
+
+/** A section's day is excluded too when its row or tier had an exception (its ratio was off then). */
+function isExcluded(excluded: ReadonlySet<string>, key: string): boolean {
+  if (excluded.has(key)) return true;
+  if (scopeOf(key) !== 'section') return false;
+  const [, row, tier] = key.split(':');
+  return (
+    excluded.has(spotKeyOf('row', Number(row), null)) ||
+    excluded.has(spotKeyOf('tier', null, Number(tier)))
+  );
+}
