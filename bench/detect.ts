@@ -434,7 +434,7 @@ function runEngine(house: RealisticHouse, planted: Planted, totalDays: number): 
         '  day',
         d,
         spot
-          ? `${spot.eggs} ${spot.expected.toFixed(0)} ${spot.z.toFixed(2)} ${spot.isShort}`
+          ? `${spot.eggs} ${spot.expected.toFixed(0)} ${spot.z.toFixed(2)} ${spot.isShort} w=${spot.wobble.toFixed(4)} S=${JSON.stringify(cusum.get(spot.key))}`
           : 'no spot',
         [...open.keys()].join(' '),
         'silent',
@@ -571,7 +571,14 @@ function main(): void {
         const verdict = judge(event, run.planted);
         if (verdict === 'correct') firstCorrect = Math.min(firstCorrect ?? Infinity, event.slot);
         else if (verdict === 'wrong') tally.wrong += 1;
-        else falseByKind.set(event.kind, (falseByKind.get(event.kind) ?? 0) + 1);
+        else {
+          falseByKind.set(event.kind, (falseByKind.get(event.kind) ?? 0) + 1);
+          if (process.env['DETECT_FALSE'] && judge === classify) {
+            console.log(
+              `false: ${run.size} ${run.planted.kind} ${event.kind} ${event.key} day ${Math.floor(event.slot / SLOTS_PER_DAY)} slot ${event.slot % SLOTS_PER_DAY}`,
+            );
+          }
+        }
       }
       if (firstCorrect !== null) {
         tally.found += 1;

@@ -6,7 +6,8 @@ import { generator, hashSeed } from './random';
  * integration tests and `npm run bench:detect` use (the tidy Poisson mode of house-model.ts stays for tests
  * that need exact numbers):
  * - binomial counting (a hen lays at most one egg a day) on a lay rate by flock age;
- * - day-to-day section noise (lognormal, σ 2.5 % by default), a house-wide daily factor (weather, feed);
+ * - day-to-day section noise (lognormal, σ 2.5 % by default: how many hens choose to nest there today),
+ *   a house-wide daily factor on the lay rate (weather, feed);
  * - persistent section differences (end rows and the bottom and top tiers a few per cent low);
  * - lay times after lights-on: a fast rise and a long afternoon tail (a shifted gamma, median ≈ 5 h for white
  *   hens on 16L:8D after Patterson 1997 — TRADE-FACTS §2 [S]/[C]; brown hens 1.3 h earlier — TRADE-FACTS §2 [S]),
@@ -238,12 +239,15 @@ export class RealisticHouse {
       for (let tier = 1; tier <= this.tiers; tier++) {
         const random = generator(hashSeed(o.seed, 'section', row, tier, day));
         const persistent = this.persistent.get(`${row}:${tier}`) ?? { factor: 1, offsetHours: 0 };
+        // Hens choose where to nest: the persistent difference and today's wobble are in how many hens lay
+        // here (so a section is never pushed past one egg a hen); weather and feed move the house's rate.
         const noise = Math.exp(
           o.sectionNoise * normal(random) - (o.sectionNoise * o.sectionNoise) / 2,
         );
-        const p = Math.min(0.99, baseRate * persistent.factor * noise * houseFactor);
+        const hens = Math.round(o.hensPerSection * persistent.factor * noise);
+        const p = Math.min(0.99, baseRate * houseFactor);
         const expectedWithoutFault = o.hensPerSection * baseRate * persistent.factor;
-        const total = binomial(o.hensPerSection, p, random);
+        const total = binomial(hens, p, random);
         // Where in the day: the section's own shift plus a few minutes' wobble today.
         const shift = this.layShift + persistent.offsetHours + normal(random) * (5 / 60);
         const laid = new Int32Array(SLOTS_PER_DAY);

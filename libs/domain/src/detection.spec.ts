@@ -15,6 +15,12 @@ describe('robustSd', () => {
     // Fixture MZ1 (TRADE-FACTS §5: a calculator example at codingace.net, not NIST): median 12, MAD 1.
     expect(robustSd([10, 12, 12, 13, 12, 11, 14, 300])).toBeCloseTo(1.4826, 4);
   });
+
+  it('adds the small-sample factor n / (n − 0.8) past nine values', () => {
+    // Twelve values with median 0 and MAD 1: 1.4826 × 12 / 11.2.
+    const values = [-3, -2, -1, -1, -1, 0, 0, 1, 1, 1, 2, 3];
+    expect(robustSd(values)).toBeCloseTo((1.4826 * 12) / 11.2, 6);
+  });
 });
 
 describe('cusumStep', () => {

@@ -130,11 +130,17 @@ export function logRatio(m: Pick<SpotMeasure, 'own' | 'yardstick'>): number | nu
   return m.own > 0 && m.yardstick > 0 ? Math.log(m.own / m.yardstick) : null;
 }
 
-/** Median absolute deviation scaled to a normal standard deviation (× 1.4826; NIST e-Handbook §1.3.5.17). */
+/**
+ * Median absolute deviation scaled to a normal standard deviation (× 1.4826; NIST e-Handbook §1.3.5.17),
+ * with the small-sample factor n / (n − 0.8) for n > 9 (Croux & Rousseeuw 1992 — from memory [M]): the
+ * plain MAD of a few weeks of days runs a few per cent low, and an alarm rule on too small a wobble cries wolf.
+ */
 export function robustSd(values: readonly number[]): number | null {
   if (values.length < 2) return null;
   const centre = median(values);
-  return 1.4826 * median(values.map((v) => Math.abs(v - centre)));
+  const mad = 1.4826 * median(values.map((v) => Math.abs(v - centre)));
+  const n = values.length;
+  return n > 9 ? (mad * n) / (n - 0.8) : mad;
 }
 
 /** What a spot's clean history says it usually is at one stage. */
@@ -217,22 +223,23 @@ export function judgeSpot(
   };
 }
 
-/** A one-sided lower CUSUM over a spot's complete days, with the run that led to it. */
+/** A one-sided lower CUSUM over a spot's complete days, with its last few days. */
 export interface CusumState {
-  /** S ≤ 0; an alarm below −CUSUM_H */
+  /** S ≤ 0; an alarm below −h */
   sum: number;
-  /** days in the current run (since S last was 0) and the sum of their log deviations */
-  runDays: number;
-  runLogSum: number;
+  /** the log deviations of the last CUSUM_RECENT_DAYS days of the current run, newest last */
+  recent: readonly number[];
 }
-export const CUSUM_START: CusumState = { sum: 0, runDays: 0, runLogSum: 0 };
+export const CUSUM_START: CusumState = { sum: 0, recent: [] };
+/** Days whose mean must be ¾ of the threshold below for a CUSUM alarm. */
+export const CUSUM_RECENT_DAYS = 3;
 
 /**
  * One complete day into the tabular CUSUM for a downward shift (NIST/SEMATECH e-Handbook §6.3.2.3, lower
  * side: S_lo = max(0, S_lo + target − k − x), here on standardised log deviations and written as S = min(0,
  * S + u + k)). With k = 0.5 and h = 8 the in-control run length is many years per spot; a slide of 1–2 % a day
- * crosses h within about a week. Alarm needs the run's mean to be at least ¾ of the threshold below, so a
- * long run of small wobbles is never called a shortfall.
+ * crosses h within about a week. An alarm also needs the run's last few days to be, on average, at least ¾
+ * of the threshold below, so a long run of small wobbles is never called a shortfall.
  */
 export function cusumStep(
   state: CusumState,
@@ -240,17 +247,20 @@ export function cusumStep(
   wobble: number,
   thresholdPct: number,
   tuning: { k: number; h: number; clamp: number } = { k: CUSUM_K, h: CUSUM_H, clamp: 10 },
-): { state: CusumState; isAlarm: boolean; runRatio: number } {
+): { state: CusumState; isAlarm: boolean; recentRatio: number } {
   // One wild day (a glitch) moves the sum by at most `clamp` standard deviations.
   const u = Math.max(-tuning.clamp, logDeviation / wobble);
   const sum = Math.min(0, state.sum + u + tuning.k);
   const next: CusumState =
     sum === 0
       ? CUSUM_START
-      : { sum, runDays: state.runDays + 1, runLogSum: state.runLogSum + logDeviation };
-  const runRatio = next.runDays > 0 ? Math.exp(next.runLogSum / next.runDays) : 1;
-  const isAlarm = sum < -tuning.h && runRatio < 1 - (0.75 * thresholdPct) / 100;
-  return { state: next, isAlarm, runRatio };
+      : { sum, recent: [...state.recent, logDeviation].slice(-CUSUM_RECENT_DAYS) };
+  const recentRatio =
+    next.recent.length > 0
+      ? Math.exp(next.recent.reduce((a, b) => a + b, 0) / next.recent.length)
+      : 1;
+  const isAlarm = sum < -tuning.h && recentRatio < 1 - (0.75 * thresholdPct) / 100;
+  return { state: next, isAlarm, recentRatio };
 }
 
 /**

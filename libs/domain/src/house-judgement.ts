@@ -127,7 +127,12 @@ export function judgeStage(input: StageInput): StageJudgement {
       .filter((m) => m.scope === scope)
       .map((m) => norms.get(m.key)?.wobble)
       .filter((w): w is number => w !== null && w !== undefined);
-    houseWobble.set(scope, wobbles.length ? median(wobbles) : null);
+    // Pooled like variances (root mean square), not a median: a median of the spots' wobbles sits below
+    // their typical value, and an alarm rule on too small a wobble cries wolf.
+    houseWobble.set(
+      scope,
+      wobbles.length ? Math.sqrt(wobbles.reduce((a, w) => a + w * w, 0) / wobbles.length) : null,
+    );
   }
 
   const spots = new Map<string, SpotJudgement>();
