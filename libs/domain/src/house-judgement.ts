@@ -16,7 +16,6 @@ import {
   type SpotScope,
   type SpotVerdict,
 } from './detection';
-import { median } from './statistics';
 
 /** One complete past day of a house, reduced to what judging needs: each spot's log ratio at each stage. */
 export interface PastDay {
