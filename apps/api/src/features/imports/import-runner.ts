@@ -5,7 +5,7 @@ import { importMappingSchema, type ImportMapping } from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
 import {
   detectDelimiter,
-  intervalFromTotals,
+  stepFromTotals,
   LINE_ENDINGS,
   parseCount,
   parseTimestamp,
@@ -301,9 +301,17 @@ export class ImportRunner {
               });
               continue;
             }
-            eggs = intervalFromTotals(previous?.total ?? null, reading.value);
+            const step = stepFromTotals(previous?.total ?? null, reading.value);
+            if (step.kind === 'glitch') {
+              addError({
+                line,
+                column: reading.column,
+                message: `the total stepped back from ${previous?.total ?? '?'} to ${reading.value}: read as a glitch, no eggs counted`,
+              });
+            }
+            eggs = step.eggs;
             total = String(reading.value);
-            lastTotals.set(reading.counterId, { ts: reading.ts.getTime(), total: reading.value });
+            lastTotals.set(reading.counterId, { ts: reading.ts.getTime(), total: step.baseline });
           }
           const month = `${reading.ts.toISOString().slice(0, 7)}-01`;
           if (!knownMonths.has(month)) {

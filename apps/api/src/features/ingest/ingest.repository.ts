@@ -147,7 +147,7 @@ export async function lockCounters(db: Queryable, ids: number[]): Promise<void> 
   );
 }
 
-/** A counter's stored readings from the last one before `from` to the first one after `to`. */
+/** A counter's stored readings from the last three before `from` (so a glitch just before keeps its baseline) to the first one after `to`. */
 export async function readingsAround(
   db: Queryable,
   farmId: number,
@@ -157,7 +157,7 @@ export async function readingsAround(
 ) {
   const result = await db.execute<{ ts: Date; eggs: number; total: number | null }>(sql`
     (SELECT ts, eggs, total FROM readings WHERE farm_id = ${farmId} AND counter_id = ${counterId} AND ts < ${from}
-       ORDER BY ts DESC LIMIT 1)
+       ORDER BY ts DESC LIMIT 3)
     UNION ALL
     (SELECT ts, eggs, total FROM readings WHERE farm_id = ${farmId} AND counter_id = ${counterId}
        AND ts >= ${from} AND ts <= ${to})

@@ -148,6 +148,22 @@ describe('POST /api/v1/ingest/readings', () => {
     expect(rows.rows.map((r) => r.eggs)).toEqual([0, 30, 30, 20, 30]);
   });
 
+  it('reads a total that steps back a little as a glitch: no phantom eggs, in one batch or across two', async () => {
+    const counter = belt(3, 3);
+    const id = countersA.find((c) => c.externalId === counter)!.id;
+    await post(keyA, [
+      { counter, ts: at(0), total: 1000 },
+      { counter, ts: at(5), total: 1030 },
+      { counter, ts: at(10), total: 1029 },
+    ]);
+    await post(keyA, [{ counter, ts: at(15), total: 1035 }]);
+    const rows = await database.db.execute<{ eggs: number }>(
+      sql`select eggs from readings where counter_id = ${id} order by ts`,
+    );
+    // Before: 1030 → 1029 was a reset, 1,029 phantom eggs. Now 0, and 1035 counts 5 from 1030.
+    expect(rows.rows.map((r) => r.eggs)).toEqual([0, 30, 0, 5]);
+  });
+
   it('recounts the next stored total when a total arrives late', async () => {
     const counter = belt(2, 3);
     const id = countersA.find((c) => c.externalId === counter)!.id;

@@ -5,7 +5,7 @@ import {
   type IngestResult,
 } from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
-import { intervalFromTotals } from '@tierscope/domain';
+import { stepFromTotals, type TotalsStep } from '@tierscope/domain';
 import { AppError } from '../../platform/errors';
 import type { EventBus } from '../../platform/events';
 import { withRetryOnConflict } from '../../platform/transactions';
@@ -198,8 +198,10 @@ async function prepareTotals(
     let previousTotal: number | null = null;
     let hasNewBefore = false;
     for (const entry of sequence) {
+      const step: TotalsStep | null =
+        entry.total === null ? null : stepFromTotals(previousTotal, entry.total);
       if (entry.storedEggs === null) {
-        const eggs = entry.total === null ? 0 : intervalFromTotals(previousTotal, entry.total);
+        const eggs = step?.eggs ?? 0;
         inserts.counterIds.push(counterId);
         inserts.ts.push(entry.ts.toISOString());
         inserts.eggs.push(eggs);
@@ -207,7 +209,7 @@ async function prepareTotals(
         hasNewBefore = true;
       } else if (hasNewBefore && entry.total !== null) {
         // A stored total whose predecessor just changed: recount it.
-        const eggs = intervalFromTotals(previousTotal, entry.total);
+        const eggs = step?.eggs ?? 0;
         if (eggs !== entry.storedEggs) {
           adjustments.counterIds.push(counterId);
           adjustments.ts.push(entry.ts);
@@ -217,7 +219,8 @@ async function prepareTotals(
       } else {
         hasNewBefore = false;
       }
-      previousTotal = entry.total;
+      // A glitch (a total a little below the one before) keeps the earlier total as the baseline.
+      previousTotal = step ? step.baseline : entry.total;
     }
   }
   return { inserts, adjustments };
