@@ -36,4 +36,18 @@ describe('minutesSinceLightsOn', () => {
       1410,
     );
   });
+
+  it('counts real time across a daylight-saving change, not the wall clock', () => {
+    // America/Chicago springs forward at 02:00 on Sunday 8 March 2026 (US Energy Policy Act of 2005 rules:
+    // second Sunday of March). Lights on at 22:00 on the 7th (CST, 04:00 UTC on the 8th); at 05:00 CDT on the
+    // 8th (10:00 UTC) 6 hours have passed, though the wall clock says 7.
+    expect(minutesSinceLightsOn(new Date('2026-03-08T10:00:00Z'), 'America/Chicago', '22:00')).toBe(
+      360,
+    );
+    // Europe/Amsterdam falls back at 03:00 on 25 October 2026 (EU rule: last Sunday of October). Lights on at
+    // 00:30 CEST (22:30 UTC on the 24th); at 04:30 CET (03:30 UTC) 5 hours have passed, not 4.
+    expect(
+      minutesSinceLightsOn(new Date('2026-10-25T03:30:00Z'), 'Europe/Amsterdam', '00:30'),
+    ).toBe(300);
+  });
 });

@@ -29,11 +29,10 @@ export function localParts(instant: Date, timeZone: string) {
  * at lights-on in the house's time zone, so this is also how far into its production day an instant is.
  */
 export function minutesSinceLightsOn(instant: Date, timeZone: string, lightsOn: string): number {
-  const start = minutesOfDay(lightsOn);
-  if (start === null) throw new RangeError(`lights-on "${lightsOn}" is not HH:MM`);
-  const local = localParts(instant, timeZone);
-  const now = local.hour * 60 + local.minute + local.second / 60;
-  return (now - start + 1440) % 1440;
+  // Real elapsed time since the lights-on that began this production day, not a wall-clock difference: on a
+  // daylight-saving day the wall clock jumps an hour and a production day lasts 23 or 25 hours.
+  const day = productionDayOf(instant, timeZone, lightsOn);
+  return (instant.getTime() - productionDayStart(day, timeZone, lightsOn).getTime()) / 60_000;
 }
 
 /**
@@ -53,4 +52,20 @@ export function productionDayOf(instant: Date, timeZone: string, lightsOn: strin
     local.second,
   );
   return new Date(wall - start * 60_000).toISOString().slice(0, 10);
+}
+
+/** The instant a house's production day `day` (YYYY-MM-DD) starts: lights-on that local date. */
+export function productionDayStart(day: string, timeZone: string, lightsOn: string): Date {
+  const minutes = minutesOfDay(lightsOn);
+  if (minutes === null) throw new RangeError(`lights-on "${lightsOn}" is not HH:MM`);
+  const [y, m, d] = day.split('-').map(Number) as [number, number, number];
+  const wall = Date.UTC(y, m - 1, d, 0, minutes);
+  // Find the instant whose wall clock in the zone reads `wall`: two passes settle any offset (DST included).
+  let guess = wall;
+  for (let i = 0; i < 3; i++) {
+    const p = localParts(new Date(guess), timeZone);
+    const shown = Date.UTC(p.year, p.month - 1, p.day, p.hour, p.minute, p.second);
+    guess += wall - shown;
+  }
+  return new Date(guess);
 }

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { addDays, daysOf, productionDayStart, productionWindow } from './windows';
+import { addDays, daysOf, productionWindow } from './windows';
+import { productionDayStart } from './production-day';
 
 const chicago = { timezone: 'America/Chicago', lightsOn: '04:00' };
 const hours = (a: Date, b: Date) => (b.getTime() - a.getTime()) / 3_600_000;

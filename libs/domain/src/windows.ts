@@ -1,21 +1,4 @@
-import { minutesOfDay } from './clock';
-import { localParts, productionDayOf } from './production-day';
-
-/** The instant a house's production day `day` (YYYY-MM-DD) starts: lights-on that local date. */
-export function productionDayStart(day: string, timeZone: string, lightsOn: string): Date {
-  const minutes = minutesOfDay(lightsOn);
-  if (minutes === null) throw new RangeError(`lights-on "${lightsOn}" is not HH:MM`);
-  const [y, m, d] = day.split('-').map(Number) as [number, number, number];
-  const wall = Date.UTC(y, m - 1, d, 0, minutes);
-  // Find the instant whose wall clock in the zone reads `wall`: two passes settle any offset (DST included).
-  let guess = wall;
-  for (let i = 0; i < 3; i++) {
-    const p = localParts(new Date(guess), timeZone);
-    const shown = Date.UTC(p.year, p.month - 1, p.day, p.hour, p.minute, p.second);
-    guess += wall - shown;
-  }
-  return new Date(guess);
-}
+import { productionDayOf, productionDayStart } from './production-day';
 
 export function addDays(day: string, days: number): string {
   const date = new Date(`${day}T00:00:00Z`);
