@@ -93,17 +93,18 @@ describe('flock figures', () => {
 
 describe('the compartmental lay curve and its goodness of fit', () => {
   it('is zero before first egg, rises to a peak and declines slowly', () => {
-    const p = { a: 104, b: 0.0045, c: 0.45, d: 18.5 };
+    // The equation is from memory (TRADE-FACTS §3 [M]) and these parameters are ours: the check is that the
+    // model can take IASRI's published shape (TRADE-FACTS §2 [S]): lay from ≈ 21 weeks, ≥ 90 % by 28 weeks and
+    // holding to 40–42 weeks, ≤ 70 % by 72 weeks — each point asserted as published, not loosened.
+    const p = { a: 126, b: 0.0082, c: 0.35, d: 19 };
     expect(compartmentalLay(18, p)).toBe(0);
+    expect(compartmentalLay(28, p)).toBeGreaterThanOrEqual(90);
+    // "holds to 40–42 weeks": at least to 40, the start of that range.
+    for (const week of [32, 36, 40]) expect(compartmentalLay(week, p)).toBeGreaterThanOrEqual(90);
+    expect(compartmentalLay(72, p)).toBeLessThanOrEqual(70);
     const weeks = Array.from({ length: 60 }, (_, i) => 19 + i);
     const lay = weeks.map((t) => compartmentalLay(t, p));
-    const peak = weeks[lay.indexOf(Math.max(...lay))] ?? 0;
-    // IASRI: ≥ 90 % by 28 weeks, holding to 40–42 weeks, declining towards 70 % by 72 weeks.
-    expect(peak).toBeGreaterThanOrEqual(24);
-    expect(peak).toBeLessThanOrEqual(32);
-    expect(Math.max(...lay)).toBeGreaterThan(90);
-    expect(compartmentalLay(72, p)).toBeGreaterThan(65);
-    expect(compartmentalLay(72, p)).toBeLessThan(80);
+    expect(Math.max(...lay)).toBeLessThanOrEqual(100);
   });
 
   it('R² equals the squared correlation for a least-squares straight line (checked with simple-statistics)', () => {

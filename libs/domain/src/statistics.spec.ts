@@ -12,8 +12,9 @@ describe('median', () => {
     }
   });
 
-  it('is not moved by one wild value (NIST/SEMATECH MZ1 data: median 12)', () => {
-    // NIST/SEMATECH e-Handbook §1.3.5.17 example via TRADE-FACTS.md §5 (fixture MZ1).
+  it('is not moved by one wild value (the MZ1 data: median 12)', () => {
+    // Fixture MZ1 of TRADE-FACTS.md §5: a calculator example (codingace.net), not a NIST example; the
+    // modified z-score it illustrates is described in the NIST/SEMATECH e-Handbook §1.3.5.17.
     expect(median([10, 12, 12, 13, 12, 11, 14, 300])).toBe(12);
   });
 
