@@ -6,6 +6,7 @@ import { createTestDatabase } from '@tierscope/db/testing';
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import WebSocket from 'ws';
+import { hashLinkToken } from '../../apps/api/src/features/notifications/notifier';
 import { signInThroughApi, startApiProcess, type ApiProcess } from '../../scripts/processes';
 
 /**
@@ -255,5 +256,39 @@ describe('the live socket when access ends', () => {
     });
     expect(response.status).toBe(200);
     expect(await code).toBe(4403);
+  });
+
+  it('closes the open sockets of a user who resets their password, and refuses their old token', async () => {
+    const { socket, token } = await signedInSocket('admin@socket.test');
+    const code = closed(socket);
+    const [admin] = await database.db
+      .select()
+      .from(schema.users)
+      .where(eq(schema.users.email, 'admin@socket.test'));
+    // A reset link as the mail would carry it (stored as its SHA-256, as the notifier stores it).
+    const link = randomBytes(24).toString('hex');
+    await database.db.insert(schema.userTokens).values({
+      userId: admin!.id,
+      purpose: 'password_reset',
+      tokenHash: hashLinkToken(link),
+      expiresAt: new Date(Date.now() + 3600_000),
+    });
+    const reset = await fetch(`${api.baseUrl}/api/v1/auth/set-password`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify({ token: link, password: 'a new password after reset' }),
+    });
+    expect(reset.status).toBe(200);
+    expect(await code).toBe(4401);
+    const me = await fetch(`${api.baseUrl}/api/v1/auth/me`, {
+      headers: { authorization: `Bearer ${token}` },
+    });
+    expect(me.status).toBe(401);
+    // The old token no longer opens a socket either.
+    const again = new WebSocket(wsUrl);
+    await opened(again);
+    const refused = closed(again);
+    again.send(JSON.stringify({ type: 'auth', token }));
+    expect(await refused).toBe(4401);
   });
 });
