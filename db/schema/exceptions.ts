@@ -105,5 +105,7 @@ export const houseEvaluations = pgTable('house_evaluations', {
     .primaryKey()
     .references(() => houses.id, { onDelete: 'cascade' }),
   streaks: jsonb('streaks').notNull(),
+  /** the engine's memory between evaluations: stages already judged, each spot's CUSUM */
+  engine: jsonb('engine').notNull().default({}),
   evaluatedAt: timestamp('evaluated_at', { withTimezone: true }).notNull(),
 });

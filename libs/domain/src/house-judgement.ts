@@ -138,8 +138,9 @@ export function judgeStage(input: StageInput): StageJudgement {
   const cusum = new Map(input.cusum ?? []);
   for (const m of measures) {
     const norm = norms.get(m.key) ?? learnNorm([]);
-    // Nothing learned yet: no fair yardstick (tiers and end rows differ by design), so no judgement.
-    if (norm.days === 0) continue;
+    // Nothing learned yet: no fair yardstick (tiers and end rows differ by design), so no judgement; and
+    // peers that counted nothing (no data yet, lights off) say nothing either — least of all "recovered".
+    if (norm.days === 0 || m.yardstick <= 0) continue;
     const wobble = effectiveWobble(norm, houseWobble.get(m.scope) ?? null);
     const verdict = judgeSpot(m, norm, wobble, input.thresholdPct, input.accepted?.get(m.key));
     let isSlide = false;

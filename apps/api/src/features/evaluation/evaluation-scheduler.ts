@@ -22,6 +22,8 @@ export class EvaluationScheduler {
   private readonly lastRun = new Map<number, number>();
   private readonly pending = new Map<number, ReturnType<typeof setTimeout>>();
   private readonly running = new Map<number, Promise<void>>();
+  /** history replays under way (their entry leaves `history` when they start) */
+  private replaying = 0;
   private readonly history = new Map<
     number,
     { firstTs: Date; maxDays: number; timer: ReturnType<typeof setTimeout> }
@@ -87,6 +89,7 @@ export class EvaluationScheduler {
     const entry = this.history.get(houseId);
     this.history.delete(houseId);
     if (!entry) return;
+    this.replaying += 1;
     try {
       const house = await findHouse(this.db, houseId);
       if (!house) return;
@@ -100,6 +103,8 @@ export class EvaluationScheduler {
       await this.run(houseId);
     } catch (error) {
       this.log(`historical evaluation of house ${houseId} failed`, error);
+    } finally {
+      this.replaying -= 1;
     }
   }
 
@@ -110,7 +115,12 @@ export class EvaluationScheduler {
 
   /** Waits for all scheduled and running work (tests). */
   async idle(): Promise<void> {
-    while (this.pending.size > 0 || this.running.size > 0 || this.history.size > 0) {
+    while (
+      this.pending.size > 0 ||
+      this.running.size > 0 ||
+      this.history.size > 0 ||
+      this.replaying > 0
+    ) {
       await new Promise((r) => setTimeout(r, 20));
     }
   }

@@ -285,3 +285,81 @@ export async function counterEggsInHours(
     GROUP BY counter_id`);
   return new Map(result.rows.map((r) => [r.counter_id, r.eggs]));
 }
+
+/** What the engine keeps between evaluations of a house (see evaluation.service). */
+export interface EngineState {
+  /** the production day whose checkpoints were judged, and which */
+  checkpointDay?: string;
+  checkpoints?: number[];
+  /** the last production day judged complete */
+  completeDay?: string;
+  /** each spot's CUSUM of complete days */
+  cusum?: Record<string, { sum: number; recent: number[] }>;
+}
+
+export async function readEngine(db: Queryable, houseId: number): Promise<EngineState> {
+  const [row] = await db
+    .select({ engine: houseEvaluations.engine })
+    .from(houseEvaluations)
+    .where(eq(houseEvaluations.houseId, houseId));
+  return row?.engine ?? {};
+}
+
+export async function writeEngine(db: Queryable, houseId: number, engine: EngineState, at: Date) {
+  await db
+    .insert(houseEvaluations)
+    .values({ houseId, streaks: {}, engine, evaluatedAt: at })
+    .onConflictDoUpdate({ target: houseEvaluations.houseId, set: { engine, evaluatedAt: at } });
+}
+
+/**
+ * Each section's eggs by each checkpoint (hours after lights-on, from the hourly rollups) and over the whole
+ * day (the daily rollups), for the production days firstDay…lastDay. Hours count from lights-on on the
+ * house's own clock.
+ */
+export async function sectionStageCounts(
+  db: Queryable,
+  house: Pick<HouseRow, 'id' | 'farmId' | 'timezone' | 'lightsOn'>,
+  checkpointHours: readonly number[],
+  firstDay: string,
+  lastDay: string,
+): Promise<{ sectionId: number; day: string; byStage: number[] }[]> {
+  const local = sql`((r.hour AT TIME ZONE ${house.timezone}) - ${house.lightsOn}::interval)`;
+  const columns = checkpointHours.map(
+    (h, i) =>
+      sql`coalesce(sum(r.eggs) FILTER (WHERE ${local} - (${local})::date::timestamp < ${`${h} hours`}::interval), 0)::int AS ${sql.raw(`s${i}`)}`,
+  );
+  const partial = await db.execute<
+    Record<string, number> & { section_id: number; day: string }
+  >(sql`
+    SELECT c.section_id, (${local})::date::text AS day, ${sql.join(columns, sql`, `)}
+    FROM counter_hour_rollups r JOIN counters c ON c.id = r.counter_id
+    WHERE r.farm_id = ${house.farmId} AND c.house_id = ${house.id} AND c.kind = 'belt'
+      AND c.section_id IS NOT NULL
+      AND (${local})::date BETWEEN ${firstDay}::date AND ${lastDay}::date
+      AND r.hour >= (${firstDay}::date - 1)::timestamp AT TIME ZONE ${house.timezone}
+      AND r.hour < (${lastDay}::date + 2)::timestamp AT TIME ZONE ${house.timezone}
+    GROUP BY 1, 2`);
+  const whole = await db.execute<{ section_id: number; day: string; eggs: number }>(sql`
+    SELECT d.section_id, d.day::text AS day, d.eggs FROM section_day_rollups d
+    JOIN sections s ON s.id = d.section_id
+    WHERE d.farm_id = ${house.farmId} AND s.house_id = ${house.id}
+      AND d.day BETWEEN ${firstDay}::date AND ${lastDay}::date`);
+  const byKey = new Map<string, { sectionId: number; day: string; byStage: number[] }>();
+  for (const row of whole.rows) {
+    byKey.set(`${row.section_id}|${row.day}`, {
+      sectionId: row.section_id,
+      day: row.day,
+      // Days loaded from daily totals only (no hourly rollups) count their whole day at each checkpoint.
+      byStage: [...checkpointHours.map(() => row.eggs), row.eggs],
+    });
+  }
+  for (const row of partial.rows) {
+    const entry = byKey.get(`${row.section_id}|${row.day}`);
+    if (!entry) continue;
+    checkpointHours.forEach((_, i) => {
+      entry.byStage[i] = row[`s${i}`] ?? 0;
+    });
+  }
+  return [...byKey.values()];
+}

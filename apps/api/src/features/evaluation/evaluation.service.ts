@@ -2,7 +2,16 @@ import type { CellDetail, HouseMap } from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
 import {
   addDays,
+  CHECKPOINT_HOURS,
   CLEAR,
+  COMPLETE_DAY,
+  judgeStage,
+  NORM_DAYS,
+  normalUpperTail,
+  pastDayOf,
+  type PastDay,
+  type StageJudgement,
+  type SectionCounts,
   daysOf,
   eggsLost,
   findingKey,
@@ -30,6 +39,10 @@ import type { EventBus } from '../../platform/events';
 import {
   collectorTotal,
   counterEggsInHours,
+  readEngine,
+  sectionStageCounts,
+  writeEngine,
+  type EngineState,
   counterEggsSince,
   exceptionsOpenAt,
   exceptionsOverlapping,
@@ -56,6 +69,8 @@ interface Candidate extends Verdict {
   row: number | null;
   tier: number | null;
   isLearning: boolean;
+  /** a judgement of a complete day or a fixed checkpoint: opens at once, never re-tested */
+  isFinal?: boolean;
 }
 
 const spotKey = (c: Pick<Candidate, 'kind' | 'scope' | 'row' | 'tier'>) =>
@@ -119,9 +134,11 @@ export function createEvaluationService(
   // are dropped when readings for past days arrive or an exception changes (exceptions shape the baseline).
   const historyCache = new Map<string, { at: number; days: Promise<HistoryDay[]> }>();
   const layoutCache = new Map<number, { at: number; layout: Promise<Layout | undefined> }>();
+  const pastCache = new Map<string, { at: number; days: Promise<PastDay[]> }>();
   const forget = (houseId: number) => {
     for (const key of historyCache.keys())
       if (key.startsWith(`${houseId}|`)) historyCache.delete(key);
+    for (const key of pastCache.keys()) if (key.startsWith(`${houseId}|`)) pastCache.delete(key);
   };
   events.on('readings.accepted', (e) => {
     if (e.firstTs.getTime() < Date.now() - 20 * 3_600_000) forget(e.houseId);
@@ -206,20 +223,211 @@ export function createEvaluationService(
       }));
   }
 
+  /**
+   * A house's complete past days as the judgement needs them: each spot's log ratio by checkpoint and for
+   * the whole day, with the spots that had an exception that day kept out (a fault is never learned as
+   * normal; a spot closed as normal for this spot lets its days in). Cached like the old baseline.
+   */
+  async function pastDays(layout: Layout, beforeDay: string): Promise<PastDay[]> {
+    const key = `${layout.house.id}|past|${beforeDay}`;
+    const hit = pastCache.get(key);
+    if (hit && Date.now() - hit.at < CACHE_MS) return hit.days;
+    const days = loadPastDays(layout, beforeDay);
+    pastCache.set(key, { at: Date.now(), days });
+    days.catch(() => pastCache.delete(key));
+    return days;
+  }
+
+  async function loadPastDays(layout: Layout, beforeDay: string): Promise<PastDay[]> {
+    const { house } = layout;
+    const firstDay = addDays(beforeDay, -NORM_DAYS);
+    const lastDay = addDays(beforeDay, -1);
+    const rows = await sectionStageCounts(db, house, CHECKPOINT_HOURS, firstDay, lastDay);
+    const overlapping = await exceptionsOverlapping(
+      db,
+      house.id,
+      productionDayStart(firstDay, house.timezone, house.lightsOn),
+      productionDayStart(beforeDay, house.timezone, house.lightsOn),
+    );
+    const byId = new Map(layout.sections.map((sec) => [sec.id, sec]));
+    const days: PastDay[] = [];
+    for (let day = lastDay; day >= firstDay; day = addDays(day, -1)) {
+      const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
+      const dayEnd = productionDayStart(addDays(day, 1), house.timezone, house.lightsOn);
+      const excluded = new Set<string>();
+      for (const e of overlapping) {
+        if (
+          e.closeReason === 'normal_for_spot' ||
+          e.kind === 'collector_gap' ||
+          e.kind === 'house_dip'
+        )
+          continue;
+        if (e.openedAt < dayEnd && (e.closedAt === null || e.closedAt > dayStart))
+          excluded.add(findingKey(e));
+      }
+      const sections: SectionCounts[] = rows
+        .filter((r) => r.day === day)
+        .flatMap((r) => {
+          const sec = byId.get(r.sectionId);
+          return sec ? [{ row: sec.row, tier: sec.tier, byStage: r.byStage }] : [];
+        });
+      if (sections.length > 0) days.push(pastDayOf(day, sections, excluded));
+    }
+    return days;
+  }
+
+  /**
+   * The shortfall judgements due at `at`: the last complete day if it has not been judged yet (with the
+   * collector against the belts over it), and each of today's checkpoints already passed and not yet judged.
+   * `engine` remembers what was judged and each spot's CUSUM.
+   */
+  async function judgeDue(
+    layout: Layout,
+    at: Date,
+    engine: EngineState,
+    silentSections: ReadonlySet<string>,
+  ): Promise<Candidate[]> {
+    const { house } = layout;
+    const day = productionDayOf(at, house.timezone, house.lightsOn);
+    const yesterday = addDays(day, -1);
+    const silent = new Set([...silentSections].map((key) => `section:${key}`));
+    const open = new Set(
+      (await exceptionsOpenAt(db, house.id, at))
+        .filter((e) => e.kind === 'shortfall')
+        .map((e) => findingKey(e)),
+    );
+    const accepted = new Map<string, number>();
+    for (const e of await exceptionsOverlapping(
+      db,
+      house.id,
+      new Date(at.getTime() - NORM_DAYS * 86_400_000),
+      at,
+    )) {
+      if (e.closeReason === 'normal_for_spot' && e.ratio > 0)
+        accepted.set(findingKey(e), Math.log(e.ratio));
+    }
+    const byId = new Map(layout.sections.map((sec) => [sec.id, sec]));
+    const candidates: Candidate[] = [];
+    const toCandidates = (judged: StageJudgement) => {
+      const shortKeys = new Set(judged.short.map((spot) => spot.key));
+      for (const spot of judged.spots.values()) {
+        candidates.push({
+          kind: 'shortfall',
+          scope: spot.scope,
+          row: spot.row,
+          tier: spot.tier,
+          isLearning: spot.isLearning,
+          eggs: spot.eggs,
+          expected: spot.expected,
+          ratio: spot.ratio,
+          // How unusual, as the one-sided normal tail of the spot's own z.
+          pValue: Number.isFinite(spot.z) ? normalUpperTail(-spot.z) : 0,
+          isShort: shortKeys.has(spot.key),
+          isRecovered: spot.isRecovered,
+          isFinal: true,
+        });
+      }
+    };
+
+    if (!engine.completeDay || engine.completeDay < yesterday) {
+      const rows = await sectionStageCounts(db, house, CHECKPOINT_HOURS, yesterday, yesterday);
+      const sections = rows.flatMap((r) => {
+        const sec = byId.get(r.sectionId);
+        return sec ? [{ row: sec.row, tier: sec.tier, byStage: r.byStage }] : [];
+      });
+      if (sections.length > 0) {
+        const judged = judgeStage({
+          thresholdPct: house.shortfallThresholdPct,
+          stage: COMPLETE_DAY,
+          sections,
+          past: await pastDays(layout, yesterday),
+          silent,
+          open,
+          accepted,
+          cusum: new Map(Object.entries(engine.cusum ?? {})),
+        });
+        engine.cusum = Object.fromEntries(
+          [...judged.cusum].map(([key, state]) => [
+            key,
+            { sum: state.sum, recent: [...state.recent] },
+          ]),
+        );
+        toCandidates(judged);
+        // A complete day, with silent sections filled in at their expected counts (one cause, one alarm); a
+        // collector that counted nothing that day has no data to compare (not a gap).
+        const collector = layout.counters.some((c) => c.kind === 'collector')
+          ? await collectorTotal(db, house.farmId, house.id, yesterday, yesterday)
+          : 0;
+        if (collector > 0) {
+          const belts = judged.houseEggs;
+          const gap = judgeCollectorGap(collector, belts);
+          candidates.push({
+            kind: 'collector_gap',
+            scope: 'house',
+            row: null,
+            tier: null,
+            isLearning: false,
+            eggs: collector,
+            expected: belts,
+            ratio: belts > 0 ? collector / belts : 1,
+            pValue: gap.pValue,
+            isShort: gap.isGap,
+            isRecovered: Math.abs(gap.diffPct) <= 1.5,
+            isFinal: true,
+          });
+        }
+      }
+      engine.completeDay = yesterday;
+    }
+
+    if (engine.checkpointDay !== day) {
+      engine.checkpointDay = day;
+      engine.checkpoints = [];
+    }
+    const minutes = minutesSinceLightsOn(at, house.timezone, house.lightsOn);
+    const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
+    for (const [stage, hours] of CHECKPOINT_HOURS.entries()) {
+      if (minutes < hours * 60 || engine.checkpoints?.includes(stage)) continue;
+      const eggs = await sectionEggsBetween(
+        db,
+        house.farmId,
+        house.id,
+        dayStart,
+        new Date(dayStart.getTime() + hours * 3_600_000),
+      );
+      // Nothing counted by then (the gateway is late, or the house is empty): judged when it has arrived.
+      if ([...eggs.values()].every((n) => n === 0)) continue;
+      engine.checkpoints = [...(engine.checkpoints ?? []), stage];
+      const sections = layout.sections.map((sec) => {
+        const byStage = [...CHECKPOINT_HOURS.map(() => 0), 0];
+        byStage[stage] = eggs.get(sec.id) ?? 0;
+        return { row: sec.row, tier: sec.tier, byStage };
+      });
+      toCandidates(
+        judgeStage({
+          thresholdPct: house.shortfallThresholdPct,
+          stage,
+          sections,
+          past: await pastDays(layout, day),
+          silent,
+          open,
+          accepted,
+        }),
+      );
+    }
+    return candidates;
+  }
+
   /** Everything measured at one instant; `current` is the day so far. */
   async function measure(
     layout: Layout,
     at: Date,
     isLive: boolean,
+    engine: EngineState,
   ): Promise<{ day: string; candidates: Candidate[]; openAt: ExceptionRow[] }> {
     const { house } = layout;
     const day = productionDayOf(at, house.timezone, house.lightsOn);
-    const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
     const sectionIds = layout.sections.map((s) => s.id);
-    const eggs = isLive
-      ? await sectionTotals(db, house.farmId, sectionIds, day, day)
-      : await sectionEggsBetween(db, house.farmId, house.id, dayStart, at);
-    const current = counts(layout, eggs);
     const candidates: Candidate[] = [];
 
     const silent = new Set<string>();
@@ -271,34 +479,9 @@ export function createEvaluationService(
       if (e.kind === 'silent_counter' && e.row !== null && e.tier !== null)
         silent.add(sectionKey(e.row, e.tier));
     }
-    const judged = judgeHouse({
-      rows: house.rows,
-      tiers: house.tiers,
-      thresholdPct: house.shortfallThresholdPct,
-      current,
-      history: await history(layout, day),
-      silent,
-    });
-    candidates.push(...judged.candidates);
-
-    const belts = current.reduce((n, s) => n + s.eggs, 0);
-    if (isLive && layout.counters.some((c) => c.kind === 'collector')) {
-      const collector = await collectorTotal(db, house.farmId, house.id, day, day);
-      const gap = judgeCollectorGap(collector, belts);
-      candidates.push({
-        kind: 'collector_gap',
-        scope: 'house',
-        row: null,
-        tier: null,
-        isLearning: false,
-        eggs: collector,
-        expected: belts,
-        ratio: belts > 0 ? collector / belts : 1,
-        pValue: gap.pValue,
-        isShort: gap.isGap,
-        isRecovered: Math.abs(gap.diffPct) <= 1.5,
-      });
-    }
+    // Shortfalls: the complete day once it is over, and today's fixed checkpoints once each (never a
+    // running total re-tested every few seconds).
+    candidates.push(...(await judgeDue(layout, at, engine, silent)));
 
     if (isLive) {
       // Hen-day production of the last complete day against the seven before it.
@@ -371,7 +554,7 @@ export function createEvaluationService(
       // The database says what is open; a person may have closed it since the last evaluation.
       const base: Streak = { ...(streaks[key] ?? CLEAR), isOpen: existing !== undefined };
       const primed =
-        candidate.kind === 'house_dip' && candidate.isShort && !base.isOpen
+        (candidate.kind === 'house_dip' || candidate.isFinal) && candidate.isShort && !base.isOpen
           ? { ...base, short: 1 }
           : base;
       const step = stepStreak(primed, candidate);
@@ -470,10 +653,12 @@ export function createEvaluationService(
     async evaluateNow(houseId, now = new Date()) {
       const layout = await cachedLayout(houseId);
       if (!layout) return { changed: [] };
-      const { day, candidates, openAt } = await measure(layout, now, true);
+      const engine = await readEngine(db, houseId);
+      const { day, candidates, openAt } = await measure(layout, now, true, engine);
       const streaks = await readStreaks(db, houseId);
       const changed = await apply(layout, now, day, candidates, streaks, openAt);
       await writeStreaks(db, houseId, streaks, now);
+      await writeEngine(db, houseId, engine, now);
       announce(layout, changed);
       return { changed };
     },
@@ -484,16 +669,18 @@ export function createEvaluationService(
       const { house } = layout;
       const streaks: Record<string, Streak> = {};
       const changed: ExceptionRow[] = [];
+      // Replayed days are judged with their own CUSUM run, from before the first of them.
+      const engine: EngineState = { completeDay: addDays(firstDay, -1) };
       for (const day of daysOf({ firstDay, lastDay })) {
         const start = productionDayStart(day, house.timezone, house.lightsOn);
         const end = productionDayStart(addDays(day, 1), house.timezone, house.lightsOn);
-        // Checkpoints at whole hours (the rollups' grain): through the morning's main lay, the afternoon, the day's end.
-        const checkpoints = [3, 5, 7, 11]
-          .map((h) => new Date(start.getTime() + h * 3_600_000))
-          .concat(end);
+        // The engine's own checkpoints (whole hours after lights-on: the rollups' grain), then the day's end.
+        const checkpoints = CHECKPOINT_HOURS.map(
+          (h) => new Date(start.getTime() + h * 3_600_000),
+        ).concat(end);
         // Today's checkpoints that have passed are replayed too; the live evaluation carries on from there.
         for (const at of checkpoints.filter((checkpoint) => checkpoint.getTime() <= Date.now())) {
-          const { candidates, openAt } = await measure(layout, at, false);
+          const { candidates, openAt } = await measure(layout, at, false, engine);
           changed.push(...(await apply(layout, at, day, candidates, streaks, openAt)));
         }
       }

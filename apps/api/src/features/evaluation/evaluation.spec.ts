@@ -90,17 +90,29 @@ afterAll(async () => {
 });
 
 describe('evaluating a house', () => {
-  it('opens a shortfall on the short section after two consecutive evaluations, not after one', async () => {
+  it('judges the short section at the first checkpoint once, not on every evaluation in between', async () => {
+    // Four hours after lights-on no checkpoint has passed yet: nothing is judged, whatever the running total.
+    const early = await runtime.evaluation.evaluateNow(
+      fixture.houseA,
+      new Date(NOW.getTime() - 6 * HOUR),
+    );
+    expect(early.changed).toEqual([]);
+    // Nine hours after lights-on the 5-hour checkpoint has passed: judged once, and the section opens.
     const first = await runtime.evaluation.evaluateNow(
       fixture.houseA,
       new Date(NOW.getTime() - HOUR),
     );
-    expect(first.changed).toEqual([]);
-    const second = await runtime.evaluation.evaluateNow(fixture.houseA, NOW);
-    expect(second.changed.map((e) => [e.kind, e.scope, e.row, e.tier])).toEqual([
+    expect(first.changed.map((e) => [e.kind, e.scope, e.row, e.tier])).toEqual([
       ['shortfall', 'section', 2, 2],
     ]);
-    const opened = second.changed[0]!;
+    // Again a minute later: no checkpoint is due, so nothing is judged again.
+    const again = await runtime.evaluation.evaluateNow(
+      fixture.houseA,
+      new Date(NOW.getTime() - HOUR + 60_000),
+    );
+    expect(again.changed).toEqual([]);
+    const second = await runtime.evaluation.evaluateNow(fixture.houseA, NOW);
+    const opened = second.changed[0] ?? first.changed[0]!;
     expect(opened.ratio).toBeCloseTo(0.8, 1);
     expect(opened.pValue).toBeLessThan(0.01);
     expect(opened.isLearning).toBe(false);

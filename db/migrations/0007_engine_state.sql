@@ -1,0 +1,1 @@
+ALTER TABLE "house_evaluations" ADD COLUMN "engine" jsonb DEFAULT '{}'::jsonb NOT NULL;
