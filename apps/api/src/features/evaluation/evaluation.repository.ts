@@ -293,6 +293,8 @@ export interface EngineState {
   checkpoints?: number[];
   /** the last production day judged complete */
   completeDay?: string;
+  /** that day's eggs with silent sections and short spots filled in at their expected counts */
+  completeDayEggs?: number;
   /** each spot's CUSUM of complete days */
   cusum?: Record<string, { sum: number; recent: number[] }>;
 }

@@ -15,7 +15,10 @@ import {
   daysOf,
   eggsLost,
   findingKey,
-  isSilentCounter,
+  isSilent,
+  SILENT_GRACE_HOURS,
+  SILENT_MIN_SLOTS,
+  spotKeyOf,
   judgeCollectorGap,
   judgeHouse,
   judgeHouseDip,
@@ -353,6 +356,7 @@ export function createEvaluationService(
           ]),
         );
         toCandidates(judged);
+        engine.completeDayEggs = judged.houseEggsFilled;
         // A complete day, with silent sections filled in at their expected counts (one cause, one alarm); a
         // collector that counted nothing that day has no data to compare (not a gap).
         const collector = layout.counters.some((c) => c.kind === 'collector')
@@ -444,19 +448,34 @@ export function createEvaluationService(
             new Date(at.getTime() - 3_600_000),
             at,
           );
-      const minutesIntoDay = minutesSinceLightsOn(at, house.timezone, house.lightsOn);
+      const hoursIntoDay = minutesSinceLightsOn(at, house.timezone, house.lightsOn) / 60;
+      const isLight = hoursIntoDay <= house.photoperiodHours;
+      // Each section's usual ratio to its tier peers, from its clean complete days.
+      const past = await pastDays(layout, productionDayOf(at, house.timezone, house.lightsOn));
+      const sectionOf = new Map(layout.sections.map((sec) => [sec.id, sec]));
       for (const belt of belts) {
-        const section = layout.sections.find((s) => s.id === belt.sectionId);
+        const section = sectionOf.get(belt.sectionId ?? -1);
         if (!section) continue;
-        const peers = belts.filter((b) => b.id !== belt.id).map((b) => recent.get(b.id) ?? 0);
-        const isSilent = isSilentCounter({
-          eggsLast30: recent.get(belt.id) ?? 0,
-          peerEggsLast30: peers,
-          minutesIntoDay,
-          photoperiodHours: house.photoperiodHours,
-        });
-        if (isSilent) silent.add(sectionKey(section.row, section.tier));
         const own = recent.get(belt.id) ?? 0;
+        const peers = belts
+          .filter(
+            (b) => b.id !== belt.id && sectionOf.get(b.sectionId ?? -1)?.tier === section.tier,
+          )
+          .map((b) => recent.get(b.id) ?? 0);
+        const key = spotKeyOf('section', section.row, section.tier);
+        const ratios = past
+          .filter((d) => !d.excluded.has(key))
+          .map((d) => d.logRatios[COMPLETE_DAY]?.get(key))
+          .filter((v): v is number => v !== undefined);
+        // What it should have counted in the window, from what its peers counted: zero is silent only when
+        // that is too many eggs for zero to be chance (and not in the first hours of light, when sections
+        // start laying up to half an hour apart).
+        const due = peers.length ? median(peers) * Math.exp(ratios.length ? median(ratios) : 0) : 0;
+        const isSilentNow =
+          isLight &&
+          hoursIntoDay >= SILENT_GRACE_HOURS &&
+          isSilent({ zeroSlots: own === 0 ? SILENT_MIN_SLOTS : 0, expectedEggs: due });
+        if (isSilentNow) silent.add(sectionKey(section.row, section.tier));
         candidates.push({
           kind: 'silent_counter',
           scope: 'section',
@@ -464,10 +483,10 @@ export function createEvaluationService(
           tier: section.tier,
           isLearning: false,
           eggs: own,
-          expected: 0,
-          ratio: 0,
-          pValue: 1,
-          isShort: isSilent,
+          expected: due,
+          ratio: due > 0 ? own / due : 1,
+          pValue: Math.exp(-due),
+          isShort: isSilentNow,
           isRecovered: own > 0,
         });
       }
@@ -490,7 +509,12 @@ export function createEvaluationService(
       const dayEggs = await sectionDays(db, house.farmId, sectionIds, addDays(day, -8), yesterday);
       const hdp = (d: string) => {
         const h = hens.get(d);
-        const e = dayEggs.filter((r) => r.day === d).reduce((n, r) => n + r.eggs, 0);
+        // Yesterday as judged: a silent counter's eggs and a short row's or tier's missing eggs filled in,
+        // so one cause raises one alarm (the counter, the row, the tier), not also a house dip.
+        const e =
+          d === yesterday && engine.completeDay === yesterday && engine.completeDayEggs
+            ? engine.completeDayEggs
+            : dayEggs.filter((r) => r.day === d).reduce((n, r) => n + r.eggs, 0);
         return h && e > 0 ? (e / h) * 100 : null;
       };
       const latest = hdp(yesterday);
