@@ -72,8 +72,8 @@ async function openExceptions() {
   const rows = await database.db.execute<{
     kind: string;
     scope: string;
-    row: number;
-    tier: number;
+    row: number | null;
+    tier: number | null;
   }>(
     sql`select kind, scope, row, tier from exceptions where house_id = ${fixture.houseA}
         and status <> 'closed' order by kind, scope, row, tier`,
