@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
+  measuredWords,
   cusumStep,
   CUSUM_START,
   isSilent,
@@ -113,5 +114,38 @@ describe('silent counters', () => {
     for (let slot = 0; slot < 8; slot++) idle = silentStep(idle, 0, 0, 0, 4);
     expect(isSilent(idle)).toBe(false);
     expect(silentStep(run, 3, 10, 0, 4)).toEqual({ zeroSlots: 0, expectedEggs: 0 });
+  });
+});
+
+describe('measuredWords', () => {
+  it('says how far below and how unusual in words, with thousands separated, never a p-value', () => {
+    const text = measuredWords({
+      kind: 'shortfall',
+      eggs: 5423,
+      expected: 6541,
+      ratio: 5423 / 6541,
+      pValue: 2.6e-46,
+    });
+    expect(text).toBe(
+      "17 % below expected: 5,423 eggs where 6,541 were expected — far outside this spot's usual day-to-day wobble",
+    );
+    expect(
+      measuredWords({ kind: 'shortfall', eggs: 880, expected: 1000, ratio: 0.88, pValue: 0.02 }),
+    ).toContain('within what this spot sometimes does');
+  });
+
+  it('says what a silent counter should have counted, and which way a collector is off', () => {
+    expect(
+      measuredWords({ kind: 'silent_counter', eggs: 0, expected: 37.2, ratio: 0, pValue: 0 }),
+    ).toBe('counted nothing where its peers say about 37 eggs were due — not chance');
+    expect(
+      measuredWords({
+        kind: 'collector_gap',
+        eggs: 10420,
+        expected: 10000,
+        ratio: 1.042,
+        pValue: 0,
+      }),
+    ).toBe('the collector counted 4.2 % more eggs than the belts (10,420 against 10,000)');
   });
 });

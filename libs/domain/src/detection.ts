@@ -343,3 +343,42 @@ export function judgeHouseDay(
     isRecovered: ratio >= 1 - pct / 200,
   };
 }
+
+/** A whole number with thousands separators, the way people read egg counts. */
+export function formatCount(value: number): string {
+  return Math.round(value).toLocaleString('en-US');
+}
+
+/** How unusual a finding is, in words (from its one-sided tail probability): never a p-value. */
+export function unusualWords(tailProbability: number): string {
+  // z ≤ −4 (the alarm rule) has a one-sided normal tail of about 3·10⁻⁵; z ≤ −3 about 1.3·10⁻³.
+  if (tailProbability <= 3.2e-5) return "far outside this spot's usual day-to-day wobble";
+  if (tailProbability <= 1.35e-3) return "well outside this spot's usual day-to-day wobble";
+  return 'within what this spot sometimes does';
+}
+
+/** What an exception measured, in plain words with separated thousands and no p-values. */
+export function measuredWords(e: {
+  kind: 'shortfall' | 'silent_counter' | 'collector_gap' | 'house_dip';
+  eggs: number;
+  expected: number;
+  ratio: number;
+  pValue: number;
+}): string {
+  switch (e.kind) {
+    case 'shortfall': {
+      const below = Math.round((1 - e.ratio) * 100);
+      return `${below} % below expected: ${formatCount(e.eggs)} eggs where ${formatCount(e.expected)} were expected — ${unusualWords(e.pValue)}`;
+    }
+    case 'silent_counter':
+      return e.expected > 0
+        ? `counted nothing where its peers say about ${formatCount(e.expected)} eggs were due — not chance`
+        : 'counted nothing while its peers counted';
+    case 'collector_gap': {
+      const pct = Math.round(Math.abs(e.ratio - 1) * 1000) / 10;
+      return `the collector counted ${pct} % ${e.ratio >= 1 ? 'more' : 'fewer'} eggs than the belts (${formatCount(e.eggs)} against ${formatCount(e.expected)})`;
+    }
+    case 'house_dip':
+      return `hen-day production ${Math.round(e.eggs * 10) / 10} % against ${Math.round(e.expected * 10) / 10} % expected`;
+  }
+}

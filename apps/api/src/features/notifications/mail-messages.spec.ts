@@ -45,14 +45,17 @@ describe('mail wording', () => {
           ratio: 0.84,
           eggs: 4200,
           expected: 5000,
+          pValue: 1e-9,
           // 10:15 UTC = 04:15 in Chicago (UTC−6 in December)
           openedAt: new Date('2026-12-01T10:15:00Z'),
         },
       ],
     });
     expect(mail.subject).toBe('[Tierscope · F] New exception in H');
+    // Plain words: thousands separated, how unusual in words, never a p-value.
+    expect(mail.text).not.toMatch(/p = |e-\d/);
     expect(mail.text).toContain(
-      'Shortfall at row 4 (all tiers): 4200 eggs of 5000 expected (84 %), since 1 Dec, 04:15 (America/Chicago)',
+      "Shortfall at row 4 (all tiers): 16 % below expected: 4,200 eggs where 5,000 were expected — far outside this spot's usual day-to-day wobble, since 1 Dec, 04:15 (America/Chicago)",
     );
   });
 

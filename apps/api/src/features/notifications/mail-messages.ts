@@ -5,6 +5,7 @@ import {
   type ExceptionScope,
   type FindingCause,
   likelyChecks,
+  measuredWords,
 } from '@tierscope/domain';
 import type { OutgoingMail } from '../../platform/mailer';
 
@@ -49,6 +50,8 @@ export interface ExceptionForMail {
   ratio: number;
   eggs: number;
   expected: number;
+  /** how unusual (a one-sided tail probability), put in words */
+  pValue: number;
   openedAt: Date;
 }
 
@@ -72,15 +75,8 @@ export function newExceptionsMail(input: {
       hour: '2-digit',
       minute: '2-digit',
     });
-  const line = (e: ExceptionForMail) => {
-    const measured =
-      e.kind === 'shortfall'
-        ? `${Math.round(e.eggs)} eggs of ${Math.round(e.expected)} expected (${Math.round(e.ratio * 100)} %)`
-        : e.kind === 'silent_counter'
-          ? 'no eggs counted for 30 minutes'
-          : `${Math.round(e.ratio * 1000) / 10} %`;
-    return `${EXCEPTION_KIND_LABELS[e.kind]} at ${spotWords(e.scope, e.row, e.tier)}: ${measured}, since ${when(e.openedAt)} (${input.timezone})`;
-  };
+  const line = (e: ExceptionForMail) =>
+    `${EXCEPTION_KIND_LABELS[e.kind]} at ${spotWords(e.scope, e.row, e.tier)}: ${measuredWords(e)}, since ${when(e.openedAt)} (${input.timezone})`;
   const link = `${input.publicUrl}/exceptions?houseId=${input.houseId}`;
   const checks = (e: ExceptionForMail) => likelyChecks(e.kind, e.scope).join('; ');
   const text = [

@@ -84,7 +84,9 @@ describe('mail about new exceptions', () => {
     const mail = mails[0]!;
     expect(mail.to).toEqual([fixture.usersA.manager.email]);
     expect(mail.subject).toBe('[Tierscope · Farm A] 2 new exceptions in A1');
-    expect(mail.text).toContain('Shortfall at row 2, tier 1: 850 eggs of 1000 expected (85 %)');
+    expect(mail.text).toContain(
+      'Shortfall at row 2, tier 1: 15 % below expected: 850 eggs where 1,000 were expected',
+    );
     expect(mail.text).toContain('Silent counter at row 3, tier 2');
     expect(mail.text).not.toContain('row 4, tier 3');
     expect(mail.text).toContain(`http://tierscope.test/exceptions?houseId=${fixture.houseA}`);

@@ -153,7 +153,10 @@ describe('opening a work order', () => {
       "This row's feed line (chain, hoppers, feed level)",
       "This row's water line (pressure, drinkers)",
     ]);
-    expect(response.body.description).toContain('850 eggs of 1000 expected (85 %)');
+    expect(response.body.description).toContain(
+      '15 % below expected: 850 eggs where 1,000 were expected',
+    );
+    expect(response.body.description).not.toContain('p = ');
   });
 
   it('answers 400 with the field for a missing title, a spot outside the house and a stranger as assignee', async () => {

@@ -21,6 +21,7 @@ import {
   hoursToDone,
   isOverdue,
   likelyChecks,
+  measuredWords,
   toCsv,
   FINDING_CAUSE_LABELS,
   WORK_ORDER_STATE_LABELS,
@@ -287,10 +288,7 @@ export function createWorkOrdersService(options: {
         tier = e.scope === 'section' || e.scope === 'tier' ? e.tier : null;
         checklist ??= likelyChecks(e.kind, e.scope);
         if (!description) {
-          description =
-            e.kind === 'shortfall'
-              ? `Flagged ${spotWords(e.scope, e.row, e.tier)}: ${e.eggs} eggs of ${Math.round(e.expected)} expected (${Math.round(e.ratio * 100)} %), p = ${e.pValue.toExponential(1)}.`
-              : `Flagged ${spotWords(e.scope, e.row, e.tier)}: ${e.kind.replace('_', ' ')}.`;
+          description = `Flagged ${spotWords(e.scope, e.row, e.tier)}: ${measuredWords(e)}.`;
         }
       }
       const house = await findHouse(db, houseId);
