@@ -7,7 +7,11 @@
 import { schema, type Database } from '@tierscope/db';
 import { addDays } from '@tierscope/domain';
 import { sql } from 'drizzle-orm';
+import { HouseModel } from '../simulator/src/house-model';
 import { layRate } from '../simulator/src/lay-model';
+
+/** The seed `npm start` runs the demo simulator with (scripts/start.ts). */
+export const DEMO_SIMULATOR_SEED = 2026;
 
 /** A repeatable number in [0, 1) for a key (FNV-1a), so the demo is the same on every machine. */
 function unit(key: string): number {
@@ -36,6 +40,41 @@ export async function writeDemoHistory(db: Database, lastDay: string): Promise<n
     const sectionRows: (typeof schema.sectionDayRollups.$inferInsert)[] = [];
     const collectorRows: (typeof schema.collectorDayRollups.$inferInsert)[] = [];
     const lossRows: (typeof schema.mortality.$inferInsert)[] = [];
+    // The same persistent section differences as the simulator that takes over (its seed is the demo's),
+    // so the history and the live days agree on each section's usual share: no step where they meet.
+    const counters = await db
+      .select()
+      .from(schema.counters)
+      .where(sql`house_id = ${house.id}`);
+    const model = new HouseModel(
+      {
+        name: house.name,
+        rows: house.rows,
+        tiers: house.tiers,
+        timezone: house.timezone,
+        lightsOn: house.lightsOn,
+        photoperiodHours: house.photoperiodHours,
+        hensHoused: flock.hensHoused,
+        flockAgeWeeks: 40,
+        counters: counters.map((c) => {
+          const section = sections.find((x) => x.id === c.sectionId);
+          return {
+            externalId: c.externalId,
+            kind: c.kind,
+            row: section?.row ?? null,
+            tier: section?.tier ?? null,
+          };
+        }),
+      },
+      { seed: DEMO_SIMULATOR_SEED, start: new Date() },
+    );
+    const dayFrom = new Date(Date.UTC(2026, 0, 1, 0));
+    const dayTo = new Date(dayFrom.getTime() + 86_400_000);
+    const weights = sections.map((s) => {
+      const counter = counters.find((c) => c.sectionId === s.id);
+      return counter ? model.expectedEggs(s.row, s.tier, counter.externalId, dayFrom, dayTo) : 0;
+    });
+    const weightSum = weights.reduce((a, b) => a + b, 0) || 1;
     let hens = flock.hensHoused;
     for (let day = flock.placedOn; day <= lastDay; day = addDays(day, 1)) {
       const age =
@@ -44,9 +83,8 @@ export async function writeDemoHistory(db: Database, lastDay: string): Promise<n
       const dayNoise = 1 + (unit(`${house.id}:${day}`) - 0.5) * 0.03;
       const houseEggs = hens * layRate(age) * dayNoise;
       let belts = 0;
-      for (const s of sections) {
-        // Upper tiers take a little more of the nesting, end rows a little less: how aviaries differ.
-        const share = (1 + (s.tier - 2) * 0.04 - (s.row === 1 ? 0.03 : 0)) / sections.length;
+      for (const [i, s] of sections.entries()) {
+        const share = (weights[i] ?? 0) / weightSum;
         const eggs = Math.round(houseEggs * share * (1 + (unit(`${s.id}:${day}`) - 0.5) * 0.02));
         belts += eggs;
         sectionRows.push({ farmId: house.farmId, sectionId: s.id, day, eggs });

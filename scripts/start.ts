@@ -19,7 +19,7 @@ import {
   seedDemo,
 } from '@tierscope/db/seed';
 import { startMailCatcher, type MailCatcher } from '@tierscope/mail-catcher';
-import { writeDemoHistory } from './demo-history';
+import { DEMO_SIMULATOR_SEED, writeDemoHistory } from './demo-history';
 import { prepareSimulatorFarms } from './demo-simulator';
 import { recreateDatabase, startCluster } from './postgres';
 import { API_NODE_ARGS, waitForHealth } from './processes';
@@ -198,7 +198,7 @@ async function main(): Promise<void> {
     'simulator/src/main.ts',
     ...farmFiles.flatMap((file) => ['--farm-file', file]),
     '--seed',
-    '2026',
+    String(DEMO_SIMULATOR_SEED),
     '--interval',
     '1',
     ...(isHistoryMissing ? ['--backfill-days', '14', '--backfill-interval', '15'] : []),

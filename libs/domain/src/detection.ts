@@ -31,8 +31,12 @@ export const CUSUM_K = 0.5;
 export const CUSUM_H = 8;
 /** Weight, in days, of the house's pooled wobble in each spot's own (empirical-Bayes shrinkage). */
 const SHRINK_DAYS = 28;
-/** A spot's wobble is never taken as less than this (log ratio): counters and hens are never that steady. */
-const MIN_WOBBLE = 0.01;
+/**
+ * A spot's wobble is never taken as less than this (log ratio, 2 %): real sections are never steadier from day
+ * to day (hens choose their nests anew), so an unnaturally steady history (a tidy simulator, daily totals
+ * loaded from elsewhere) cannot make every small difference look far outside it.
+ */
+const MIN_WOBBLE = 0.02;
 /** Wobble assumed while nothing is known yet about a spot or its house. */
 const DEFAULT_WOBBLE = 0.06;
 
@@ -259,7 +263,9 @@ export function cusumStep(
     next.recent.length > 0
       ? Math.exp(next.recent.reduce((a, b) => a + b, 0) / next.recent.length)
       : 1;
-  const isAlarm = sum < -tuning.h && recentRatio < 1 - (0.75 * thresholdPct) / 100;
+  // A slide takes days: one bad day alone is the day's own judgement, never a CUSUM alarm.
+  const isAlarm =
+    next.recent.length >= 2 && sum < -tuning.h && recentRatio < 1 - (0.75 * thresholdPct) / 100;
   return { state: next, isAlarm, recentRatio };
 }
 

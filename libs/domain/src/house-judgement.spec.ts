@@ -128,8 +128,16 @@ describe('judgeStage on noisy days', () => {
       silent: new Set([spotKeyOf('section', 2, 1)]),
     });
     expect(judged.short).toEqual([]);
-    const plain = judgeStage({ thresholdPct: 10, stage: COMPLETE_DAY, sections: today, past });
-    expect(plain.short.length).toBeGreaterThan(0);
+    // Nothing at all counted where hundreds were due is a counter matter even before the silent check
+    // has said so (a backlog judged at once)…
+    const untold = judgeStage({ thresholdPct: 10, stage: COMPLETE_DAY, sections: today, past });
+    expect(untold.short).toEqual([]);
+    // …while a section that counts, but far less, is a shortfall of that section.
+    const low = today.map((s) =>
+      s.row === 2 && s.tier === 1 ? { ...s, byStage: s.byStage.map((n) => 350 + n * 0) } : s,
+    );
+    const lowJudged = judgeStage({ thresholdPct: 10, stage: COMPLETE_DAY, sections: low, past });
+    expect(lowJudged.short.map((x) => x.key)).toEqual([spotKeyOf('section', 2, 1)]);
   });
 
   it('catches a 1.5 %/day slide with the CUSUM before it reaches −15 %', () => {

@@ -7,6 +7,7 @@ import {
   logRatio,
   measureSpots,
   MIN_CLEAN_DAYS,
+  SILENT_MIN_EXPECTED,
   spotKeyOf,
   STAGES,
   judgeSpot,
@@ -105,14 +106,16 @@ export function judgeStage(input: StageInput): StageJudgement {
   const open = input.open ?? new Set<string>();
   const stage = input.stage;
 
-  // Silent sections are filled in at their expected counts: yardstick × usual ratio.
+  // Silent sections are filled in at their expected counts: yardstick × usual ratio. A section that counted
+  // nothing at all where its peers say many eggs were due is a counter matter too, even before the silent
+  // check has said so (a backlog judged at once): never a shortfall of its row, tier or house.
   const filled = new Map<string, number>();
-  if (silent.size > 0) {
-    const plain = measureSpots(input.sections, stage);
-    for (const m of plain) {
-      if (m.scope !== 'section' || !silent.has(m.key)) continue;
-      const norm = learnNorm(cleanRatios(input.past, m.key, stage));
-      filled.set(m.key, m.yardstick * Math.exp(norm.baseline));
+  for (const m of measureSpots(input.sections, stage)) {
+    if (m.scope !== 'section') continue;
+    const norm = learnNorm(cleanRatios(input.past, m.key, stage));
+    const expected = m.yardstick * Math.exp(norm.baseline);
+    if (silent.has(m.key) || (m.own === 0 && expected >= SILENT_MIN_EXPECTED)) {
+      filled.set(m.key, expected);
     }
   }
   const measures = measureSpots(input.sections, stage, filled);
@@ -180,12 +183,15 @@ export function judgeStage(input: StageInput): StageJudgement {
   for (const s of all.filter((x) => x.scope === 'row')) {
     const sections = rowSections.get(s.row ?? 0) ?? [];
     const shortSections = sections.filter((x) => x.isShort).length;
-    // Half or more of a row's sections short is the row's problem, whatever the row total says yet.
-    const isRowShort = s.isShort || (sections.length > 1 && shortSections * 2 >= sections.length);
-    if (isRowShort) {
-      s.isShort = true;
-      shortRows.add(s.row ?? 0);
-    }
+    // Half or more of a row's sections short is the row's problem, whatever the row total says yet; a row
+    // short only because one of its sections is far down (the others fine) is that section's problem.
+    const isMostly = sections.length > 1 && shortSections * 2 >= sections.length;
+    const others = sections.filter((x) => !x.isShort);
+    const othersRatio = others.length ? others.reduce((n, x) => n + x.ratio, 0) / others.length : 0;
+    const areOthersDown = othersRatio < 1 - input.thresholdPct / 200;
+    const isRowShort = isMostly || (s.isShort && (shortSections === 0 || areOthersDown));
+    s.isShort = isRowShort;
+    if (isRowShort) shortRows.add(s.row ?? 0);
     if (open.has(s.key)) shortRows.add(s.row ?? 0);
   }
   const shortTiers = new Set<number>();

@@ -352,8 +352,8 @@ export async function sectionStageCounts(
     byKey.set(`${row.section_id}|${row.day}`, {
       sectionId: row.section_id,
       day: row.day,
-      // Days loaded from daily totals only (no hourly rollups) count their whole day at each checkpoint.
-      byStage: [...checkpointHours.map(() => row.eggs), row.eggs],
+      // Days loaded from daily totals only (no hourly rollups) say nothing about the checkpoints.
+      byStage: [...checkpointHours.map(() => Number.NaN), row.eggs],
     });
   }
   for (const row of partial.rows) {
