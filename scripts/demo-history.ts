@@ -5,7 +5,7 @@
  * screen), so the flock page shows a whole lay curve and the reports have months to look back on.
  */
 import { schema, type Database } from '@tierscope/db';
-import { addDays } from '@tierscope/domain';
+import { addDays, productionDayStart } from '@tierscope/domain';
 import { sql } from 'drizzle-orm';
 import { HouseModel } from '../simulator/src/house-model';
 import { layRate } from '../simulator/src/lay-model';
@@ -46,6 +46,7 @@ export async function writeDemoHistory(db: Database, lastDay: string): Promise<n
       .select()
       .from(schema.counters)
       .where(sql`house_id = ${house.id}`);
+    const modelStart = productionDayStart('2026-01-01', house.timezone, house.lightsOn);
     const model = new HouseModel(
       {
         name: house.name,
@@ -66,15 +67,19 @@ export async function writeDemoHistory(db: Database, lastDay: string): Promise<n
           };
         }),
       },
-      { seed: DEMO_SIMULATOR_SEED, start: new Date() },
+      { seed: DEMO_SIMULATOR_SEED, start: modelStart },
     );
-    const dayFrom = new Date(Date.UTC(2026, 0, 1, 0));
+    // One production day from lights-on at the model's own start: only each section's share matters here.
+    const dayFrom = modelStart;
     const dayTo = new Date(dayFrom.getTime() + 86_400_000);
     const weights = sections.map((s) => {
       const counter = counters.find((c) => c.sectionId === s.id);
       return counter ? model.expectedEggs(s.row, s.tier, counter.externalId, dayFrom, dayTo) : 0;
     });
-    const weightSum = weights.reduce((a, b) => a + b, 0) || 1;
+    const total = weights.reduce((a, b) => a + b, 0);
+    // Never a house without eggs: without the model's shares, sections share alike.
+    const weightSum = total > 0 ? total : sections.length;
+    if (total <= 0) weights.fill(1);
     let hens = flock.hensHoused;
     for (let day = flock.placedOn; day <= lastDay; day = addDays(day, 1)) {
       const age =
