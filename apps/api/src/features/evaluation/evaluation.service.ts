@@ -81,6 +81,17 @@ const spotKey = (c: Pick<Candidate, 'kind' | 'scope' | 'row' | 'tier'>) =>
 const rowKey = (e: Pick<ExceptionRow, 'kind' | 'scope' | 'row' | 'tier'>) =>
   `${e.kind}|${findingKey(e)}`;
 
+/**
+ * Whether an exception keeps a production day out of the spots' learned usual level: it was open that day,
+ * and it is a shortfall or a silent counter (a house-level kind says nothing about one spot), unless a person
+ * closed it as normal for this spot (then its days are the spot's normal).
+ */
+function keepsDayOut(e: ExceptionRow, dayStart: Date, dayEnd: Date): boolean {
+  if (e.closeReason === 'normal_for_spot' || e.kind === 'collector_gap' || e.kind === 'house_dip')
+    return false;
+  return e.openedAt < dayEnd && (e.closedAt === null || e.closedAt > dayStart);
+}
+
 /** Keys of the sections an exception covers, for keeping its days out of the baseline. */
 function coveredSections(e: ExceptionRow, layout: Layout): string[] {
   return layout.sections
@@ -195,13 +206,7 @@ export function createEvaluationService(
       const excluded = new Set<string>();
       for (const e of overlapping) {
         // A spot closed as "normal for this spot" lets its days into the baseline.
-        if (
-          e.closeReason === 'normal_for_spot' ||
-          e.kind === 'collector_gap' ||
-          e.kind === 'house_dip'
-        )
-          continue;
-        if (e.openedAt < dayEnd && (e.closedAt === null || e.closedAt > dayStart)) {
+        if (keepsDayOut(e, dayStart, dayEnd)) {
           for (const key of coveredSections(e, layout)) excluded.add(key);
         }
       }
@@ -259,14 +264,7 @@ export function createEvaluationService(
       const dayEnd = productionDayStart(addDays(day, 1), house.timezone, house.lightsOn);
       const excluded = new Set<string>();
       for (const e of overlapping) {
-        if (
-          e.closeReason === 'normal_for_spot' ||
-          e.kind === 'collector_gap' ||
-          e.kind === 'house_dip'
-        )
-          continue;
-        if (e.openedAt < dayEnd && (e.closedAt === null || e.closedAt > dayStart))
-          excluded.add(findingKey(e));
+        if (keepsDayOut(e, dayStart, dayEnd)) excluded.add(findingKey(e));
       }
       const sections: SectionCounts[] = rows
         .filter((r) => r.day === day)
@@ -289,16 +287,21 @@ export function createEvaluationService(
     at: Date,
     engine: EngineState,
     silentSections: ReadonlySet<string>,
+    openAt: readonly ExceptionRow[],
   ): Promise<Candidate[]> {
     const { house } = layout;
     const day = productionDayOf(at, house.timezone, house.lightsOn);
     const yesterday = addDays(day, -1);
-    const silent = new Set([...silentSections].map((key) => `section:${key}`));
-    const open = new Set(
-      (await exceptionsOpenAt(db, house.id, at))
-        .filter((e) => e.kind === 'shortfall')
-        .map((e) => findingKey(e)),
+    const minutes = minutesSinceLightsOn(at, house.timezone, house.lightsOn);
+    const judgedToday = engine.checkpointDay === day ? (engine.checkpoints ?? []) : [];
+    const isDayDue = !engine.completeDay || engine.completeDay < yesterday;
+    const isCheckpointDue = CHECKPOINT_HOURS.some(
+      (hours, stage) => minutes >= hours * 60 && !judgedToday.includes(stage),
     );
+    // Most evaluations fall between checkpoints: nothing to judge, nothing to read.
+    if (!isDayDue && !isCheckpointDue) return [];
+    const silent = new Set([...silentSections].map((key) => `section:${key}`));
+    const open = new Set(openAt.filter((e) => e.kind === 'shortfall').map((e) => findingKey(e)));
     const accepted = new Map<string, number>();
     for (const e of await exceptionsOverlapping(
       db,
@@ -332,7 +335,7 @@ export function createEvaluationService(
       }
     };
 
-    if (!engine.completeDay || engine.completeDay < yesterday) {
+    if (isDayDue) {
       const rows = await sectionStageCounts(db, house, CHECKPOINT_HOURS, yesterday, yesterday);
       const sections = rows.flatMap((r) => {
         const sec = byId.get(r.sectionId);
@@ -388,7 +391,6 @@ export function createEvaluationService(
       engine.checkpointDay = day;
       engine.checkpoints = [];
     }
-    const minutes = minutesSinceLightsOn(at, house.timezone, house.lightsOn);
     const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
     for (const [stage, hours] of CHECKPOINT_HOURS.entries()) {
       if (minutes < hours * 60 || engine.checkpoints?.includes(stage)) continue;
@@ -500,7 +502,7 @@ export function createEvaluationService(
     }
     // Shortfalls: the complete day once it is over, and today's fixed checkpoints once each (never a
     // running total re-tested every few seconds).
-    candidates.push(...(await judgeDue(layout, at, engine, silent)));
+    candidates.push(...(await judgeDue(layout, at, engine, silent, openAt)));
 
     if (isLive) {
       // Hen-day production of the last complete day against the seven before it.
