@@ -5,10 +5,9 @@
  * screen), so the flock page shows a whole lay curve and the reports have months to look back on.
  */
 import { schema, type Database } from '@tierscope/db';
-import { addDays, productionDayStart } from '@tierscope/domain';
+import { addDays } from '@tierscope/domain';
 import { sql } from 'drizzle-orm';
-import { HouseModel } from '../simulator/src/house-model';
-import { layRate } from '../simulator/src/lay-model';
+import { RealisticHouseModel } from '../simulator/src/realistic-model';
 
 /** The seed `npm start` runs the demo simulator with (scripts/start.ts). */
 export const DEMO_SIMULATOR_SEED = 2026;
@@ -21,6 +20,14 @@ function unit(key: string): number {
     h = Math.imul(h, 0x01000193);
   }
   return (h >>> 0) / 0x100000000;
+}
+
+/** A flock's age in weeks on a day. */
+function ageOn(flock: { placedOn: string; ageAtPlacementWeeks: number }, day: string): number {
+  return (
+    flock.ageAtPlacementWeeks +
+    (Date.parse(`${day}T00:00:00Z`) - Date.parse(`${flock.placedOn}T00:00:00Z`)) / 604_800_000
+  );
 }
 
 export async function writeDemoHistory(db: Database, lastDay: string): Promise<number> {
@@ -40,14 +47,28 @@ export async function writeDemoHistory(db: Database, lastDay: string): Promise<n
     const sectionRows: (typeof schema.sectionDayRollups.$inferInsert)[] = [];
     const collectorRows: (typeof schema.collectorDayRollups.$inferInsert)[] = [];
     const lossRows: (typeof schema.mortality.$inferInsert)[] = [];
-    // The same persistent section differences as the simulator that takes over (its seed is the demo's),
-    // so the history and the live days agree on each section's usual share: no step where they meet.
+    // The morning walks first: the hens alive on each day decide how many eggs the model draws.
+    const hensOn = new Map<string, number>();
+    let hens = flock.hensHoused;
+    for (let day = flock.placedOn; day <= lastDay; day = addDays(day, 1)) {
+      const age = ageOn(flock, day);
+      hensOn.set(day, hens);
+      // About 0.05 % of hens a week, more in the first weeks after moving in.
+      const weekly = age - flock.ageAtPlacementWeeks < 3 ? 0.002 : 0.0005;
+      const dead = Math.floor((hens * weekly) / 7 + unit(`dead:${house.id}:${day}`) * 2);
+      const culled = unit(`cull:${house.id}:${day}`) < 0.15 ? 1 : 0;
+      lossRows.push({ flockId: flock.id, date: day, dead, culled });
+      hens -= dead + culled;
+    }
+    // The realistic simulator that takes over, with the same seed: the same persistent section differences,
+    // day-to-day noise and lay curve, so the history and the live days agree on each section's usual share
+    // and wobble (no step where they meet).
     const counters = await db
       .select()
       .from(schema.counters)
       .where(sql`house_id = ${house.id}`);
-    const modelStart = productionDayStart('2026-01-01', house.timezone, house.lightsOn);
-    const model = new HouseModel(
+    const now = new Date();
+    const model = new RealisticHouseModel(
       {
         name: house.name,
         rows: house.rows,
@@ -56,7 +77,7 @@ export async function writeDemoHistory(db: Database, lastDay: string): Promise<n
         lightsOn: house.lightsOn,
         photoperiodHours: house.photoperiodHours,
         hensHoused: flock.hensHoused,
-        flockAgeWeeks: 40,
+        flockAgeWeeks: ageOn(flock, now.toISOString().slice(0, 10)),
         counters: counters.map((c) => {
           const section = sections.find((x) => x.id === c.sectionId);
           return {
@@ -67,45 +88,28 @@ export async function writeDemoHistory(db: Database, lastDay: string): Promise<n
           };
         }),
       },
-      { seed: DEMO_SIMULATOR_SEED, start: modelStart },
+      {
+        seed: DEMO_SIMULATOR_SEED,
+        start: now,
+        hensOn: (day) => (hensOn.get(day) ?? flock.hensHoused) / Math.max(1, sections.length),
+      },
     );
-    // One production day from lights-on at the model's own start: only each section's share matters here.
-    const dayFrom = modelStart;
-    const dayTo = new Date(dayFrom.getTime() + 86_400_000);
-    const weights = sections.map((s) => {
-      const counter = counters.find((c) => c.sectionId === s.id);
-      return counter ? model.expectedEggs(s.row, s.tier, counter.externalId, dayFrom, dayTo) : 0;
-    });
-    const total = weights.reduce((a, b) => a + b, 0);
-    // Never a house without eggs: without the model's shares, sections share alike.
-    const weightSum = total > 0 ? total : sections.length;
-    if (total <= 0) weights.fill(1);
-    let hens = flock.hensHoused;
     for (let day = flock.placedOn; day <= lastDay; day = addDays(day, 1)) {
-      const age =
-        flock.ageAtPlacementWeeks +
-        (Date.parse(`${day}T00:00:00Z`) - Date.parse(`${flock.placedOn}T00:00:00Z`)) / 604_800_000;
-      const dayNoise = 1 + (unit(`${house.id}:${day}`) - 0.5) * 0.03;
-      const houseEggs = hens * layRate(age) * dayNoise;
+      const drawn = model.day(day);
       let belts = 0;
-      for (const [i, s] of sections.entries()) {
-        const share = (weights[i] ?? 0) / weightSum;
-        const eggs = Math.round(houseEggs * share * (1 + (unit(`${s.id}:${day}`) - 0.5) * 0.02));
+      for (const s of sections) {
+        const section = drawn.sections.find((x) => x.row === s.row && x.tier === s.tier);
+        const eggs = section ? section.counted.reduce((a, b) => a + b, 0) : 0;
         belts += eggs;
         sectionRows.push({ farmId: house.farmId, sectionId: s.id, day, eggs });
       }
+      const collected = drawn.collector.reduce((a, b) => a + b, 0);
       collectorRows.push({
         farmId: house.farmId,
         houseId: house.id,
         day,
-        eggs: Math.round(belts * 0.997),
+        eggs: collected > 0 ? collected : belts,
       });
-      // About 0.05 % of hens a week, more in the first weeks after moving in.
-      const weekly = age - flock.ageAtPlacementWeeks < 3 ? 0.002 : 0.0005;
-      const dead = Math.floor((hens * weekly) / 7 + unit(`dead:${house.id}:${day}`) * 2);
-      const culled = unit(`cull:${house.id}:${day}`) < 0.15 ? 1 : 0;
-      lossRows.push({ flockId: flock.id, date: day, dead, culled });
-      hens -= dead + culled;
       days += 1;
     }
     for (let i = 0; i < sectionRows.length; i += 5000) {

@@ -144,7 +144,6 @@ async function main(): Promise<void> {
   } else {
     log('database already has data: demo seed skipped (npm start -- --reset to start over)');
   }
-  const flocks = await demoFlocks(database.db);
   const isHistoryMissing = !(await hasReadings(database.db));
   if (isHistoryMissing) {
     // Older days as daily totals; the simulator backfills the last 14 days reading by reading.
@@ -152,6 +151,7 @@ async function main(): Promise<void> {
     const days = await writeDemoHistory(database.db, lastDay);
     log(`demo history: ${days} house-days of daily totals and morning walks up to ${lastDay}`);
   }
+  const flocks = await demoFlocks(database.db);
   await database.close();
 
   if (!process.argv.includes('--skip-build')) {
@@ -209,7 +209,7 @@ async function main(): Promise<void> {
     '--fault',
     'silent:house=House 3,row=2,tier=1,from=-30h',
     '--fault',
-    'water:house=House A,tier=3,decline=0.003/h,from=-3d',
+    'water:house=House A,tier=3,decline=0.0008/h,from=-6d',
   ];
   const simulator = spawn(process.execPath, simulatorArgs, {
     cwd: ROOT,

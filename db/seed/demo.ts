@@ -114,9 +114,13 @@ function shiftDays(isoDate: string, days: number): string {
   return date.toISOString().slice(0, 10);
 }
 
-/** Hens and flock age per house, for the simulator to lay the demo's eggs. */
+/** Hens alive (housed less the morning walks' dead and culled) and flock age per house, for the simulator. */
 export async function demoFlocks(db: Database, today = new Date()) {
   const rows = await db.select().from(flocks);
+  const losses = await db.execute<{ flock_id: number; lost: string }>(
+    sql`select flock_id, coalesce(sum(dead + culled), 0) as lost from mortality group by flock_id`,
+  );
+  const lostBy = new Map(losses.rows.map((r) => [r.flock_id, Number(r.lost)]));
   return new Map(
     rows
       .filter((f) => f.endedOn === null)
@@ -125,7 +129,10 @@ export async function demoFlocks(db: Database, today = new Date()) {
           (today.getTime() - new Date(`${f.placedOn}T00:00:00Z`).getTime()) / (7 * 86_400_000);
         return [
           f.houseId,
-          { hensHoused: f.hensHoused, flockAgeWeeks: f.ageAtPlacementWeeks + weeksInHouse },
+          {
+            hensHoused: Math.max(1, f.hensHoused - (lostBy.get(f.id) ?? 0)),
+            flockAgeWeeks: f.ageAtPlacementWeeks + weeksInHouse,
+          },
         ];
       }),
   );

@@ -7,6 +7,7 @@ import { parseArgs } from 'node:util';
 import { simulatorFarmSchema, type SimulatorFarm } from '@tierscope/contracts';
 import { describeFault, parseFault, type Fault } from './faults';
 import { HouseModel, type Reading } from './house-model';
+import { RealisticHouseModel } from './realistic-model';
 import { Sender } from './sender';
 
 const HELP = `Tierscope farm simulator — posts egg-counter readings like a farm's gateway.
@@ -15,6 +16,10 @@ Usage: npm run simulate -- --farm-file FILE [--farm-file FILE …] [options]
 
   --farm-file FILE        a farm to simulate (JSON: API URL, gateway key, houses and counters); repeatable
   --seed N                the same seed gives the same eggs for every reading (default 1)
+  --model M               realistic (default): binomial counts, day-to-day section and house noise,
+                          persistent section differences, lay times after lights-on, faults with realistic
+                          shapes; tidy: Poisson counts around a smooth curve (exact, for unit tests)
+  --section-noise S       realistic model: σ of each section's day-to-day factor (default 0.025)
   --backfill-days N       first post N days of history, as fast as the API takes it (default 0)
   --backfill-interval M   minutes between history readings (default 15)
   --interval M            minutes between live readings (default 1)
@@ -44,7 +49,7 @@ function floorTo(date: Date, minutes: number): Date {
 
 interface FarmRun {
   farm: SimulatorFarm;
-  models: HouseModel[];
+  models: { readingsFor(from: Date, to: Date): Reading[] }[];
   sender: Sender;
   eggs: number;
   readings: number;
@@ -62,6 +67,8 @@ async function main(): Promise<void> {
     options: {
       'farm-file': { type: 'string', multiple: true },
       seed: { type: 'string', default: '1' },
+      model: { type: 'string', default: 'realistic' },
+      'section-noise': { type: 'string' },
       'backfill-days': { type: 'string', default: '0' },
       'backfill-interval': { type: 'string', default: '15' },
       interval: { type: 'string', default: '1' },
@@ -89,12 +96,27 @@ async function main(): Promise<void> {
   const start = values.start ? new Date(values.start) : new Date();
   if (Number.isNaN(start.getTime())) throw new Error('--start is not a time');
   const faults: Fault[] = (values.fault ?? []).map((spec) => parseFault(spec, start));
+  if (values.model !== 'realistic' && values.model !== 'tidy')
+    throw new Error('--model is realistic or tidy');
+  const sectionNoise =
+    values['section-noise'] === undefined ? undefined : Number(values['section-noise']);
+  if (sectionNoise !== undefined && !(sectionNoise >= 0 && sectionNoise < 0.5))
+    throw new Error('--section-noise is a σ from 0 to 0.5');
 
   const runs: FarmRun[] = values['farm-file'].map((file) => {
     const farm = simulatorFarmSchema.parse(JSON.parse(readFileSync(file, 'utf8')));
     return {
       farm,
-      models: farm.houses.map((house) => new HouseModel(house, { seed, start, faults })),
+      models: farm.houses.map((house) =>
+        values.model === 'tidy'
+          ? new HouseModel(house, { seed, start, faults })
+          : new RealisticHouseModel(house, {
+              seed,
+              start,
+              faults,
+              ...(sectionNoise === undefined ? {} : { sectionNoise }),
+            }),
+      ),
       sender: new Sender({
         apiUrl: farm.apiUrl,
         gatewayKey: farm.gatewayKey,

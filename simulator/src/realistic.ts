@@ -31,6 +31,8 @@ export type PlantedFault =
   | { kind: 'tier'; tier: number; drop: number; onsetSlot: number }
   /** a slow water problem: a section lays `perDay` less each day */
   | { kind: 'slide'; row: number; tier: number; perDay: number; onsetSlot: number }
+  /** a slow water problem on a whole tier's loop: every section of it lays `perDay` less each day */
+  | { kind: 'tier-slide'; tier: number; perDay: number; onsetSlot: number }
   /** a dead belt counter: it counts nothing, the eggs still reach the collector */
   | { kind: 'dead'; row: number; tier: number; onsetSlot: number }
   /** a belt counter that counts `factor` times the eggs */
@@ -49,6 +51,8 @@ export interface RealisticHouseOptions {
   tiers: number;
   seed: number;
   hensPerSection?: number;
+  /** hens of one section on a day (mortality); overrides hensPerSection */
+  hensOn?: (day: number) => number;
   breed?: 'white' | 'brown';
   photoperiodHours?: number;
   /** σ of the lognormal day-to-day factor of each section */
@@ -126,7 +130,10 @@ export class RealisticHouse {
   readonly rows: number;
   readonly tiers: number;
   readonly photoperiodHours: number;
-  private readonly options: Required<Omit<RealisticHouseOptions, 'beltRunHours' | 'faults'>> & {
+  private readonly options: Required<
+    Omit<RealisticHouseOptions, 'beltRunHours' | 'faults' | 'hensOn'>
+  > & {
+    hensOn: ((day: number) => number) | null;
     beltRunHours: readonly number[] | null;
     faults: readonly PlantedFault[];
   };
@@ -145,6 +152,7 @@ export class RealisticHouse {
       collectorLagSlots: 2,
       glitchesPerCounterDay: 0.003,
       ...options,
+      hensOn: options.hensOn ?? null,
       beltRunHours: options.beltRunHours ?? null,
       faults: options.faults ?? [],
     };
@@ -185,6 +193,8 @@ export class RealisticHouse {
       if (f.kind === 'row' && f.row === row) factor *= 1 - f.drop * ramp(24);
       if (f.kind === 'tier' && f.tier === tier) factor *= 1 - f.drop * ramp(12);
       if (f.kind === 'slide' && f.row === row && f.tier === tier)
+        factor *= Math.max(0.3, 1 - (f.perDay * hours) / 24);
+      if (f.kind === 'tier-slide' && f.tier === tier)
         factor *= Math.max(0.3, 1 - (f.perDay * hours) / 24);
     }
     return factor;
@@ -235,6 +245,7 @@ export class RealisticHouse {
     const collector = new Int32Array(SLOTS_PER_DAY + o.collectorLagSlots);
     const sections: SimSection[] = [];
     const dayStart = day * SLOTS_PER_DAY;
+    const hensPerSection = o.hensOn ? o.hensOn(day) : o.hensPerSection;
     for (let row = 1; row <= this.rows; row++) {
       for (let tier = 1; tier <= this.tiers; tier++) {
         const random = generator(hashSeed(o.seed, 'section', row, tier, day));
@@ -244,9 +255,9 @@ export class RealisticHouse {
         const noise = Math.exp(
           o.sectionNoise * normal(random) - (o.sectionNoise * o.sectionNoise) / 2,
         );
-        const hens = Math.round(o.hensPerSection * persistent.factor * noise);
+        const hens = Math.round(hensPerSection * persistent.factor * noise);
         const p = Math.min(0.99, baseRate * houseFactor);
-        const expectedWithoutFault = o.hensPerSection * baseRate * persistent.factor;
+        const expectedWithoutFault = hensPerSection * baseRate * persistent.factor;
         const total = binomial(hens, p, random);
         // Where in the day: the section's own shift plus a few minutes' wobble today.
         const shift = this.layShift + persistent.offsetHours + normal(random) * (5 / 60);

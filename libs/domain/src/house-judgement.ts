@@ -207,8 +207,14 @@ export function judgeStage(input: StageInput): StageJudgement {
   const high = all.filter((s) => s.scope === 'section' && s.isHigh && stage === COMPLETE_DAY);
 
   const houseEggs = measures.filter((m) => m.scope === 'tier').reduce((n, m) => n + m.own, 0);
-  const shortExpected = short
-    .filter((s) => s.scope !== 'section' || !shortRows.has(s.row ?? 0))
+  // Spots short now or under an open exception are filled in at their expected counts: a row or tier fault
+  // (even one the day's own figures no longer call short, like a slide) is one alarm, never a house dip too.
+  // A short row and a short tier share one section: counted twice, a few eggs too many — never a false dip.
+  const explained = all.filter((s) => s.isShort || open.has(s.key));
+  const filledRows = new Set(explained.filter((s) => s.scope === 'row').map((s) => s.row));
+  const filledTiers = new Set(explained.filter((s) => s.scope === 'tier').map((s) => s.tier));
+  const shortExpected = explained
+    .filter((s) => s.scope !== 'section' || (!filledRows.has(s.row) && !filledTiers.has(s.tier)))
     .reduce((n, s) => n + Math.max(0, s.expected - s.eggs), 0);
   return {
     spots,

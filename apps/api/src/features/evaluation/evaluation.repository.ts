@@ -77,6 +77,20 @@ export async function sectionEggsBetween(
   return new Map(result.rows.map((r) => [r.section_id, r.eggs]));
 }
 
+/**
+ * Each belt counter's data horizon: the time of its newest reading after `since` (absent: nothing since).
+ * A counter whose gateway is late has an old horizon; a dead counter still sends its zeros.
+ */
+export async function beltHorizons(db: Queryable, farmId: number, houseId: number, since: Date) {
+  const result = await db.execute<{ section_id: number; last_ts: string }>(sql`
+    SELECT c.section_id, max(r.ts) AS last_ts
+    FROM readings r JOIN counters c ON c.id = r.counter_id
+    WHERE r.farm_id = ${farmId} AND c.house_id = ${houseId} AND c.kind = 'belt' AND c.section_id IS NOT NULL
+      AND r.ts > ${since.toISOString()}::timestamptz
+    GROUP BY c.section_id`);
+  return new Map(result.rows.map((r) => [r.section_id, new Date(r.last_ts)]));
+}
+
 export async function collectorTotal(
   db: Queryable,
   farmId: number,

@@ -40,6 +40,7 @@ import {
 } from '@tierscope/domain';
 import type { EventBus } from '../../platform/events';
 import {
+  beltHorizons,
   collectorTotal,
   counterEggsInHours,
   readEngine,
@@ -86,6 +87,11 @@ const rowKey = (e: Pick<ExceptionRow, 'kind' | 'scope' | 'row' | 'tier'>) =>
  * and it is a shortfall or a silent counter (a house-level kind says nothing about one spot), unless a person
  * closed it as normal for this spot (then its days are the spot's normal).
  */
+/** A counter's data counts as up to a checkpoint when its newest reading is at most this much older. */
+const DATA_LATE_SLACK_MS = 20 * 60_000;
+/** How long a checkpoint waits for late counters before it is judged without them. */
+const DATA_LATE_WAIT_HOURS = 3;
+
 function keepsDayOut(e: ExceptionRow, dayStart: Date, dayEnd: Date): boolean {
   if (e.closeReason === 'normal_for_spot' || e.kind === 'collector_gap' || e.kind === 'house_dip')
     return false;
@@ -288,6 +294,7 @@ export function createEvaluationService(
     engine: EngineState,
     silentSections: ReadonlySet<string>,
     openAt: readonly ExceptionRow[],
+    isLive: boolean,
   ): Promise<Candidate[]> {
     const { house } = layout;
     const day = productionDayOf(at, house.timezone, house.lightsOn);
@@ -394,13 +401,23 @@ export function createEvaluationService(
     const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
     for (const [stage, hours] of CHECKPOINT_HOURS.entries()) {
       if (minutes < hours * 60 || engine.checkpoints?.includes(stage)) continue;
-      const eggs = await sectionEggsBetween(
-        db,
-        house.farmId,
-        house.id,
-        dayStart,
-        new Date(dayStart.getTime() + hours * 3_600_000),
-      );
+      const checkpoint = new Date(dayStart.getTime() + hours * 3_600_000);
+      // Each counter's data horizon: a section whose readings have not reached the checkpoint yet (a late
+      // gateway) is waited for up to DATA_LATE_WAIT_HOURS, then left out of this checkpoint (never judged on
+      // part of its data: that would read as a shortfall).
+      const late = new Set<string>();
+      if (isLive) {
+        const horizons = await beltHorizons(db, house.farmId, house.id, dayStart);
+        for (const sec of layout.sections) {
+          const horizon = horizons.get(sec.id);
+          if (!horizon || horizon.getTime() < checkpoint.getTime() - DATA_LATE_SLACK_MS)
+            late.add(spotKeyOf('section', sec.row, sec.tier));
+        }
+        const isStillWaiting =
+          at.getTime() - checkpoint.getTime() < DATA_LATE_WAIT_HOURS * 3_600_000;
+        if (late.size > 0 && isStillWaiting) continue;
+      }
+      const eggs = await sectionEggsBetween(db, house.farmId, house.id, dayStart, checkpoint);
       // Nothing counted by then (the gateway is late, or the house is empty): judged when it has arrived.
       if ([...eggs.values()].every((n) => n === 0)) continue;
       engine.checkpoints = [...(engine.checkpoints ?? []), stage];
@@ -415,7 +432,7 @@ export function createEvaluationService(
           stage,
           sections,
           past: await pastDays(layout, day),
-          silent,
+          silent: new Set([...silent, ...late]),
           open,
           accepted,
         }),
@@ -458,10 +475,16 @@ export function createEvaluationService(
       for (const belt of belts) {
         const section = sectionOf.get(belt.sectionId ?? -1);
         if (!section) continue;
+        // No reading at all in the window is a late gateway (its data horizon is older), not a silent
+        // counter: a dead counter still sends its zeros. Neither silent nor recovered until data comes.
+        if (!recent.has(belt.id)) continue;
         const own = recent.get(belt.id) ?? 0;
         const peers = belts
           .filter(
-            (b) => b.id !== belt.id && sectionOf.get(b.sectionId ?? -1)?.tier === section.tier,
+            (b) =>
+              b.id !== belt.id &&
+              recent.has(b.id) &&
+              sectionOf.get(b.sectionId ?? -1)?.tier === section.tier,
           )
           .map((b) => recent.get(b.id) ?? 0);
         const key = spotKeyOf('section', section.row, section.tier);
@@ -502,7 +525,7 @@ export function createEvaluationService(
     }
     // Shortfalls: the complete day once it is over, and today's fixed checkpoints once each (never a
     // running total re-tested every few seconds).
-    candidates.push(...(await judgeDue(layout, at, engine, silent, openAt)));
+    candidates.push(...(await judgeDue(layout, at, engine, silent, openAt, isLive)));
 
     if (isLive) {
       // Hen-day production of the last complete day against the seven before it.

@@ -34,13 +34,14 @@ function hours(
   fromHour: number,
   toHour: number,
   adjust: (row: number, tier: number, hour: number) => number,
+  list = counters,
 ): { counter: string; ts: string; eggs: number }[] {
   const readings: { counter: string; ts: string; eggs: number }[] = [];
   for (let h = fromHour; h < toHour; h++) {
     if (h % 24 >= 16) continue;
     const ts = new Date(DAY0 + (h + 1) * HOUR).toISOString();
     let laid = 0;
-    for (const c of counters.filter((x) => x.kind === 'belt')) {
+    for (const c of list.filter((x) => x.kind === 'belt')) {
       const day = Math.floor(h / 24);
       const base = [90, 120, 105][c.tier! - 1]! * wobble(day * 100 + c.row! * 10 + c.tier!);
       const eggs = Math.round(base * adjust(c.row!, c.tier!, h));
@@ -50,7 +51,7 @@ function hours(
       readings.push({ counter: c.externalId, ts, eggs });
     }
     readings.push({
-      counter: counters.find((x) => x.kind === 'collector')!.externalId,
+      counter: list.find((x) => x.kind === 'collector')!.externalId,
       ts,
       eggs: laid,
     });
@@ -58,24 +59,24 @@ function hours(
   return readings;
 }
 
-async function ingest(readings: { counter: string; ts: string; eggs: number }[]) {
+async function ingest(readings: { counter: string; ts: string; eggs: number }[], gateway = key) {
   for (let i = 0; i < readings.length; i += 5000) {
     const response = await request(app)
       .post('/api/v1/ingest/readings')
-      .set('Authorization', `Bearer ${key}`)
+      .set('Authorization', `Bearer ${gateway}`)
       .send({ readings: readings.slice(i, i + 5000) });
     expect(response.status).toBe(200);
   }
 }
 
-async function openExceptions() {
+async function openExceptions(houseId = fixture.houseA) {
   const rows = await database.db.execute<{
     kind: string;
     scope: string;
     row: number | null;
     tier: number | null;
   }>(
-    sql`select kind, scope, row, tier from exceptions where house_id = ${fixture.houseA}
+    sql`select kind, scope, row, tier from exceptions where house_id = ${houseId}
         and status <> 'closed' order by kind, scope, row, tier`,
   );
   return rows.rows.map((r) => `${r.kind} ${r.scope} ${r.row ?? '-'}:${r.tier ?? '-'}`);
@@ -116,5 +117,47 @@ describe('one cause, one alarm', () => {
       )
     ).rows;
     expect(silent?.expected).toBeGreaterThan(14);
+  });
+
+  it('a late gateway is neither a silent counter nor a shortfall: its checkpoint waits for the data', async () => {
+    // House B1 (farm B, its own gateway): nine clean days, then on day 10 row 2's readings stop after the
+    // third hour of light while the other rows' keep coming — what a second gateway running late looks like.
+    const adminB = await bearerFor(app, fixture.adminB.email);
+    const keyB = (
+      await request(app)
+        .post(`/api/v1/farms/${fixture.farmB}/gateways`)
+        .set('Authorization', adminB)
+        .send({ name: 'g' })
+    ).body.key as string;
+    const countersB = await countersOfHouse(database.db, fixture.houseB);
+    await ingest(
+      hours(0, (DAYS - 1) * 24, () => 1, countersB),
+      keyB,
+    );
+    const today = (DAYS - 1) * 24;
+    const onTime = hours(today, today + 11, () => 1, countersB);
+    const rowTwo = new Set(
+      countersB.filter((c) => c.kind === 'belt' && c.row === 2).map((c) => c.externalId),
+    );
+    const cut = new Date(DAY0 + (today + 3) * HOUR).toISOString();
+    await ingest(
+      onTime.filter((r) => !rowTwo.has(r.counter) || r.ts <= cut),
+      keyB,
+    );
+    // Ten hours and a few minutes into the day: both checkpoints have passed, row 2's data is 7 hours late.
+    const now = new Date(DAY0 + (today + 10) * HOUR + 5 * 60_000);
+    await runtime.evaluation.evaluateNow(fixture.houseB, new Date(now.getTime() - 60_000));
+    await runtime.evaluation.evaluateNow(fixture.houseB, now);
+    expect(await openExceptions(fixture.houseB)).toEqual([]);
+    // The backlog arrives: the waiting checkpoints are judged on the whole data, and nothing is short.
+    await ingest(onTime, keyB);
+    await runtime.evaluation.evaluateNow(fixture.houseB, new Date(now.getTime() + 60_000));
+    expect(await openExceptions(fixture.houseB)).toEqual([]);
+    const engine = (
+      await database.db.execute<{ engine: { checkpoints?: number[] } }>(
+        sql`select engine from house_evaluations where house_id = ${fixture.houseB}`,
+      )
+    ).rows[0]?.engine;
+    expect(engine?.checkpoints).toEqual([0, 1]);
   });
 });
