@@ -277,6 +277,7 @@ function runEngine(house: RealisticHouse, planted: Planted, totalDays: number): 
   const past: PastDay[] = [];
   const open = new Map<string, { kind: EventKind; recovered: number }>();
   let cusum = new Map<string, CusumState>();
+  let pending = new Set<string>();
   const silentRuns = new Map<string, { zeroSlots: number; expectedEggs: number }>();
   const collectorPast: number[] = [];
   const henDayPast: number[] = [];
@@ -408,7 +409,9 @@ function runEngine(house: RealisticHouse, planted: Planted, totalDays: number): 
           past,
           silent: openKeys('silent_counter'),
           open: openKeys('shortfall'),
+          pending,
         });
+        pending = judged.pending;
         applyShortfalls(judged, now);
       }
       for (const id of open.keys()) excludedToday.add(id.split('|')[1] ?? '');
@@ -425,8 +428,10 @@ function runEngine(house: RealisticHouse, planted: Planted, totalDays: number): 
       silent: silentNow,
       open: openKeys('shortfall'),
       cusum,
+      pending,
     });
     cusum = judged.cusum;
+    pending = judged.pending;
     const endSlot = dayStart + SLOTS_PER_DAY;
     if (process.env['DETECT_DEBUG'] === planted.kind && d >= WARMUP_DAYS) {
       const spot = judged.spots.get(spotKeyOf('section', planted.row, planted.tier));

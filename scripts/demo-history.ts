@@ -12,6 +12,17 @@ import { RealisticHouseModel } from '../simulator/src/realistic-model';
 /** The seed `npm start` runs the demo simulator with (scripts/start.ts). */
 export const DEMO_SIMULATOR_SEED = 2026;
 
+/**
+ * The demo's planted faults (DESIGN.md), as simulator specs relative to its start: a feed-line fault in one
+ * row, a dead counter, a slow water problem on one tier (about 1.9 % a day). `npm start` plants them and the
+ * demo-scenario integration test checks that they, and nothing else, are found.
+ */
+export const DEMO_FAULTS = [
+  'feed:house=House 2,row=4,drop=0.15,from=-2d',
+  'silent:house=House 3,row=2,tier=1,from=-30h',
+  'water:house=House A,tier=3,decline=0.0008/h,from=-7d',
+] as const;
+
 /** A repeatable number in [0, 1) for a key (FNV-1a), so the demo is the same on every machine. */
 function unit(key: string): number {
   let h = 0x811c9dc5;
@@ -30,7 +41,15 @@ function ageOn(flock: { placedOn: string; ageAtPlacementWeeks: number }, day: st
   );
 }
 
-export async function writeDemoHistory(db: Database, lastDay: string): Promise<number> {
+/**
+ * Writes the daily totals and morning walks of every flock from its placement up to `lastDay`, drawn from the
+ * simulator that starts at `simulatorStart` (the same production days, so the same day-to-day noise).
+ */
+export async function writeDemoHistory(
+  db: Database,
+  lastDay: string,
+  simulatorStart = new Date(),
+): Promise<number> {
   const flocks = await db.select().from(schema.flocks);
   let days = 0;
   for (const flock of flocks) {
@@ -67,7 +86,7 @@ export async function writeDemoHistory(db: Database, lastDay: string): Promise<n
       .select()
       .from(schema.counters)
       .where(sql`house_id = ${house.id}`);
-    const now = new Date();
+    const now = simulatorStart;
     const model = new RealisticHouseModel(
       {
         name: house.name,

@@ -19,7 +19,7 @@ import {
   seedDemo,
 } from '@tierscope/db/seed';
 import { startMailCatcher, type MailCatcher } from '@tierscope/mail-catcher';
-import { DEMO_SIMULATOR_SEED, writeDemoHistory } from './demo-history';
+import { DEMO_FAULTS, DEMO_SIMULATOR_SEED, writeDemoHistory } from './demo-history';
 import { prepareSimulatorFarms } from './demo-simulator';
 import { recreateDatabase, startCluster } from './postgres';
 import { API_NODE_ARGS, waitForHealth } from './processes';
@@ -202,14 +202,8 @@ async function main(): Promise<void> {
     '--interval',
     '1',
     ...(isHistoryMissing ? ['--backfill-days', '14', '--backfill-interval', '15'] : []),
-    // The demo's planted faults (DESIGN.md): a feed-line fault in one row, a dead counter, a slow water
-    // problem on one tier.
-    '--fault',
-    'feed:house=House 2,row=4,drop=0.15,from=-2d',
-    '--fault',
-    'silent:house=House 3,row=2,tier=1,from=-30h',
-    '--fault',
-    'water:house=House A,tier=3,decline=0.0008/h,from=-6d',
+    // The demo's planted faults (DESIGN.md).
+    ...DEMO_FAULTS.flatMap((fault) => ['--fault', fault]),
   ];
   const simulator = spawn(process.execPath, simulatorArgs, {
     cwd: ROOT,

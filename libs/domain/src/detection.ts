@@ -26,6 +26,12 @@ export const NORM_DAYS = 28;
 export const MIN_CLEAN_DAYS = 3;
 /** How unusual (in the spot's own standard deviations) a shortfall must be, besides the threshold. */
 export const ALARM_Z = 4;
+/**
+ * How unusual a first sighting must be to be an alarm at once; a less unusual one waits for the next judged
+ * stage to confirm it (two unusual judgements in a row, the idea of the Western Electric run rules — NIST/
+ * SEMATECH e-Handbook §6.3.2). 6 wobbles: a section about 18 % down, any row or tier past the threshold.
+ */
+export const CONFIRM_AT_ONCE_Z = 6;
 /** CUSUM reference value k and decision interval h, in standard deviations (see cusumStep). */
 export const CUSUM_K = 0.5;
 export const CUSUM_H = 8;

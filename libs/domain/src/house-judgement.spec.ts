@@ -125,6 +125,39 @@ describe('judgeStage on noisy days', () => {
     expect(open.houseEggsFilled - open.houseEggs).toBeGreaterThan(0.05 * (spot?.expected ?? 0));
   });
 
+  it('holds a first unusual judgement until the next stage confirms it, unless it is far down', () => {
+    const random = seeded(19);
+    const past = history(random, 28);
+    const key = spotKeyOf('section', 3, 2);
+    const judge = (drop: number, pending?: Set<string>) =>
+      judgeStage({
+        thresholdPct: 10,
+        stage: COMPLETE_DAY,
+        sections: makeDay(random, (row, tier) => (row === 3 && tier === 2 ? 1 - drop : 1)),
+        past,
+        ...(pending ? { pending } : {}),
+      });
+    // 16 % down is short but not far outside the wobble (4–6 wobbles): held, not raised.
+    const first = judge(0.16);
+    expect(first.spots.get(key)?.z).toBeGreaterThan(-6);
+    expect(first.short).toEqual([]);
+    expect([...first.pending]).toEqual([key]);
+    // The next stage confirms it, even a little less far down…
+    const second = judge(0.11, first.pending);
+    expect(second.short.map((s) => s.key)).toEqual([key]);
+    // …while a day back to normal drops it.
+    const recovered = judge(0, first.pending);
+    expect(recovered.short).toEqual([]);
+    expect(recovered.pending.size).toBe(0);
+    // Far down (past 6 wobbles) is an alarm at once (as the section, or as its row when that day its row's
+    // other sections are down a little too).
+    const far = judge(0.35);
+    expect(far.pending.size).toBe(0);
+    expect(far.short.map((s) => s.key)).toEqual(
+      expect.arrayContaining([expect.stringMatching(/^(section:3:2|row:3:-)$/)]),
+    );
+  });
+
   it('learns a structural end row as normal', () => {
     const random = seeded(15);
     const past: PastDay[] = [];

@@ -1,5 +1,7 @@
 import {
+  ALARM_Z,
   COMPLETE_DAY,
+  CONFIRM_AT_ONCE_Z,
   cusumStep,
   CUSUM_START,
   effectiveWobble,
@@ -76,6 +78,8 @@ export interface StageInput {
   accepted?: ReadonlyMap<string, number>;
   /** the CUSUM of each spot before this day (complete-day stage only) */
   cusum?: ReadonlyMap<string, CusumState>;
+  /** spots short for the first time at the previous judged stage, waiting for this one to confirm them */
+  pending?: ReadonlySet<string>;
 }
 
 export interface StageJudgement {
@@ -87,6 +91,8 @@ export interface StageJudgement {
   high: SpotJudgement[];
   /** the CUSUM after this day (complete-day stage only; otherwise the input's) */
   cusum: Map<string, CusumState>;
+  /** spots short for the first time now, held until the next judged stage confirms them */
+  pending: Set<string>;
   /** eggs of the house at this stage with silent sections filled in */
   houseEggs: number;
   /** expected eggs of the house with short spots at their expected counts (for the house-day check) */
@@ -198,11 +204,41 @@ export function judgeStage(input: StageInput): StageJudgement {
   for (const s of all.filter((x) => x.scope === 'tier')) {
     if (s.isShort || open.has(s.key)) shortTiers.add(s.tier ?? 0);
   }
-  const short = all.filter((s) => {
+  const found = all.filter((s) => {
     if (!s.isShort) return false;
     if (s.scope !== 'section') return true;
     return !shortRows.has(s.row ?? 0) && !shortTiers.has(s.tier ?? 0);
   });
+  // One unusual judgement is not yet an alarm: a spot seen short for the first time is held until the next
+  // judged stage (the next checkpoint or the day's end, or the next day's first checkpoint) says so too —
+  // unless it is far outside its wobble (CONFIRM_AT_ONCE_Z), a slow slide (the CUSUM has seen days of it),
+  // or already open.
+  // The confirming judgement may be a little less far down (three quarters of the threshold and of the
+  // unusualness): a fault sitting right at the threshold still confirms, while two unusual judgements in a
+  // row by chance stay rare.
+  const pendingBefore = input.pending ?? new Set<string>();
+  const pending = new Set<string>();
+  const isAbsorbed = (s: SpotJudgement) =>
+    s.scope === 'section' && (shortRows.has(s.row ?? 0) || shortTiers.has(s.tier ?? 0));
+  const confirmedNow = [...pendingBefore]
+    .map((key) => spots.get(key))
+    .filter(
+      (s): s is SpotJudgement =>
+        s !== undefined &&
+        !s.isShort &&
+        !isAbsorbed(s) &&
+        s.ratio < 1 - (0.75 * input.thresholdPct) / 100 &&
+        s.z <= -0.75 * ALARM_Z,
+    );
+  for (const s of confirmedNow) s.isShort = true;
+  const short = found
+    .filter((s) => {
+      if (s.isSlide || open.has(s.key) || s.z <= -CONFIRM_AT_ONCE_Z || pendingBefore.has(s.key))
+        return true;
+      pending.add(s.key);
+      return false;
+    })
+    .concat(confirmedNow);
   // A counter reading high is a calibration matter: judged on complete days only.
   const high = all.filter((s) => s.scope === 'section' && s.isHigh && stage === COMPLETE_DAY);
 
@@ -221,6 +257,7 @@ export function judgeStage(input: StageInput): StageJudgement {
     short,
     high,
     cusum,
+    pending,
     houseEggs: houseEggs || sumOwn(measures),
     houseEggsFilled: (houseEggs || sumOwn(measures)) + shortExpected,
   };

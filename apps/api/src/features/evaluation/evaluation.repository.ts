@@ -311,6 +311,8 @@ export interface EngineState {
   completeDayEggs?: number;
   /** each spot's CUSUM of complete days */
   cusum?: Record<string, { sum: number; recent: number[] }>;
+  /** spots short for the first time at the last judged stage, waiting for the next to confirm them */
+  pending?: string[];
 }
 
 export async function readEngine(db: Queryable, houseId: number): Promise<EngineState> {

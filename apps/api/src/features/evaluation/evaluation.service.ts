@@ -342,7 +342,25 @@ export function createEvaluationService(
       }
     };
 
-    if (isDayDue) {
+    // Live, yesterday is judged once every counter's data has reached its lights-off (a late gateway or a
+    // backfill still under way is waited for up to DATA_LATE_WAIT_HOURS, then left out; with no data at all
+    // the day waits for it, e.g. for the replay of a backfill).
+    const dayLate = new Set<string>();
+    let isDayReady = isDayDue;
+    if (isDayDue && isLive) {
+      const yesterdayStart = productionDayStart(yesterday, house.timezone, house.lightsOn);
+      const lightsOff = new Date(yesterdayStart.getTime() + house.photoperiodHours * 3_600_000);
+      const horizons = await beltHorizons(db, house.farmId, house.id, yesterdayStart);
+      for (const sec of layout.sections) {
+        const horizon = horizons.get(sec.id);
+        if (!horizon || horizon.getTime() < lightsOff.getTime() - DATA_LATE_SLACK_MS)
+          dayLate.add(spotKeyOf('section', sec.row, sec.tier));
+      }
+      const waited = minutes >= DATA_LATE_WAIT_HOURS * 60;
+      if (dayLate.size === layout.sections.length || (dayLate.size > 0 && !waited))
+        isDayReady = false;
+    }
+    if (isDayReady) {
       const rows = await sectionStageCounts(db, house, CHECKPOINT_HOURS, yesterday, yesterday);
       const sections = rows.flatMap((r) => {
         const sec = byId.get(r.sectionId);
@@ -354,11 +372,13 @@ export function createEvaluationService(
           stage: COMPLETE_DAY,
           sections,
           past: await pastDays(layout, yesterday),
-          silent,
+          silent: new Set([...silent, ...dayLate]),
           open,
           accepted,
           cusum: new Map(Object.entries(engine.cusum ?? {})),
+          pending: new Set(engine.pending ?? []),
         });
+        engine.pending = [...judged.pending];
         engine.cusum = Object.fromEntries(
           [...judged.cusum].map(([key, state]) => [
             key,
@@ -372,7 +392,7 @@ export function createEvaluationService(
         const collector = layout.counters.some((c) => c.kind === 'collector')
           ? await collectorTotal(db, house.farmId, house.id, yesterday, yesterday)
           : 0;
-        if (collector > 0) {
+        if (collector > 0 && dayLate.size === 0) {
           const belts = judged.houseEggs;
           const gap = judgeCollectorGap(collector, belts);
           candidates.push({
@@ -426,17 +446,18 @@ export function createEvaluationService(
         byStage[stage] = eggs.get(sec.id) ?? 0;
         return { row: sec.row, tier: sec.tier, byStage };
       });
-      toCandidates(
-        judgeStage({
-          thresholdPct: house.shortfallThresholdPct,
-          stage,
-          sections,
-          past: await pastDays(layout, day),
-          silent: new Set([...silent, ...late]),
-          open,
-          accepted,
-        }),
-      );
+      const judged = judgeStage({
+        thresholdPct: house.shortfallThresholdPct,
+        stage,
+        sections,
+        past: await pastDays(layout, day),
+        silent: new Set([...silent, ...late]),
+        open,
+        accepted,
+        pending: new Set(engine.pending ?? []),
+      });
+      engine.pending = [...judged.pending];
+      toCandidates(judged);
     }
     return candidates;
   }
@@ -718,8 +739,14 @@ export function createEvaluationService(
       const { house } = layout;
       const streaks: Record<string, Streak> = {};
       const changed: ExceptionRow[] = [];
-      // Replayed days are judged with their own CUSUM run, from before the first of them.
-      const engine: EngineState = { completeDay: addDays(firstDay, -1) };
+      // A replay that continues where the engine's last judged day ends carries its CUSUM on (a backfill that
+      // arrives in several pieces finds a slow slide like one that arrives at once); otherwise the replayed
+      // days are judged with their own CUSUM run, from before the first of them.
+      const stored = await readEngine(db, houseId);
+      const engine: EngineState =
+        stored.completeDay === addDays(firstDay, -1)
+          ? { ...stored }
+          : { completeDay: addDays(firstDay, -1) };
       for (const day of daysOf({ firstDay, lastDay })) {
         const start = productionDayStart(day, house.timezone, house.lightsOn);
         const end = productionDayStart(addDays(day, 1), house.timezone, house.lightsOn);
@@ -733,6 +760,10 @@ export function createEvaluationService(
           changed.push(...(await apply(layout, at, day, candidates, streaks, openAt)));
         }
       }
+      // A replay up to today leaves the engine where the live evaluation carries on: the days and checkpoints
+      // it judged, and each spot's CUSUM.
+      if (lastDay >= productionDayOf(new Date(), house.timezone, house.lightsOn))
+        await writeEngine(db, houseId, engine, new Date());
       announce(layout, changed);
       return { changed };
     },
