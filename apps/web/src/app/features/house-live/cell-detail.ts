@@ -1,18 +1,20 @@
-import { DatePipe, DecimalPipe } from '@angular/common';
+import { DecimalPipe } from '@angular/common';
 import { httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
-import { cellDetailSchema } from '@tierscope/contracts';
+import { cellDetailSchema, type ExceptionView } from '@tierscope/contracts';
+import { measuredWords } from '@tierscope/domain';
 import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
 import { describeApiError } from '../../core/http/api-error';
 import { LoadState } from '../../shared/ui/load-state';
+import { houseTime } from '../../shared/ui/local-dates';
 
 /** One section: today's cumulative curve against its peers' median, its last 14 days, and what to check. */
 @Component({
   selector: 'ts-cell-detail',
-  imports: [NgxEchartsDirective, MatButtonModule, MatIconModule, LoadState, DatePipe, DecimalPipe],
+  imports: [NgxEchartsDirective, MatButtonModule, MatIconModule, LoadState, DecimalPipe],
   templateUrl: './cell-detail.html',
   styleUrl: './cell-detail.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -33,6 +35,16 @@ export class CellDetail {
     return this.detail.hasValue() ? 'ready' : 'loading';
   });
   protected readonly errorText = computed(() => describeApiError(this.detail.error()));
+
+  /** What it measured in plain words: how far below, how unusual for that spot (never a p-value). */
+  protected measured(e: ExceptionView): string {
+    return measuredWords(e);
+  }
+
+  /** When it opened, on the house's own clock with its zone. */
+  protected since(iso: string): string {
+    return houseTime(iso, this.timezone());
+  }
 
   private readonly hourLabel = (iso: string) =>
     new Intl.DateTimeFormat('en-GB', {

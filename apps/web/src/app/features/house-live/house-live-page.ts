@@ -17,12 +17,18 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
-import { exceptionSchema, houseMapSchema, type HouseMap } from '@tierscope/contracts';
-import type { WindowKind } from '@tierscope/domain';
+import {
+  exceptionSchema,
+  houseMapSchema,
+  type ExceptionView,
+  type HouseMap,
+} from '@tierscope/contracts';
+import { measuredWords, type WindowKind } from '@tierscope/domain';
 import { z } from 'zod';
 import { describeApiError } from '../../core/http/api-error';
 import { LiveSocket } from '../../core/live/live-socket';
 import { LoadState } from '../../shared/ui/load-state';
+import { houseTime } from '../../shared/ui/local-dates';
 import { CellDetail } from './cell-detail';
 import { HouseHeatMap } from './house-heat-map';
 
@@ -136,6 +142,17 @@ export class HouseLivePage {
 
   protected setWindow(kind: WindowKind): void {
     this.windowKind.set(kind);
+  }
+
+  /** What it measured in plain words: how far below, how unusual for that spot (never a p-value). */
+  protected measured(e: ExceptionView): string {
+    return measuredWords(e);
+  }
+
+  /** When it opened, on the house's own clock with its zone. */
+  protected since(iso: string): string {
+    const zone = this.map()?.timezone;
+    return zone ? houseTime(iso, zone) : new Date(iso).toISOString().slice(0, 16).replace('T', ' ');
   }
 
   protected describeScope(e: {
