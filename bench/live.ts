@@ -82,7 +82,11 @@ async function main(): Promise<void> {
 
     // (a) evaluation
     const evaluation = createEvaluationService(database.db, createEventBus());
-    await evaluation.evaluateNow(houseIds[0] ?? 0); // warm
+    // The first pass reads each house's 28 days of history (kept for 30 s, as between live evaluations):
+    // reported as the cold figure; the target is the steady state that follows.
+    const coldStart = performance.now();
+    await Promise.all(houseIds.map((id) => evaluation.evaluateNow(id)));
+    const farmColdMs = performance.now() - coldStart;
     const houseTimes: number[] = [];
     for (let i = 0; i < 5; i++) {
       const t = performance.now();
@@ -98,7 +102,7 @@ async function main(): Promise<void> {
     const houseEvalMs = medianOf(houseTimes);
     const farmEvalMs = medianOf(farmTimes);
     console.log(
-      `[bench] (a) evaluation: one house ${round(houseEvalMs)} ms, the farm (10 houses, in parallel) ${round(farmEvalMs)} ms`,
+      `[bench] (a) evaluation: one house ${round(houseEvalMs)} ms, the farm (10 houses, in parallel) ${round(farmEvalMs)} ms (first pass, history not yet read: ${round(farmColdMs)} ms)`,
     );
 
     // The API with its live socket.
@@ -224,6 +228,7 @@ async function main(): Promise<void> {
       JSON.stringify({
         bench: 'live',
         farm_eval_ms: round(farmEvalMs),
+        farm_eval_cold_ms: round(farmColdMs),
         house_eval_ms: round(houseEvalMs),
         frame_p50_ms: p50,
         frame_p95_ms: p95,

@@ -185,6 +185,35 @@ export async function readStreaks(db: Queryable, houseId: number): Promise<Recor
   return (row?.streaks ?? {}) as Record<string, Streak>;
 }
 
+/** A house's streaks and engine state, read together (one row). */
+export async function readEvaluation(
+  db: Queryable,
+  houseId: number,
+): Promise<{ streaks: Record<string, Streak>; engine: EngineState }> {
+  const [row] = await db
+    .select({ streaks: houseEvaluations.streaks, engine: houseEvaluations.engine })
+    .from(houseEvaluations)
+    .where(eq(houseEvaluations.houseId, houseId));
+  return { streaks: (row?.streaks ?? {}) as Record<string, Streak>, engine: row?.engine ?? {} };
+}
+
+/** A house's streaks and engine state, written together (one statement). */
+export async function writeEvaluation(
+  db: Queryable,
+  houseId: number,
+  streaks: Record<string, Streak>,
+  engine: EngineState,
+  at: Date,
+) {
+  await db
+    .insert(houseEvaluations)
+    .values({ houseId, streaks, engine, evaluatedAt: at })
+    .onConflictDoUpdate({
+      target: houseEvaluations.houseId,
+      set: { streaks, engine, evaluatedAt: at },
+    });
+}
+
 export async function writeStreaks(
   db: Queryable,
   houseId: number,
@@ -313,6 +342,25 @@ export interface EngineState {
   cusum?: Record<string, { sum: number; recent: number[] }>;
   /** spots short for the first time at the last judged stage, waiting for the next to confirm them */
   pending?: string[];
+  /** the house-dip judgement of `day` as of `at` (ms), made on the complete day `completeDay` */
+  henDay?: {
+    day: string;
+    completeDay: string | undefined;
+    at: number;
+    candidate: {
+      kind: 'house_dip';
+      scope: 'house';
+      row: null;
+      tier: null;
+      isLearning: boolean;
+      eggs: number;
+      expected: number;
+      ratio: number;
+      pValue: number;
+      isShort: boolean;
+      isRecovered: boolean;
+    } | null;
+  };
 }
 
 export async function readEngine(db: Queryable, houseId: number): Promise<EngineState> {

@@ -44,8 +44,10 @@ import {
   collectorTotal,
   counterEggsInHours,
   readEngine,
+  readEvaluation,
   sectionStageCounts,
   writeEngine,
+  writeEvaluation,
   type EngineState,
   counterEggsSince,
   exceptionsOpenAt,
@@ -53,13 +55,11 @@ import {
   hensAlive,
   houseLayout,
   openException,
-  readStreaks,
   sectionDays,
   sectionEggsBetween,
   sectionHours,
   sectionTotals,
   updateException,
-  writeStreaks,
   type ExceptionRow,
 } from './evaluation.repository';
 import { recordAudit } from '../audit/audit.repository';
@@ -89,6 +89,8 @@ const rowKey = (e: Pick<ExceptionRow, 'kind' | 'scope' | 'row' | 'tier'>) =>
  */
 /** A counter's data counts as up to a checkpoint when its newest reading is at most this much older. */
 const DATA_LATE_SLACK_MS = 20 * 60_000;
+/** How long the house-dip judgement of a day is kept before it is read again. */
+const HEN_DAY_REFRESH_MS = 3_600_000;
 /** How long a checkpoint waits for late counters before it is judged without them. */
 const DATA_LATE_WAIT_HOURS = 3;
 
@@ -294,6 +296,7 @@ export function createEvaluationService(
     engine: EngineState,
     silentSections: ReadonlySet<string>,
     openAt: readonly ExceptionRow[],
+    recent: readonly ExceptionRow[],
     isLive: boolean,
   ): Promise<Candidate[]> {
     const { house } = layout;
@@ -310,12 +313,7 @@ export function createEvaluationService(
     const silent = new Set([...silentSections].map((key) => `section:${key}`));
     const open = new Set(openAt.filter((e) => e.kind === 'shortfall').map((e) => findingKey(e)));
     const accepted = new Map<string, number>();
-    for (const e of await exceptionsOverlapping(
-      db,
-      house.id,
-      new Date(at.getTime() - NORM_DAYS * 86_400_000),
-      at,
-    )) {
+    for (const e of recent) {
       if (e.closeReason === 'normal_for_spot' && e.ratio > 0)
         accepted.set(findingKey(e), Math.log(e.ratio));
     }
@@ -345,20 +343,34 @@ export function createEvaluationService(
     // Live, yesterday is judged once every counter's data has reached its lights-off (a late gateway or a
     // backfill still under way is waited for up to DATA_LATE_WAIT_HOURS, then left out; with no data at all
     // the day waits for it, e.g. for the replay of a backfill).
+    // Each counter's data horizon since yesterday's lights-on, read once for every judgement below.
+    let horizonsRead: Promise<Map<number, Date>> | null = null;
+    const horizonsOf = () =>
+      (horizonsRead ??= beltHorizons(
+        db,
+        house.farmId,
+        house.id,
+        productionDayStart(yesterday, house.timezone, house.lightsOn),
+      ));
     const dayLate = new Set<string>();
     let isDayReady = isDayDue;
     if (isDayDue && isLive) {
       const yesterdayStart = productionDayStart(yesterday, house.timezone, house.lightsOn);
       const lightsOff = new Date(yesterdayStart.getTime() + house.photoperiodHours * 3_600_000);
-      const horizons = await beltHorizons(db, house.farmId, house.id, yesterdayStart);
+      const horizons = await horizonsOf();
       for (const sec of layout.sections) {
         const horizon = horizons.get(sec.id);
         if (!horizon || horizon.getTime() < lightsOff.getTime() - DATA_LATE_SLACK_MS)
           dayLate.add(spotKeyOf('section', sec.row, sec.tier));
       }
       const waited = minutes >= DATA_LATE_WAIT_HOURS * 60;
-      if (dayLate.size === layout.sections.length || (dayLate.size > 0 && !waited))
+      if (dayLate.size > 0 && !waited) isDayReady = false;
+      // Still no data at all after the wait (a house fed by imports, a gateway down): nothing to judge live;
+      // the replay that comes with the data judges the day.
+      if (dayLate.size === layout.sections.length && waited) {
         isDayReady = false;
+        engine.completeDay = yesterday;
+      }
     }
     if (isDayReady) {
       const rows = await sectionStageCounts(db, house, CHECKPOINT_HOURS, yesterday, yesterday);
@@ -427,7 +439,7 @@ export function createEvaluationService(
       // part of its data: that would read as a shortfall).
       const late = new Set<string>();
       if (isLive) {
-        const horizons = await beltHorizons(db, house.farmId, house.id, dayStart);
+        const horizons = await horizonsOf();
         for (const sec of layout.sections) {
           const horizon = horizons.get(sec.id);
           if (!horizon || horizon.getTime() < checkpoint.getTime() - DATA_LATE_SLACK_MS)
@@ -438,8 +450,12 @@ export function createEvaluationService(
         if (late.size > 0 && isStillWaiting) continue;
       }
       const eggs = await sectionEggsBetween(db, house.farmId, house.id, dayStart, checkpoint);
-      // Nothing counted by then (the gateway is late, or the house is empty): judged when it has arrived.
-      if ([...eggs.values()].every((n) => n === 0)) continue;
+      // Nothing counted by then (no gateway, or the house is empty): nothing to judge live; a replay judges
+      // it when its data arrives.
+      if ([...eggs.values()].every((n) => n === 0)) {
+        engine.checkpoints = [...(engine.checkpoints ?? []), stage];
+        continue;
+      }
       engine.checkpoints = [...(engine.checkpoints ?? []), stage];
       const sections = layout.sections.map((sec) => {
         const byStage = [...CHECKPOINT_HOURS.map(() => 0), 0];
@@ -468,7 +484,12 @@ export function createEvaluationService(
     at: Date,
     isLive: boolean,
     engine: EngineState,
-  ): Promise<{ day: string; candidates: Candidate[]; openAt: ExceptionRow[] }> {
+  ): Promise<{
+    day: string;
+    candidates: Candidate[];
+    openAt: ExceptionRow[];
+    recent: ExceptionRow[];
+  }> {
     const { house } = layout;
     const day = productionDayOf(at, house.timezone, house.lightsOn);
     const sectionIds = layout.sections.map((s) => s.id);
@@ -546,53 +567,81 @@ export function createEvaluationService(
     }
     // Shortfalls: the complete day once it is over, and today's fixed checkpoints once each (never a
     // running total re-tested every few seconds).
-    candidates.push(...(await judgeDue(layout, at, engine, silent, openAt, isLive)));
+    const recent = await exceptionsOverlapping(
+      db,
+      house.id,
+      new Date(at.getTime() - NORM_DAYS * 86_400_000),
+      at,
+    );
+    candidates.push(...(await judgeDue(layout, at, engine, silent, openAt, recent, isLive)));
 
     if (isLive) {
-      // Hen-day production of the last complete day against the seven before it.
+      // Hen-day production of the last complete day against the seven before it: read again when the day
+      // or its judgement changes, else at most hourly (a corrected morning walk shows within the hour).
       const yesterday = addDays(day, -1);
-      const hens = await hensAlive(db, house.id, addDays(day, -8), yesterday);
-      const dayEggs = await sectionDays(db, house.farmId, sectionIds, addDays(day, -8), yesterday);
-      const hdp = (d: string) => {
-        const h = hens.get(d);
-        // Yesterday as judged: a silent counter's eggs and a short row's or tier's missing eggs filled in,
-        // so one cause raises one alarm (the counter, the row, the tier), not also a house dip.
-        const e =
-          d === yesterday && engine.completeDay === yesterday && engine.completeDayEggs
-            ? engine.completeDayEggs
-            : dayEggs.filter((r) => r.day === d).reduce((n, r) => n + r.eggs, 0);
-        return h && e > 0 ? (e / h) * 100 : null;
-      };
-      const latest = hdp(yesterday);
-      const previous = daysOf({ firstDay: addDays(day, -8), lastDay: addDays(day, -2) })
-        .map(hdp)
-        .filter((v): v is number => v !== null);
-      if (latest !== null) {
-        // The flock's own lay curve, when it fits well, knows about age; the 7-day average does not.
-        const fromCurve = expectedLay
-          ? await expectedLay.expectedHenDayPct(house.id, yesterday)
-          : null;
-        const dip =
-          fromCurve !== null
-            ? judgeHouseDipAgainstCurve(latest, fromCurve)
-            : judgeHouseDip(latest, previous);
-        candidates.push({
-          kind: 'house_dip',
-          scope: 'house',
-          row: null,
-          tier: null,
-          isLearning: fromCurve === null && previous.length < 3,
-          eggs: latest,
-          expected: dip.average,
-          ratio: latest / dip.average,
-          pValue: 1,
-          // A complete day is final: one evaluation is enough (the streak is primed below).
-          isShort: dip.isDip,
-          isRecovered: !dip.isDip,
-        });
-      }
+      const kept = engine.henDay;
+      const isFresh =
+        kept?.day === yesterday &&
+        kept.completeDay === engine.completeDay &&
+        at.getTime() - kept.at < HEN_DAY_REFRESH_MS;
+      const henDay = isFresh ? kept : await houseHenDay(layout, day, at, engine);
+      engine.henDay = henDay;
+      if (henDay.candidate) candidates.push(henDay.candidate);
     }
-    return { day, candidates, openAt };
+    return { day, candidates, openAt, recent };
+  }
+
+  /** The house-dip judgement of the last complete day (kept in the engine state between evaluations). */
+  async function houseHenDay(
+    layout: Layout,
+    day: string,
+    at: Date,
+    engine: EngineState,
+  ): Promise<NonNullable<EngineState['henDay']>> {
+    const { house } = layout;
+    const yesterday = addDays(day, -1);
+    const base = { day: yesterday, completeDay: engine.completeDay, at: at.getTime() };
+    const sectionIds = layout.sections.map((s) => s.id);
+    const hens = await hensAlive(db, house.id, addDays(day, -8), yesterday);
+    const dayEggs = await sectionDays(db, house.farmId, sectionIds, addDays(day, -8), yesterday);
+    const hdp = (d: string) => {
+      const h = hens.get(d);
+      // Yesterday as judged: a silent counter's eggs and a short row's or tier's missing eggs filled in,
+      // so one cause raises one alarm (the counter, the row, the tier), not also a house dip.
+      const e =
+        d === yesterday && engine.completeDay === yesterday && engine.completeDayEggs
+          ? engine.completeDayEggs
+          : dayEggs.filter((r) => r.day === d).reduce((n, r) => n + r.eggs, 0);
+      return h && e > 0 ? (e / h) * 100 : null;
+    };
+    const latest = hdp(yesterday);
+    const previous = daysOf({ firstDay: addDays(day, -8), lastDay: addDays(day, -2) })
+      .map(hdp)
+      .filter((v): v is number => v !== null);
+    if (latest === null) return { ...base, candidate: null };
+    // The flock's own lay curve, when it fits well, knows about age; the 7-day average does not.
+    const fromCurve = expectedLay ? await expectedLay.expectedHenDayPct(house.id, yesterday) : null;
+    const dip =
+      fromCurve !== null
+        ? judgeHouseDipAgainstCurve(latest, fromCurve)
+        : judgeHouseDip(latest, previous);
+    return {
+      ...base,
+      candidate: {
+        kind: 'house_dip',
+        scope: 'house',
+        row: null,
+        tier: null,
+        isLearning: fromCurve === null && previous.length < 3,
+        eggs: latest,
+        expected: dip.average,
+        ratio: latest / dip.average,
+        pValue: 1,
+        // A complete day is final: one evaluation is enough (the streak is primed below).
+        isShort: dip.isDip,
+        isRecovered: !dip.isDip,
+      },
+    };
   }
 
   /** Runs the candidates through their streaks and opens, updates and closes exceptions. */
@@ -604,18 +653,19 @@ export function createEvaluationService(
     streaks: Record<string, Streak>,
     /** the exceptions open at `at`, as measure() read them */
     openAt: ExceptionRow[],
+    /** the exceptions of the last NORM_DAYS up to `at`, as measure() read them */
+    recent: readonly ExceptionRow[],
   ) {
     const { house } = layout;
     const live = new Map(openAt.map((e) => [rowKey(e), e]));
-    const recentlyNormal = (
-      await exceptionsOverlapping(
-        db,
-        house.id,
-        productionDayStart(day, house.timezone, house.lightsOn),
-        at,
+    const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
+    const recentlyNormal = recent
+      .filter(
+        (e) =>
+          e.closeReason === 'normal_for_spot' &&
+          e.openedAt <= at &&
+          (e.closedAt === null || e.closedAt >= dayStart),
       )
-    )
-      .filter((e) => e.closeReason === 'normal_for_spot')
       .map(rowKey);
     const changed: ExceptionRow[] = [];
     for (const candidate of candidates) {
@@ -723,12 +773,10 @@ export function createEvaluationService(
     async evaluateNow(houseId, now = new Date()) {
       const layout = await cachedLayout(houseId);
       if (!layout) return { changed: [] };
-      const engine = await readEngine(db, houseId);
-      const { day, candidates, openAt } = await measure(layout, now, true, engine);
-      const streaks = await readStreaks(db, houseId);
-      const changed = await apply(layout, now, day, candidates, streaks, openAt);
-      await writeStreaks(db, houseId, streaks, now);
-      await writeEngine(db, houseId, engine, now);
+      const { streaks, engine } = await readEvaluation(db, houseId);
+      const { day, candidates, openAt, recent } = await measure(layout, now, true, engine);
+      const changed = await apply(layout, now, day, candidates, streaks, openAt, recent);
+      await writeEvaluation(db, houseId, streaks, engine, now);
       announce(layout, changed);
       return { changed };
     },
@@ -756,8 +804,8 @@ export function createEvaluationService(
         ).concat(end);
         // Today's checkpoints that have passed are replayed too; the live evaluation carries on from there.
         for (const at of checkpoints.filter((checkpoint) => checkpoint.getTime() <= Date.now())) {
-          const { candidates, openAt } = await measure(layout, at, false, engine);
-          changed.push(...(await apply(layout, at, day, candidates, streaks, openAt)));
+          const { candidates, openAt, recent } = await measure(layout, at, false, engine);
+          changed.push(...(await apply(layout, at, day, candidates, streaks, openAt, recent)));
         }
       }
       // A replay up to today leaves the engine where the live evaluation carries on: the days and checkpoints
