@@ -492,7 +492,6 @@ export function createEvaluationService(
   }> {
     const { house } = layout;
     const day = productionDayOf(at, house.timezone, house.lightsOn);
-    const sectionIds = layout.sections.map((s) => s.id);
     const candidates: Candidate[] = [];
 
     const silent = new Set<string>();
