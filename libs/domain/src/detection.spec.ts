@@ -4,6 +4,7 @@ import {
   cusumStep,
   CUSUM_START,
   isSilent,
+  judgeHouseDay,
   judgeSpot,
   learnNorm,
   robustSd,
@@ -165,5 +166,30 @@ describe('measuredWords', () => {
         pValue: 0,
       }),
     ).toBe('the collector counted 4.2 % more eggs than the belts (10,420 against 10,000)');
+  });
+});
+
+describe('judgeHouseDay', () => {
+  // A week of hen-day figures around 92 % with a day-to-day wobble of about 1 % (generated, not identical).
+  const week = [92.4, 91.1, 92.9, 91.8, 92.2, 93.0, 91.5];
+
+  it('calls a day more than 5 % below its recent median and far outside their wobble a dip', () => {
+    const dip = judgeHouseDay(85, week);
+    expect(dip.expected).toBeCloseTo(92.2, 6);
+    expect(dip.isDip).toBe(true);
+    expect(dip.z).toBeLessThan(-4);
+  });
+
+  it('does not call 3 % below a dip, nor anything before three days are known', () => {
+    expect(judgeHouseDay(89.4, week).isDip).toBe(false);
+    expect(judgeHouseDay(50, [92, 91]).isDip).toBe(false);
+  });
+
+  it('does not call 6 % below a dip where the days themselves wobble by several per cent', () => {
+    // A young flock's days moving by 4–6 % (robust sd about 5 %): 6 % down is not unusual for it.
+    const wobbly = [80, 86, 78, 84, 88, 81, 90];
+    const day = judgeHouseDay(0.94 * 84, wobbly);
+    expect(day.ratio).toBeLessThan(0.95);
+    expect(day.isDip).toBe(false);
   });
 });

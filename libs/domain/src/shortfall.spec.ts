@@ -1,10 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import {
   CLEAR,
-  isSilentCounter,
   judgeCollectorGap,
   judgeHouse,
-  judgeHouseDip,
   likelyChecks,
   sectionKey,
   stepStreak,
@@ -114,23 +112,6 @@ describe('judgeHouse: sections', () => {
     );
     // Nothing at all: not the section, nor its row or tier, which are short only by the dead counter's eggs.
     expect(shorts(j)).toEqual([]);
-    expect(
-      isSilentCounter({
-        eggsLast30: 0,
-        peerEggsLast30: [40, 38, 45, 41, 39],
-        minutesIntoDay: 240,
-        photoperiodHours: 16,
-      }),
-    ).toBe(true);
-    // At night nobody lays: not silent.
-    expect(
-      isSilentCounter({
-        eggsLast30: 0,
-        peerEggsLast30: [0, 0, 1],
-        minutesIntoDay: 1100,
-        photoperiodHours: 16,
-      }),
-    ).toBe(false);
   });
 
   it('does not learn a fault as normal: days with an open exception are skipped', () => {
@@ -205,11 +186,5 @@ describe('other exception kinds', () => {
     expect(judgeCollectorGap(30_300, 30_000).isGap).toBe(false);
     // A few eggs early in the day: a big percentage, but chance.
     expect(judgeCollectorGap(60, 50).isGap).toBe(false);
-  });
-
-  it('sees a house dip more than 5 % below the 7-day average', () => {
-    expect(judgeHouseDip(85, [92, 93, 91, 92, 92, 93, 92]).isDip).toBe(true);
-    expect(judgeHouseDip(89, [92, 93, 91, 92, 92, 93, 92]).isDip).toBe(false);
-    expect(judgeHouseDip(50, [92]).isDip).toBe(false);
   });
 });

@@ -283,23 +283,6 @@ export function judgeHouse(input: HouseInput): HouseJudgement {
   return { cells, candidates };
 }
 
-/** A counter that sent no eggs for 30 minutes of laying time while its peers counted. */
-export function isSilentCounter(input: {
-  eggsLast30: number;
-  peerEggsLast30: number[];
-  minutesIntoDay: number;
-  photoperiodHours: number;
-}): boolean {
-  const isLayingTime =
-    input.minutesIntoDay >= 60 && input.minutesIntoDay <= input.photoperiodHours * 60;
-  return (
-    isLayingTime &&
-    input.eggsLast30 === 0 &&
-    input.peerEggsLast30.length > 0 &&
-    median(input.peerEggsLast30) >= 5
-  );
-}
-
 /** The collector and the sum of the belts disagree by more than `pct` %, by more than chance. */
 export function judgeCollectorGap(collector: number, belts: number, pct = 3) {
   const diffPct = belts > 0 ? ((collector - belts) / belts) * 100 : 0;
@@ -309,17 +292,6 @@ export function judgeCollectorGap(collector: number, belts: number, pct = 3) {
     diffPct,
     pValue,
     isGap: belts >= 500 && Math.abs(diffPct) > pct && pValue < SIGNIFICANCE,
-  };
-}
-
-/** Hen-day production more than 5 % below its own 7-day average: a flock-level matter. */
-export function judgeHouseDip(henDayPct: number, previous: number[], pct = 5) {
-  const average = previous.length
-    ? previous.reduce((a, b) => a + b, 0) / previous.length
-    : Number.NaN;
-  return {
-    average,
-    isDip: previous.length >= MIN_HISTORY_DAYS && henDayPct < average * (1 - pct / 100),
   };
 }
 

@@ -21,7 +21,8 @@ import {
   spotKeyOf,
   judgeCollectorGap,
   judgeHouse,
-  judgeHouseDip,
+  judgeHouseDay,
+  MIN_CLEAN_DAYS,
   judgeHouseDipAgainstCurve,
   minutesSinceLightsOn,
   productionDayOf,
@@ -620,10 +621,14 @@ export function createEvaluationService(
     if (latest === null) return { ...base, candidate: null };
     // The flock's own lay curve, when it fits well, knows about age; the 7-day average does not.
     const fromCurve = expectedLay ? await expectedLay.expectedHenDayPct(house.id, yesterday) : null;
+    // Against the flock's own fitted curve (it knows about age, and a week-long drop does not become the
+    // norm); without one, the judgement bench:detect measures: more than 5 % below its recent days' median
+    // and far outside their wobble.
+    const recentDays = judgeHouseDay(latest, [...previous].reverse());
     const dip =
       fromCurve !== null
         ? judgeHouseDipAgainstCurve(latest, fromCurve)
-        : judgeHouseDip(latest, previous);
+        : { average: recentDays.expected, isDip: recentDays.isDip };
     return {
       ...base,
       candidate: {
@@ -631,7 +636,7 @@ export function createEvaluationService(
         scope: 'house',
         row: null,
         tier: null,
-        isLearning: fromCurve === null && previous.length < 3,
+        isLearning: fromCurve === null && previous.length < MIN_CLEAN_DAYS,
         eggs: latest,
         expected: dip.average,
         ratio: latest / dip.average,
