@@ -2,6 +2,7 @@ import {
   ALARM_Z,
   COMPLETE_DAY,
   CONFIRM_AT_ONCE_Z,
+  CONFIRM_WITHIN_STAGES,
   cusumStep,
   CUSUM_START,
   effectiveWobble,
@@ -78,8 +79,8 @@ export interface StageInput {
   accepted?: ReadonlyMap<string, number>;
   /** the CUSUM of each spot before this day (complete-day stage only) */
   cusum?: ReadonlyMap<string, CusumState>;
-  /** spots short for the first time at the previous judged stage, waiting for this one to confirm them */
-  pending?: ReadonlySet<string>;
+  /** spots seen short once, waiting for a later stage to confirm them: key → judged stages still to wait */
+  pending?: ReadonlyMap<string, number>;
 }
 
 export interface StageJudgement {
@@ -91,8 +92,8 @@ export interface StageJudgement {
   high: SpotJudgement[];
   /** the CUSUM after this day (complete-day stage only; otherwise the input's) */
   cusum: Map<string, CusumState>;
-  /** spots short for the first time now, held until the next judged stage confirms them */
-  pending: Set<string>;
+  /** spots seen short once and not yet confirmed: key → judged stages still to wait */
+  pending: Map<string, number>;
   /** eggs of the house at this stage with silent sections filled in */
   houseEggs: number;
   /** expected eggs of the house with short spots at their expected counts (for the house-day check) */
@@ -162,7 +163,8 @@ export function judgeStage(input: StageInput): StageJudgement {
         input.thresholdPct,
       );
       cusum.set(m.key, step.isAlarm ? CUSUM_START : step.state);
-      isSlide = step.isAlarm && !verdict.isShort;
+      // Days of evidence: a CUSUM alarm needs no further confirmation, whatever the day alone says.
+      isSlide = step.isAlarm;
     }
     spots.set(m.key, {
       ...verdict,
@@ -209,33 +211,30 @@ export function judgeStage(input: StageInput): StageJudgement {
     if (s.scope !== 'section') return true;
     return !shortRows.has(s.row ?? 0) && !shortTiers.has(s.tier ?? 0);
   });
-  // One unusual judgement is not yet an alarm: a spot seen short for the first time is held until the next
-  // judged stage (the next checkpoint or the day's end, or the next day's first checkpoint) says so too —
-  // unless it is far outside its wobble (CONFIRM_AT_ONCE_Z), a slow slide (the CUSUM has seen days of it),
-  // or already open.
-  // The confirming judgement may be a little less far down (three quarters of the threshold and of the
-  // unusualness): a fault sitting right at the threshold still confirms, while two unusual judgements in a
-  // row by chance stay rare.
-  const pendingBefore = input.pending ?? new Set<string>();
-  const pending = new Set<string>();
+  // One unusual judgement is not yet an alarm: a spot seen short for the first time is held until one of
+  // the next CONFIRM_WITHIN_STAGES judged stages (checkpoints and complete days) says so too — unless it is
+  // far outside its wobble (CONFIRM_AT_ONCE_Z), a slow slide (the CUSUM has seen days of it), or already
+  // open. The confirming judgement may be a little less far down (three quarters of the threshold and of
+  // the unusualness): a fault sitting right at the threshold still confirms, while two unusual judgements
+  // by chance stay rare. A spot back within half the threshold is no longer held.
+  const pendingBefore = input.pending ?? new Map<string, number>();
+  const pending = new Map<string, number>();
   const isAbsorbed = (s: SpotJudgement) =>
     s.scope === 'section' && (shortRows.has(s.row ?? 0) || shortTiers.has(s.tier ?? 0));
-  const confirmedNow = [...pendingBefore]
-    .map((key) => spots.get(key))
-    .filter(
-      (s): s is SpotJudgement =>
-        s !== undefined &&
-        !s.isShort &&
-        !isAbsorbed(s) &&
-        s.ratio < 1 - (0.75 * input.thresholdPct) / 100 &&
-        s.z <= -0.75 * ALARM_Z,
-    );
-  for (const s of confirmedNow) s.isShort = true;
+  const confirmedNow: SpotJudgement[] = [];
+  for (const [key, left] of pendingBefore) {
+    const s = spots.get(key);
+    if (!s || s.isShort || isAbsorbed(s)) continue;
+    if (s.ratio < 1 - (0.75 * input.thresholdPct) / 100 && s.z <= -0.75 * ALARM_Z) {
+      s.isShort = true;
+      confirmedNow.push(s);
+    } else if (!s.isRecovered && left > 1) pending.set(key, left - 1);
+  }
   const short = found
     .filter((s) => {
       if (s.isSlide || open.has(s.key) || s.z <= -CONFIRM_AT_ONCE_Z || pendingBefore.has(s.key))
         return true;
-      pending.add(s.key);
+      pending.set(s.key, CONFIRM_WITHIN_STAGES);
       return false;
     })
     .concat(confirmedNow);

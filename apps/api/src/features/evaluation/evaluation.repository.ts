@@ -340,8 +340,8 @@ export interface EngineState {
   completeDayEggs?: number;
   /** each spot's CUSUM of complete days */
   cusum?: Record<string, { sum: number; recent: number[] }>;
-  /** spots short for the first time at the last judged stage, waiting for the next to confirm them */
-  pending?: string[];
+  /** spots seen short once, waiting for a later stage to confirm them: key → judged stages still to wait */
+  pending?: Record<string, number>;
   /** the house-dip judgement of `day` as of `at` (ms), made on the complete day `completeDay` */
   henDay?: {
     day: string;

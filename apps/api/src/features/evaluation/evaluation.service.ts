@@ -389,9 +389,9 @@ export function createEvaluationService(
           open,
           accepted,
           cusum: new Map(Object.entries(engine.cusum ?? {})),
-          pending: new Set(engine.pending ?? []),
+          pending: new Map(Object.entries(engine.pending ?? {})),
         });
-        engine.pending = [...judged.pending];
+        engine.pending = Object.fromEntries(judged.pending);
         engine.cusum = Object.fromEntries(
           [...judged.cusum].map(([key, state]) => [
             key,
@@ -471,9 +471,9 @@ export function createEvaluationService(
         silent: new Set([...silent, ...late]),
         open,
         accepted,
-        pending: new Set(engine.pending ?? []),
+        pending: new Map(Object.entries(engine.pending ?? {})),
       });
-      engine.pending = [...judged.pending];
+      engine.pending = Object.fromEntries(judged.pending);
       toCandidates(judged);
     }
     return candidates;
