@@ -8,6 +8,8 @@ import type { Database } from '@tierscope/db';
 export const EVALUATION_INTERVAL_MS = 2000;
 /** Quiet time after past-day readings before their days are evaluated (imports send many batches). */
 export const HISTORY_QUIET_MS = 3000;
+/** Readings younger than this are live data (no replay of past days). */
+export const LIVE_DATA_MS = 3_600_000;
 /** The longest history one pass re-evaluates after live readings for past days. */
 export const MAX_HISTORY_DAYS = 62;
 /** The longest history one pass re-evaluates after a historical import (a background job of minutes). */
@@ -24,6 +26,7 @@ export class EvaluationScheduler {
   private readonly running = new Map<number, Promise<void>>();
   /** history replays under way (their entry leaves `history` when they start) */
   private replaying = 0;
+  private readonly replayingHouses = new Set<number>();
   private readonly history = new Map<
     number,
     { firstTs: Date; maxDays: number; timer: ReturnType<typeof setTimeout> }
@@ -38,12 +41,15 @@ export class EvaluationScheduler {
     private readonly intervalMs = EVALUATION_INTERVAL_MS,
   ) {
     this.stop = events.on('readings.accepted', (e) => {
+      // Readings of the last hour are today's live data: the live evaluation judges what they complete.
+      // Older ones (a backfill, a gateway's backlog, an import) are replayed through the days they touch.
+      if (e.isImport || Date.now() - e.firstTs.getTime() > LIVE_DATA_MS)
+        this.scheduleHistory(
+          e.houseId,
+          e.firstTs,
+          e.isImport ? MAX_IMPORT_HISTORY_DAYS : MAX_HISTORY_DAYS,
+        );
       this.schedule(e.houseId);
-      this.scheduleHistory(
-        e.houseId,
-        e.firstTs,
-        e.isImport ? MAX_IMPORT_HISTORY_DAYS : MAX_HISTORY_DAYS,
-      );
     });
   }
 
@@ -60,6 +66,9 @@ export class EvaluationScheduler {
   }
 
   private async run(houseId: number): Promise<void> {
+    // Past days still to be replayed come first: judging today before them would judge it without the
+    // exceptions and CUSUM they bring (the replay evaluates today itself when it ends).
+    if (this.history.has(houseId) || this.replayingHouses.has(houseId)) return;
     const previous = this.running.get(houseId);
     if (previous) await previous;
     this.lastRun.set(houseId, Date.now());
@@ -90,6 +99,9 @@ export class EvaluationScheduler {
     this.history.delete(houseId);
     if (!entry) return;
     this.replaying += 1;
+    this.replayingHouses.add(houseId);
+    const previous = this.running.get(houseId);
+    if (previous) await previous;
     try {
       const house = await findHouse(this.db, houseId);
       if (!house) return;
@@ -100,10 +112,12 @@ export class EvaluationScheduler {
         firstDay < addDays(today, -entry.maxDays) ? addDays(today, -entry.maxDays) : firstDay;
       await this.evaluation.evaluateHistory(houseId, start, today);
       // Then today, so live state continues from the replayed days.
+      this.replayingHouses.delete(houseId);
       await this.run(houseId);
     } catch (error) {
       this.log(`historical evaluation of house ${houseId} failed`, error);
     } finally {
+      this.replayingHouses.delete(houseId);
       this.replaying -= 1;
     }
   }
