@@ -4,6 +4,7 @@
  * culled hens for every day. Written as day rollups (the live readings of those days are not needed by any
  * screen), so the flock page shows a whole lay curve and the reports have months to look back on.
  */
+import type { SimulatorHouse } from '@tierscope/contracts';
 import { schema, type Database } from '@tierscope/db';
 import { addDays } from '@tierscope/domain';
 import { sql } from 'drizzle-orm';
@@ -31,6 +32,35 @@ function unit(key: string): number {
     h = Math.imul(h, 0x01000193);
   }
   return (h >>> 0) / 0x100000000;
+}
+
+/** A house as the simulator takes it (its farm file's shape), from its database rows. */
+export function simulatorHouseOf(
+  house: typeof schema.houses.$inferSelect,
+  sections: readonly (typeof schema.sections.$inferSelect)[],
+  counters: readonly (typeof schema.counters.$inferSelect)[],
+  flock: { hensHoused: number; flockAgeWeeks: number },
+): SimulatorHouse {
+  return {
+    name: house.name,
+    rows: house.rows,
+    tiers: house.tiers,
+    timezone: house.timezone,
+    lightsOn: house.lightsOn,
+    photoperiodHours: house.photoperiodHours,
+    ...flock,
+    counters: counters
+      .filter((c) => c.houseId === house.id)
+      .map((c) => {
+        const section = sections.find((x) => x.id === c.sectionId);
+        return {
+          externalId: c.externalId,
+          kind: c.kind,
+          row: section?.row ?? null,
+          tier: section?.tier ?? null,
+        };
+      }),
+  };
 }
 
 /** A flock's age in weeks on a day. */
@@ -88,25 +118,10 @@ export async function writeDemoHistory(
       .where(sql`house_id = ${house.id}`);
     const now = simulatorStart;
     const model = new RealisticHouseModel(
-      {
-        name: house.name,
-        rows: house.rows,
-        tiers: house.tiers,
-        timezone: house.timezone,
-        lightsOn: house.lightsOn,
-        photoperiodHours: house.photoperiodHours,
+      simulatorHouseOf(house, sections, counters, {
         hensHoused: flock.hensHoused,
         flockAgeWeeks: ageOn(flock, now.toISOString().slice(0, 10)),
-        counters: counters.map((c) => {
-          const section = sections.find((x) => x.id === c.sectionId);
-          return {
-            externalId: c.externalId,
-            kind: c.kind,
-            row: section?.row ?? null,
-            tier: section?.tier ?? null,
-          };
-        }),
-      },
+      }),
       {
         seed: DEMO_SIMULATOR_SEED,
         start: now,

@@ -1,4 +1,4 @@
-import { exceptionSchema, type SimulatorHouse } from '@tierscope/contracts';
+import { exceptionSchema } from '@tierscope/contracts';
 import { schema } from '@tierscope/db';
 import { DEMO_PASSWORD, DEMO_TIMEZONE, demoFlocks, seedDemo } from '@tierscope/db/seed';
 import { createTestDatabase } from '@tierscope/db/testing';
@@ -9,7 +9,12 @@ import { z } from 'zod';
 import type { Runtime } from '../../apps/api/src/app';
 import { bearerFor } from '../../apps/api/src/testing/sign-in';
 import { createTestApp, createTestRuntime } from '../../apps/api/src/testing/test-app';
-import { DEMO_FAULTS, DEMO_SIMULATOR_SEED, writeDemoHistory } from '../../scripts/demo-history';
+import {
+  DEMO_FAULTS,
+  DEMO_SIMULATOR_SEED,
+  simulatorHouseOf,
+  writeDemoHistory,
+} from '../../scripts/demo-history';
 import { parseFault } from '../../simulator/src/faults';
 import type { Reading } from '../../simulator/src/house-model';
 import { RealisticHouseModel } from '../../simulator/src/realistic-model';
@@ -63,27 +68,10 @@ beforeAll(async () => {
     const models = houses
       .filter((h) => h.farmId === farm.id)
       .map((h) => {
-        const house: SimulatorHouse = {
-          name: h.name,
-          rows: h.rows,
-          tiers: h.tiers,
-          timezone: h.timezone,
-          lightsOn: h.lightsOn,
-          photoperiodHours: h.photoperiodHours,
+        const house = simulatorHouseOf(h, sections, counters, {
           hensHoused: flocks.get(h.id)?.hensHoused ?? 30_000,
           flockAgeWeeks: flocks.get(h.id)?.flockAgeWeeks ?? 30,
-          counters: counters
-            .filter((c) => c.houseId === h.id)
-            .map((c) => {
-              const section = sections.find((s) => s.id === c.sectionId);
-              return {
-                externalId: c.externalId,
-                kind: c.kind,
-                row: section?.row ?? null,
-                tier: section?.tier ?? null,
-              };
-            }),
-        };
+        });
         return new RealisticHouseModel(house, { seed: DEMO_SIMULATOR_SEED, start: START, faults });
       });
     let batch: Reading[] = [];

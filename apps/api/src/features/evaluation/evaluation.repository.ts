@@ -1,5 +1,5 @@
 import { schema, type Queryable } from '@tierscope/db';
-import type { Streak } from '@tierscope/domain';
+import type { Streak, Verdict } from '@tierscope/domain';
 import { and, asc, desc, eq, gte, inArray, isNull, lte, ne, or, sql, type SQL } from 'drizzle-orm';
 
 const { houses, sections, counters, exceptions, houseEvaluations, flocks, mortality, users } =
@@ -347,19 +347,15 @@ export interface EngineState {
     day: string;
     completeDay: string | undefined;
     at: number;
-    candidate: {
-      kind: 'house_dip';
-      scope: 'house';
-      row: null;
-      tier: null;
-      isLearning: boolean;
-      eggs: number;
-      expected: number;
-      ratio: number;
-      pValue: number;
-      isShort: boolean;
-      isRecovered: boolean;
-    } | null;
+    candidate:
+      | (Verdict & {
+          kind: 'house_dip';
+          scope: 'house';
+          row: null;
+          tier: null;
+          isLearning: boolean;
+        })
+      | null;
   };
 }
 
