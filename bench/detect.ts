@@ -684,8 +684,8 @@ function main(): void {
   );
   // The issue's targets, each measured here: the share of planted faults found within a delay (a fault not
   // found counts as late), in laying hours (PHOTOPERIOD_HOURS a production day).
-  const within = (kinds: FaultKind[], hours: number) => {
-    const tallies = kinds.map((k) => engine.byFault.get(k)).filter((t) => t !== undefined);
+  const within = (kinds: FaultKind[], hours: number, m: ReturnType<typeof score> = engine) => {
+    const tallies = kinds.map((k) => m.byFault.get(k)).filter((t) => t !== undefined);
     const houses = tallies.reduce((n, t) => n + t.houses, 0);
     const inTime = tallies.reduce((n, t) => n + t.delays.filter((d) => d <= hours).length, 0);
     return houses ? inTime / houses : 0;
@@ -700,6 +700,14 @@ function main(): void {
   const recallOf = (m: ReturnType<typeof score>) => {
     const tallies = [...m.byFault].filter(([k]) => !NOT_FAULTS.has(k)).map(([, t]) => t);
     return tallies.reduce((n, t) => n + t.found, 0) / tallies.reduce((n, t) => n + t.houses, 0);
+  };
+  // The same shares for the oracle (the best delay at the engine's false-alarm rate), as a yardstick.
+  const oracleWithin: Record<string, number> = {
+    dead_counter_within_45_min: within(['dead counter'], 0.75, oracle),
+    section_15_within_2_days: within(['section -15%'], 2 * day, oracle),
+    row_tier_12_within_2_days: within(['row -12%', 'tier -12%'], 2 * day, oracle),
+    ten_pct_within_4_days: within(['section -10%', 'row -10%', 'tier -10%'], 4 * day, oracle),
+    slide_before_15_pct: within(['slide 1.5%/day'], 10 * day, oracle),
   };
   const targets: Record<string, { value: number; target: string; met: boolean }> = {
     false_per_house_week: {
@@ -748,11 +756,15 @@ function main(): void {
   console.log('targets:');
   for (const [name, t] of Object.entries(targets))
     console.log(
-      `  ${t.met ? '✓' : '✗'} ${name.padEnd(28)} ${t.value.toFixed(3).padStart(8)}  (${t.target})`,
+      `  ${t.met ? '✓' : '✗'} ${name.padEnd(28)} ${t.value.toFixed(3).padStart(8)}  (${t.target})` +
+        (name in oracleWithin ? `   oracle ${(oracleWithin[name] ?? 0).toFixed(3)}` : ''),
     );
   console.log(
     JSON.stringify({
       bench: 'detect',
+      oracle_targets: Object.fromEntries(
+        Object.entries(oracleWithin).map(([k, v]) => [k, Math.round(v * 1000) / 1000]),
+      ),
       targets: Object.fromEntries(
         Object.entries(targets).map(([k, t]) => [
           k,
