@@ -11,11 +11,11 @@ import {
   timestamp,
   unique,
 } from 'drizzle-orm/pg-core';
+import { COUNTER_KINDS } from '@tierscope/domain';
 import { farms } from './farms';
 import { houses } from './houses';
 import { sections } from './sections';
 
-export const COUNTER_KINDS = ['belt', 'collector'] as const;
 export const counterKind = pgEnum('counter_kind', COUNTER_KINDS);
 
 export const counters = pgTable(

@@ -15,25 +15,15 @@ import {
   timestamp,
   uniqueIndex,
 } from 'drizzle-orm/pg-core';
+import {
+  CLOSE_REASONS,
+  EXCEPTION_KINDS,
+  EXCEPTION_SCOPES,
+  EXCEPTION_STATUSES,
+} from '@tierscope/domain';
 import { farms } from './farms';
 import { houses } from './houses';
 import { users } from './users';
-
-export const EXCEPTION_KINDS = [
-  'shortfall',
-  'silent_counter',
-  'collector_gap',
-  'house_dip',
-] as const;
-export const EXCEPTION_SCOPES = ['section', 'row', 'tier', 'house'] as const;
-export const EXCEPTION_STATUSES = ['open', 'acknowledged', 'closed'] as const;
-export const CLOSE_REASONS = [
-  'recovered',
-  'normal_for_spot',
-  'fixed',
-  'false_alarm',
-  'other',
-] as const;
 
 export const exceptionKind = pgEnum('exception_kind', EXCEPTION_KINDS);
 export const exceptionScope = pgEnum('exception_scope', EXCEPTION_SCOPES);

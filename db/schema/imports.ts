@@ -10,11 +10,11 @@ import {
   timestamp,
   unique,
 } from 'drizzle-orm/pg-core';
+import { IMPORT_STATES } from '@tierscope/domain';
 import { farms } from './farms';
 import { houses } from './houses';
 import { users } from './users';
 
-export const IMPORT_STATES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 export const importState = pgEnum('import_state', IMPORT_STATES);
 
 /** One uploaded counter export for a house, from upload through its background run to its summary. */

@@ -1,8 +1,8 @@
 import { index, integer, pgEnum, pgTable, primaryKey } from 'drizzle-orm/pg-core';
+import { ROLES } from '@tierscope/domain';
 import { farms } from './farms';
 import { users } from './users';
 
-export const ROLES = ['admin', 'manager', 'crew', 'integrator'] as const;
 export const role = pgEnum('role', ROLES);
 
 export const memberships = pgTable(

@@ -1,6 +1,7 @@
 import { hash } from '@node-rs/argon2';
 import { sql } from 'drizzle-orm';
 import type { Database } from '../client';
+import { hensAliveSql } from '../hens-alive';
 import { insertHouseWithLayout } from '../house-records';
 import { farms, flocks, memberships, users } from '../schema/index';
 
@@ -117,10 +118,10 @@ function shiftDays(isoDate: string, days: number): string {
 /** Hens alive (housed less the morning walks' dead and culled) and flock age per house, for the simulator. */
 export async function demoFlocks(db: Database, today = new Date()) {
   const rows = await db.select().from(flocks);
-  const losses = await db.execute<{ flock_id: number; lost: string }>(
-    sql`select flock_id, coalesce(sum(dead + culled), 0) as lost from mortality group by flock_id`,
+  const alive = await db.execute<{ id: number; hens: number }>(
+    sql`select id, ${hensAliveSql(sql`id`, sql`hens_housed`, sql`${today.toISOString().slice(0, 10)}::date`)} as hens from flocks`,
   );
-  const lostBy = new Map(losses.rows.map((r) => [r.flock_id, Number(r.lost)]));
+  const hensBy = new Map(alive.rows.map((r) => [r.id, r.hens]));
   return new Map(
     rows
       .filter((f) => f.endedOn === null)
@@ -130,7 +131,7 @@ export async function demoFlocks(db: Database, today = new Date()) {
         return [
           f.houseId,
           {
-            hensHoused: Math.max(1, f.hensHoused - (lostBy.get(f.id) ?? 0)),
+            hensHoused: Math.max(1, hensBy.get(f.id) ?? f.hensHoused),
             flockAgeWeeks: f.ageAtPlacementWeeks + weeksInHouse,
           },
         ];

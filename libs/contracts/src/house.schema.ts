@@ -1,7 +1,11 @@
-import { CLOCK_TIME_PATTERN, isKnownTimeZone, MAX_ROWS, MAX_TIERS } from '@tierscope/domain';
+import {
+  CLOCK_TIME_PATTERN,
+  COUNTER_KINDS,
+  isKnownTimeZone,
+  MAX_ROWS,
+  MAX_TIERS,
+} from '@tierscope/domain';
 import { z } from 'zod';
-
-export const COUNTER_KINDS = ['belt', 'collector'] as const;
 
 export const counterSchema = z.object({
   id: z.number().int(),

@@ -1,4 +1,10 @@
-import { DECIMAL_MARKS, DELIMITERS, isKnownTimeZone, TIMESTAMP_FORMATS } from '@tierscope/domain';
+import {
+  DECIMAL_MARKS,
+  DELIMITERS,
+  IMPORT_STATES,
+  isKnownTimeZone,
+  TIMESTAMP_FORMATS,
+} from '@tierscope/domain';
 import { z } from 'zod';
 
 /** A column by its header name, or by its 1-based position (files without a header line). */
@@ -61,8 +67,6 @@ export const importMappingSchema = z.discriminatedUnion('layout', [
 ]);
 export type ImportMapping = z.output<typeof importMappingSchema>;
 export type ImportMappingInput = z.input<typeof importMappingSchema>;
-
-export const IMPORT_STATES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 
 export const importErrorSchema = z.object({
   line: z.number().int(),

@@ -1,10 +1,13 @@
-import { EXCEPTION_KINDS, EXCEPTION_SCOPES, WINDOW_KINDS } from '@tierscope/domain';
+import {
+  EXCEPTION_KINDS,
+  EXCEPTION_SCOPES,
+  EXCEPTION_STATUSES,
+  IMPORT_STATES,
+  PERSON_CLOSE_REASONS,
+  WINDOW_KINDS,
+} from '@tierscope/domain';
 import { z } from 'zod';
 import { calendarDay, dbId, idParam, instant } from './primitives.schema';
-
-export const EXCEPTION_STATUSES = ['open', 'acknowledged', 'closed'] as const;
-/** Reasons a person may close an exception with; `recovered` is the engine's own. */
-export const PERSON_CLOSE_REASONS = ['normal_for_spot', 'fixed', 'false_alarm', 'other'] as const;
 
 export const mapQuerySchema = z
   .object({
@@ -122,7 +125,7 @@ export const liveServerMessageSchema = z.discriminatedUnion('type', [
     houseId: z.number().int(),
     import: z.object({
       id: z.number().int(),
-      state: z.enum(['queued', 'running', 'done', 'failed', 'cancelled']),
+      state: z.enum(IMPORT_STATES),
       linesRead: z.number().int(),
       readingsAdded: z.number().int(),
       duplicates: z.number().int(),

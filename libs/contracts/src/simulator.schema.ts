@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { COUNTER_KINDS } from './house.schema';
+import { COUNTER_KINDS } from '@tierscope/domain';
 
 /** What the simulator needs to stand in for one farm's gateway: where to send, its key, and the houses. */
 export const simulatorFarmSchema = z.object({

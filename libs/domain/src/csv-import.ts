@@ -217,3 +217,7 @@ export function parseTimestamp(
   }
   return { ok: true, value: wallTimeToInstant(wall, timeZone) };
 }
+
+/** Where an import is, from upload to its end. */
+export const IMPORT_STATES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
+export type ImportState = (typeof IMPORT_STATES)[number];

@@ -33,3 +33,7 @@ export function defaultBeltCounterId(houseId: number, position: SectionPosition)
 export function defaultCollectorCounterId(houseId: number): string {
   return `H${houseId}-COLLECTOR`;
 }
+
+/** A belt counter counts one section's egg belt; the collector counts the whole house. */
+export const COUNTER_KINDS = ['belt', 'collector'] as const;
+export type CounterKind = (typeof COUNTER_KINDS)[number];

@@ -26,6 +26,13 @@ export const EXCEPTION_KIND_LABELS: Record<ExceptionKind, string> = {
 };
 export const EXCEPTION_SCOPES = ['section', 'row', 'tier', 'house'] as const;
 export type ExceptionScope = (typeof EXCEPTION_SCOPES)[number];
+export const EXCEPTION_STATUSES = ['open', 'acknowledged', 'closed'] as const;
+export type ExceptionStatus = (typeof EXCEPTION_STATUSES)[number];
+/** Reasons a person may close an exception with. */
+export const PERSON_CLOSE_REASONS = ['normal_for_spot', 'fixed', 'false_alarm', 'other'] as const;
+/** Every way an exception ends: a person's reasons, and `recovered`, the engine's own. */
+export const CLOSE_REASONS = ['recovered', ...PERSON_CLOSE_REASONS] as const;
+export type CloseReason = (typeof CLOSE_REASONS)[number];
 
 export const sectionKey = (row: number, tier: number) => `${row}:${tier}`;
 

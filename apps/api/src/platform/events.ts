@@ -1,3 +1,4 @@
+import type { ImportState } from '@tierscope/domain';
 import { EventEmitter } from 'node:events';
 import type { schema } from '@tierscope/db';
 
@@ -25,7 +26,7 @@ export interface DomainEvents {
     id: number;
     farmId: number;
     houseId: number;
-    state: 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
+    state: ImportState;
     linesRead: number;
     readingsAdded: number;
     duplicates: number;

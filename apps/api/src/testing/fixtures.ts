@@ -1,6 +1,6 @@
 import { hash } from '@node-rs/argon2';
 import { insertHouseWithLayout, schema, type Database } from '@tierscope/db';
-import type { Role } from '@tierscope/domain';
+import type { ExceptionStatus, Role } from '@tierscope/domain';
 import { ROLES } from '@tierscope/domain';
 
 export const FIXTURE_PASSWORD = 'correct horse battery';
@@ -74,7 +74,7 @@ export async function insertTestException(
     row?: number | null;
     tier?: number | null;
     isLearning?: boolean;
-    status?: 'open' | 'acknowledged' | 'closed';
+    status?: ExceptionStatus;
   },
 ) {
   exceptionSeconds += 1;

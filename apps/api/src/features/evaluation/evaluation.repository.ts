@@ -1,9 +1,8 @@
-import { schema, type Queryable } from '@tierscope/db';
+import { hensAliveSql, schema, type Queryable } from '@tierscope/db';
 import type { Streak, Verdict } from '@tierscope/domain';
 import { and, asc, desc, eq, gte, inArray, isNull, lte, ne, or, sql, type SQL } from 'drizzle-orm';
 
-const { houses, sections, counters, exceptions, houseEvaluations, flocks, mortality, users } =
-  schema;
+const { houses, sections, counters, exceptions, houseEvaluations, flocks, users } = schema;
 
 export type HouseRow = typeof houses.$inferSelect;
 export type ExceptionRow = typeof exceptions.$inferSelect;
@@ -122,9 +121,7 @@ export async function counterEggsSince(
 /** Hens alive on each day of a range for the house's current flock (housed minus dead and culled before that day). */
 export async function hensAlive(db: Queryable, houseId: number, firstDay: string, lastDay: string) {
   const result = await db.execute<{ day: string; hens: number }>(sql`
-    SELECT d::date::text AS day,
-           (f.hens_housed - coalesce((SELECT sum(m.dead + m.culled) FROM ${mortality} m
-              WHERE m.flock_id = f.id AND m.date < d::date), 0))::int AS hens
+    SELECT d::date::text AS day, ${hensAliveSql(sql`f.id`, sql`f.hens_housed`, sql`d::date`)} AS hens
     FROM generate_series(${firstDay}::date, ${lastDay}::date, interval '1 day') d
     JOIN ${flocks} f ON f.house_id = ${houseId} AND f.placed_on <= d::date AND (f.ended_on IS NULL OR f.ended_on >= d::date)`);
   return new Map(result.rows.map((r) => [r.day, r.hens]));

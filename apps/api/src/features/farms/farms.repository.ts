@@ -1,4 +1,5 @@
 import { schema, type Queryable } from '@tierscope/db';
+import type { Role } from '@tierscope/domain';
 import { asc, eq, inArray, sql } from 'drizzle-orm';
 
 const { farms, houses, memberships } = schema;
@@ -49,7 +50,7 @@ export async function addMembership(
   db: Queryable,
   userId: number,
   farmId: number,
-  role: (typeof schema.ROLES)[number],
+  role: Role,
 ): Promise<void> {
   await db.insert(memberships).values({ userId, farmId, role });
 }

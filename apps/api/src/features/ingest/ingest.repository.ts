@@ -1,3 +1,4 @@
+import type { CounterKind } from '@tierscope/domain';
 import { schema, type Queryable } from '@tierscope/db';
 import { and, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import { rollupCtes } from './rollup-ctes';
@@ -9,7 +10,7 @@ export interface ResolvedCounter {
   externalId: string;
   houseId: number | null;
   sectionId: number | null;
-  kind: 'belt' | 'collector';
+  kind: CounterKind;
 }
 
 /** The farm's counters by external id; ids never seen before are kept as unmapped counters. */

@@ -1,4 +1,4 @@
-import { schema, type Queryable } from '@tierscope/db';
+import { hensAliveSql, schema, type Queryable } from '@tierscope/db';
 import { eq, sql } from 'drizzle-orm';
 
 const { houses, farms } = schema;
@@ -39,8 +39,7 @@ export async function farmDays(db: Queryable, farmId: number, from: string, to: 
       WHERE farm_id = ${farmId} AND day BETWEEN ${from}::date AND ${to}::date)
     SELECT h.id AS house_id, d.day::text AS day,
            coalesce(b.eggs, 0)::int AS belts, coalesce(c.eggs, 0)::int AS collector,
-           (SELECT (f.hens_housed - coalesce((SELECT sum(m.dead + m.culled) FROM mortality m
-                     WHERE m.flock_id = f.id AND m.date < d.day), 0))::int
+           (SELECT ${hensAliveSql(sql`f.id`, sql`f.hens_housed`, sql`d.day`)}
               FROM flocks f WHERE f.house_id = h.id AND f.placed_on <= d.day
                AND (f.ended_on IS NULL OR f.ended_on >= d.day)
               ORDER BY f.placed_on DESC LIMIT 1) AS hens

@@ -1,9 +1,10 @@
+import type { Role } from '@tierscope/domain';
 import { provideHttpClient } from '@angular/common/http';
 import { TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
 import { Shell } from './shell';
 
-function renderAs(role: 'admin' | 'manager' | 'crew' | 'integrator'): HTMLElement {
+function renderAs(role: Role): HTMLElement {
   localStorage.setItem(
     'tierscope.session',
     JSON.stringify({
