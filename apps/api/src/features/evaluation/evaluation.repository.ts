@@ -1,6 +1,7 @@
 import { hensAliveSql, schema, type Queryable } from '@tierscope/db';
-import type { Streak, Verdict } from '@tierscope/domain';
+import type { Streak } from '@tierscope/domain';
 import { and, asc, desc, eq, gte, inArray, isNull, lte, ne, or, sql, type SQL } from 'drizzle-orm';
+import { z } from 'zod';
 
 const { houses, sections, counters, exceptions, houseEvaluations, flocks, users } = schema;
 
@@ -179,7 +180,7 @@ export async function readStreaks(db: Queryable, houseId: number): Promise<Recor
     .select()
     .from(houseEvaluations)
     .where(eq(houseEvaluations.houseId, houseId));
-  return (row?.streaks ?? {}) as Record<string, Streak>;
+  return streaksSchema.parse(row?.streaks ?? {});
 }
 
 /** A house's streaks and engine state, read together (one row). */
@@ -191,7 +192,10 @@ export async function readEvaluation(
     .select({ streaks: houseEvaluations.streaks, engine: houseEvaluations.engine })
     .from(houseEvaluations)
     .where(eq(houseEvaluations.houseId, houseId));
-  return { streaks: (row?.streaks ?? {}) as Record<string, Streak>, engine: row?.engine ?? {} };
+  return {
+    streaks: streaksSchema.parse(row?.streaks ?? {}),
+    engine: engineStateSchema.parse(row?.engine ?? {}),
+  };
 }
 
 /** A house's streaks and engine state, written together (one statement). */
@@ -326,42 +330,65 @@ export async function counterEggsInHours(
   return new Map(result.rows.map((r) => [r.counter_id, r.eggs]));
 }
 
-/** What the engine keeps between evaluations of a house (see evaluation.service). */
-export interface EngineState {
-  /** the production day whose checkpoints were judged, and which */
-  checkpointDay?: string;
-  checkpoints?: number[];
-  /** the last production day judged complete */
-  completeDay?: string;
-  /** that day's eggs with silent sections and short spots filled in at their expected counts */
-  completeDayEggs?: number;
-  /** each spot's CUSUM of complete days */
-  cusum?: Record<string, { sum: number; recent: number[] }>;
-  /** spots seen short once, waiting for a later stage to confirm them: key → judged stages still to wait */
-  pending?: Record<string, number>;
-  /** the house-dip judgement of `day` as of `at` (ms), made on the complete day `completeDay` */
-  henDay?: {
-    day: string;
-    completeDay: string | undefined;
-    at: number;
-    candidate:
-      | (Verdict & {
-          kind: 'house_dip';
-          scope: 'house';
-          row: null;
-          tier: null;
-          isLearning: boolean;
-        })
-      | null;
-  };
-}
+/**
+ * What the engine keeps between evaluations of a house (see evaluation.service), parsed when read: a part
+ * written by an earlier version that no longer fits is dropped (the engine judges afresh), never trusted by
+ * a cast.
+ */
+const engineStateSchema = z
+  .object({
+    /** the production day whose checkpoints were judged, and which */
+    checkpointDay: z.string().optional().catch(undefined),
+    checkpoints: z.array(z.number()).optional().catch(undefined),
+    /** the last production day judged complete */
+    completeDay: z.string().optional().catch(undefined),
+    /** that day's eggs with silent sections and short spots filled in at their expected counts */
+    completeDayEggs: z.number().optional().catch(undefined),
+    /** each spot's CUSUM of complete days */
+    cusum: z
+      .record(z.string(), z.object({ sum: z.number(), recent: z.array(z.number()) }))
+      .optional()
+      .catch(undefined),
+    /** spots seen short once, waiting for a later stage to confirm them: key → judged stages still to wait */
+    pending: z.record(z.string(), z.number()).optional().catch(undefined),
+    /** the house-dip judgement of `day` as of `at` (ms), made on the complete day `completeDay` */
+    henDay: z
+      .object({
+        day: z.string(),
+        completeDay: z.string().optional(),
+        at: z.number(),
+        candidate: z
+          .object({
+            kind: z.literal('house_dip'),
+            scope: z.literal('house'),
+            row: z.null(),
+            tier: z.null(),
+            isLearning: z.boolean(),
+            eggs: z.number(),
+            expected: z.number(),
+            ratio: z.number(),
+            pValue: z.number(),
+            isShort: z.boolean(),
+            isRecovered: z.boolean(),
+          })
+          .nullable(),
+      })
+      .optional()
+      .catch(undefined),
+  })
+  .catch({});
+export type EngineState = z.infer<typeof engineStateSchema>;
+
+const streaksSchema = z
+  .record(z.string(), z.object({ short: z.number(), recovered: z.number(), isOpen: z.boolean() }))
+  .catch({});
 
 export async function readEngine(db: Queryable, houseId: number): Promise<EngineState> {
   const [row] = await db
     .select({ engine: houseEvaluations.engine })
     .from(houseEvaluations)
     .where(eq(houseEvaluations.houseId, houseId));
-  return row?.engine ?? {};
+  return engineStateSchema.parse(row?.engine ?? {});
 }
 
 export async function writeEngine(db: Queryable, houseId: number, engine: EngineState, at: Date) {

@@ -144,6 +144,7 @@ export interface EvaluationService {
 const CACHE_MS = 30_000;
 
 /** The hen-day % a house's flock is expected to lay on a day, from its fitted lay curve (flocks feature). */
+/** What the engine asks of a house's flock: the hen-day % its fitted curve expects on a day (flocks/flock-curves). */
 export interface ExpectedLay {
   expectedHenDayPct(houseId: number, day: string): Promise<number | null>;
 }

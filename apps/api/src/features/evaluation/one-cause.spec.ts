@@ -7,6 +7,7 @@ import { seedFixture, type Fixture } from '../../testing/fixtures';
 import { bearerFor } from '../../testing/sign-in';
 import { createTestApp, createTestRuntime } from '../../testing/test-app';
 import { countersOfHouse } from '../houses/houses.repository';
+import { readEvaluation } from './evaluation.repository';
 
 /**
  * One cause, one alarm, on the real database: a dead belt counter is a silent counter only (no shortfall of
@@ -159,5 +160,23 @@ describe('one cause, one alarm', () => {
       )
     ).rows[0]?.engine;
     expect(engine?.checkpoints).toEqual([0, 1]);
+  });
+
+  it('reads the engine state it kept by its schema: a part an earlier version wrote differently is dropped', async () => {
+    const houseId = fixture.houseB;
+    await database.db.execute(sql`
+      update house_evaluations set engine = ${JSON.stringify({
+        completeDay: 20261101,
+        pending: ['section:1:1'],
+        checkpoints: [0, 1],
+        cusum: { 'section:1:1': { sum: -2, recent: [-0.05] } },
+      })}::jsonb, streaks = ${JSON.stringify({ x: { short: 'two' } })}::jsonb
+      where house_id = ${houseId}`);
+    const { engine, streaks } = await readEvaluation(database.db, houseId);
+    expect(engine.completeDay).toBeUndefined();
+    expect(engine.pending).toBeUndefined();
+    expect(engine.checkpoints).toEqual([0, 1]);
+    expect(engine.cusum).toEqual({ 'section:1:1': { sum: -2, recent: [-0.05] } });
+    expect(streaks).toEqual({});
   });
 });

@@ -1,20 +1,16 @@
 import type { Database } from '@tierscope/db';
 import { addDays, ageInWeeks, compartmentalLay } from '@tierscope/domain';
+import type { ExpectedLay } from '../evaluation/evaluation.service';
 import { findHouse } from '../houses/houses.repository';
 import { flocksOfHouse } from './flocks.repository';
 import { computeProduction } from './flocks.service';
-
-/** What the shortfall engine asks of a house's flock: the hen-day % its fitted curve expects on a day. */
-export interface FlockCurves {
-  expectedHenDayPct(houseId: number, day: string): Promise<number | null>;
-}
 
 /**
  * The fitted lay curve of the flock in a house on a day, when the fit is good enough (domain
  * `isFitGoodEnough`); null otherwise, and the engine falls back to the 7-day average. A fit is made at most
  * once per house per day: it changes only when a day completes.
  */
-export function createFlockCurves(db: Database): FlockCurves {
+export function createFlockCurves(db: Database): ExpectedLay {
   const cache = new Map<string, Promise<number | null>>();
   return {
     expectedHenDayPct(houseId, day) {
