@@ -81,6 +81,12 @@ export function buildOpenApiDocument(version: string) {
       responses: { 200: ok(healthSchema), 503: ok(healthSchema, 'Database down') },
     },
     {
+      method: 'get',
+      path: '/api/v1/openapi.json',
+      summary: 'This document (OpenAPI 3.1)',
+      responses: { 200: { description: 'The OpenAPI document' } },
+    },
+    {
       method: 'post',
       path: '/api/v1/auth/login',
       summary: 'Sign in',
@@ -487,6 +493,7 @@ export function buildOpenApiDocument(version: string) {
   for (const route of routes) {
     const isPublic =
       route.path === '/api/health' ||
+      route.path === '/api/v1/openapi.json' ||
       ['login', 'forgot', 'set-password'].some((p) => route.path === `/api/v1/auth/${p}`);
     const isGateway = route.path === '/api/v1/ingest/readings';
     const parameters = [...route.path.matchAll(/\{(\w+)\}/g)].map((m) => ({

@@ -1,0 +1,62 @@
+import { createTestDatabase } from '@tierscope/db/testing';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createTestApp } from '../testing/test-app';
+import { buildOpenApiDocument } from './openapi';
+
+/**
+ * The OpenAPI document and the Express router list the same routes, both ways: a route mounted but not
+ * documented (integrators cannot find it, the robustness corpus never walks it) or documented but not
+ * mounted fails here, naming it.
+ */
+interface RouterLayer {
+  route?: { path: string | string[]; methods: Record<string, boolean> };
+  handle?: { stack?: RouterLayer[] };
+  rawPath?: string | string[];
+  slash?: boolean;
+}
+
+function mountedRoutes(stack: readonly RouterLayer[], prefix = ''): string[] {
+  const found: string[] = [];
+  for (const layer of stack) {
+    if (layer.route) {
+      const paths = Array.isArray(layer.route.path) ? layer.route.path : [layer.route.path];
+      for (const method of Object.keys(layer.route.methods).filter((m) => m !== '_all'))
+        for (const path of paths) found.push(`${method.toUpperCase()} ${prefix}${path}`);
+    } else if (layer.handle?.stack) {
+      const mount = layer.slash || typeof layer.rawPath !== 'string' ? '' : layer.rawPath;
+      found.push(...mountedRoutes(layer.handle.stack, prefix + mount));
+    }
+  }
+  return found;
+}
+
+let database: Awaited<ReturnType<typeof createTestDatabase>>;
+beforeAll(async () => {
+  database = await createTestDatabase();
+});
+afterAll(async () => {
+  await database.drop();
+});
+
+describe('the OpenAPI document against the mounted routes', () => {
+  it('lists every mounted route and nothing else', () => {
+    const app = createTestApp(database.db) as unknown as { router: { stack: RouterLayer[] } };
+    const mounted = new Set(
+      mountedRoutes(app.router.stack).map((r) => r.replace(/:(\w+)/g, '{$1}')),
+    );
+    const document = buildOpenApiDocument('test') as { paths: Record<string, object> };
+    const documented = new Set(
+      Object.entries(document.paths).flatMap(([path, methods]) =>
+        Object.keys(methods).map((method) => `${method.toUpperCase()} ${path}`),
+      ),
+    );
+    expect(
+      [...mounted].filter((r) => !documented.has(r)).sort(),
+      'mounted, not documented',
+    ).toEqual([]);
+    expect(
+      [...documented].filter((r) => !mounted.has(r)).sort(),
+      'documented, not mounted',
+    ).toEqual([]);
+  });
+});
