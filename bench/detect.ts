@@ -545,6 +545,7 @@ const round1 = (v: number | null) => (v === null ? null : Math.round(v * 10) / 1
 function main(): void {
   const started = Date.now();
   const runs: { planted: Planted; result: HouseResult; size: string }[] = [];
+  const deadMissedShare: number[] = [];
   for (const [rows, tiers] of SIZES) {
     for (const kind of FAULT_KINDS) {
       for (let seed = 1; seed <= SEEDS; seed++) {
@@ -575,6 +576,29 @@ function main(): void {
               e.slot % SLOTS_PER_DAY,
               classify(e, planted),
             );
+        }
+        // A dead counter: the eggs its section laid between the onset and the alarm, as a share of a day's —
+        // how much went uncounted before anyone was told (time alone says little when few eggs are due).
+        if (kind === 'dead counter') {
+          const found = result.events.find(
+            (e) =>
+              e.kind === 'silent_counter' &&
+              e.key === spotKeyOf('section', planted.row, planted.tier) &&
+              e.slot >= planted.onsetSlot,
+          );
+          if (found) {
+            let missed = 0;
+            let daily = 0;
+            for (let slot = planted.onsetSlot; slot < found.slot; slot++) {
+              const simDay = house.dayData(Math.floor(slot / SLOTS_PER_DAY));
+              const section = simDay.sections.find(
+                (x) => x.row === planted.row && x.tier === planted.tier,
+              );
+              missed += section?.laid[slot % SLOTS_PER_DAY] ?? 0;
+              daily = section?.expectedWithoutFault ?? daily;
+            }
+            if (daily > 0) deadMissedShare.push(missed / daily);
+          }
         }
         runs.push({ planted, result, size: `${rows}×${tiers}` });
       }
@@ -752,6 +776,10 @@ function main(): void {
         engine.falsePerHouseWeek < naive.falsePerHouseWeek && recallOf(engine) >= recallOf(naive),
     },
   };
+  console.log(
+    `dead counters: eggs laid but not counted before the alarm, as a share of the section's day: median ` +
+      `${((percentile(deadMissedShare, 50) ?? 0) * 100).toFixed(1)} %, p90 ${((percentile(deadMissedShare, 90) ?? 0) * 100).toFixed(1)} %`,
+  );
   console.log('');
   console.log('targets:');
   for (const [name, t] of Object.entries(targets))
@@ -772,6 +800,8 @@ function main(): void {
         ]),
       ),
       house_weeks: houseWeeks,
+      dead_counter_missed_share_median:
+        Math.round((percentile(deadMissedShare, 50) ?? 0) * 1000) / 1000,
       false_per_house_week: Math.round(engine.falsePerHouseWeek * 1000) / 1000,
       false_by_kind: Object.fromEntries(engine.falseByKind),
       recall,
