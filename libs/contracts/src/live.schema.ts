@@ -34,6 +34,10 @@ export const mapCellSchema = z.object({
   exceptionId: z.number().int().nullable(),
   exceptionKind: z.enum(EXCEPTION_KINDS).nullable(),
   isLearning: z.boolean(),
+  /** today: the time of this section's newest reading (its data horizon); null for other windows */
+  dataUntil: z.iso.datetime().nullable(),
+  /** today: its counter's data is more than 30 min behind the house's newest (a late gateway or cable) */
+  isDataLate: z.boolean(),
 });
 export type MapCell = z.infer<typeof mapCellSchema>;
 

@@ -90,6 +90,8 @@ const rowKey = (e: Pick<ExceptionRow, 'kind' | 'scope' | 'row' | 'tier'>) =>
  */
 /** A counter's data counts as up to a checkpoint when its newest reading is at most this much older. */
 const DATA_LATE_SLACK_MS = 20 * 60_000;
+/** A section whose data is this far behind its house's newest is shown as late on the map. */
+const DATA_LATE_MAP_MS = 30 * 60_000;
 /** How long the house-dip judgement of a day is kept before it is read again. */
 const HEN_DAY_REFRESH_MS = 3_600_000;
 /** How long a checkpoint waits for late counters before it is judged without them. */
@@ -894,7 +896,15 @@ export function createEvaluationService(
         (e) => e.kind !== 'collector_gap' && e.kind !== 'house_dip',
       );
       const kindRank: Record<string, number> = { silent_counter: 0, shortfall: 1 };
+      // Today: each section's data horizon, and whether it is well behind the house's newest.
+      const horizons =
+        window.kind === 'today'
+          ? await beltHorizons(db, house.farmId, house.id, window.from)
+          : new Map<number, Date>();
+      const newest = Math.max(0, ...[...horizons.values()].map((d) => d.getTime()));
+      const sectionIdOf = new Map(layout.sections.map((s) => [sectionKey(s.row, s.tier), s.id]));
       const cells = judged.cells.map((cell) => {
+        const horizon = horizons.get(sectionIdOf.get(sectionKey(cell.row, cell.tier)) ?? -1);
         const covering = overlapping
           .filter((e) => coveredSections(e, layout).includes(sectionKey(cell.row, cell.tier)))
           .sort(
@@ -909,6 +919,11 @@ export function createEvaluationService(
           exceptionId: top?.id ?? null,
           exceptionKind: top?.kind ?? null,
           isLearning: top?.isLearning ?? false,
+          dataUntil: horizon?.toISOString() ?? null,
+          isDataLate:
+            window.kind === 'today' &&
+            newest > 0 &&
+            newest - (horizon?.getTime() ?? 0) > DATA_LATE_MAP_MS,
         };
       });
       const belts = current.reduce((n, s) => n + s.eggs, 0);

@@ -150,6 +150,11 @@ describe('one cause, one alarm', () => {
     await runtime.evaluation.evaluateNow(fixture.houseB, new Date(now.getTime() - 60_000));
     await runtime.evaluation.evaluateNow(fixture.houseB, now);
     expect(await openExceptions(fixture.houseB)).toEqual([]);
+    // The map says which sections' data is late, and up to when it has counted.
+    const map = await runtime.evaluation.buildMap(fixture.houseB, 'today', now);
+    const late = map?.cells.filter((c) => c.isDataLate).map((c) => `${c.row}:${c.tier}`);
+    expect(late).toEqual(['2:1', '2:2', '2:3']);
+    expect(map?.cells.find((c) => c.row === 2 && c.tier === 1)?.dataUntil).toBe(cut);
     // The backlog arrives: the waiting checkpoints are judged on the whole data, and nothing is short.
     await ingest(onTime, keyB);
     await runtime.evaluation.evaluateNow(fixture.houseB, new Date(now.getTime() + 60_000));

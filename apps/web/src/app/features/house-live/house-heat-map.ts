@@ -1,5 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
 import type { HouseMap, MapCell } from '@tierscope/contracts';
+import { houseTime } from '../../shared/ui/local-dates';
 import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
 import {
@@ -108,7 +109,7 @@ export class HouseHeatMap {
         label: {
           color: textOn(p),
           fontWeight: hasException ? 600 : 400,
-          formatter: `${hasException ? '▲ ' : ''}${cell.eggs === null ? 'no data' : cell.eggs.toLocaleString()}\n${p === null ? '—' : `${p} %`}`,
+          formatter: `${hasException ? '▲ ' : ''}${cell.eggs === null ? 'no data' : cell.eggs.toLocaleString()}\n${p === null ? '—' : `${p} %`}${cell.isDataLate ? '\ndata late' : ''}`,
         },
       };
     });
@@ -120,7 +121,11 @@ export class HouseHeatMap {
         formatter: (params: { data: { cell: MapCell } }) => {
           const c = params.data.cell;
           const expected = c.expected === null ? '—' : Math.round(c.expected).toLocaleString();
-          return `Row ${c.row}, tier ${c.tier}<br>Eggs ${c.eggs ?? '—'} · expected ${expected}<br>${c.exceptionKind ? (c.exceptionKind === 'silent_counter' ? 'Silent counter' : 'Shortfall') + (c.isLearning ? ' (learning)' : '') : 'No exception'}`;
+          const late =
+            c.isDataLate && c.dataUntil
+              ? `<br>Data late: counted up to ${houseTime(c.dataUntil, map.timezone)}`
+              : '';
+          return `Row ${c.row}, tier ${c.tier}<br>Eggs ${c.eggs ?? '—'} · expected ${expected}<br>${c.exceptionKind ? (c.exceptionKind === 'silent_counter' ? 'Silent counter' : 'Shortfall') + (c.isLearning ? ' (learning)' : '') : 'No exception'}${late}`;
         },
       },
       xAxis: {
