@@ -115,4 +115,16 @@ describe('the house live page', () => {
     await screenshot(page, 'exceptions');
     await page.close();
   });
+
+  it('says so when a house does not exist, instead of loading forever', async () => {
+    const page = await harness.browser.newPage({ viewport: { width: 390, height: 800 } });
+    await signIn(page, harness.baseUrl, 'manager@bramblewood.test');
+    await page.waitForURL(/\/farms$/);
+    await page.goto(`${harness.baseUrl}/houses/999999`);
+    const alert = page.getByRole('alert').filter({ hasText: /not found/i });
+    await alert.waitFor();
+    expect(await page.getByText('Loading the house map…').count()).toBe(0);
+    await screenshot(page, 'house-not-found-phone');
+    await page.close();
+  });
 });

@@ -81,10 +81,12 @@ export class HouseLivePage {
     { parse: (v) => z.array(exceptionSchema).parse(v) },
   );
 
+  // A resource in error throws from value(): read it only when it has one, so a 404 shows its error state.
+  private readonly fetchedMap = computed(() =>
+    this.fetched.hasValue() ? this.fetched.value() : null,
+  );
   protected readonly map = computed(() =>
-    this.windowKind() === 'today'
-      ? (this.liveMap() ?? this.fetched.value() ?? null)
-      : (this.fetched.value() ?? null),
+    this.windowKind() === 'today' ? (this.liveMap() ?? this.fetchedMap()) : this.fetchedMap(),
   );
   protected readonly state = computed(() => {
     if (this.map()) return 'ready';
@@ -116,7 +118,7 @@ export class HouseLivePage {
     return `${time} ${zone}`;
   });
   protected readonly houseExceptions = computed(() =>
-    (this.exceptions.value() ?? []).filter(
+    (this.exceptions.hasValue() ? this.exceptions.value() : []).filter(
       (e) => e.scope === 'house' || e.scope === 'row' || e.scope === 'tier',
     ),
   );
