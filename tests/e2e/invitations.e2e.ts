@@ -57,10 +57,14 @@ describe('invitations and forgotten passwords', () => {
     const page = await harness.browser.newPage({ viewport: { width: 390, height: 800 } });
     await page.goto(`${harness.baseUrl}/sign-in`);
     await page.getByRole('link', { name: 'Forgot your password?' }).click();
+    // Under load the sign-in page may still be on screen (a click before the app started loads the page
+    // anew): fill the form only once the forgotten-password page is there.
+    await page.getByRole('heading', { name: 'Forgot your password?' }).waitFor();
     await page.getByLabel('E-mail').fill('nobody@bramblewood.test');
     await page.getByRole('button', { name: 'Mail me a link' }).click();
     const unknown = await page.getByRole('status').textContent();
     await page.goto(`${harness.baseUrl}/forgot-password`);
+    await page.getByRole('heading', { name: 'Forgot your password?' }).waitFor();
     await page.getByLabel('E-mail').fill('crew@bramblewood.test');
     await page.getByRole('button', { name: 'Mail me a link' }).click();
     expect(await page.getByRole('status').textContent()).toBe(unknown);
