@@ -7,7 +7,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { z } from 'zod';
 import type { Runtime } from '../../apps/api/src/app';
-import { bearerFor } from '../../apps/api/src/testing/sign-in';
+import { bearerFor, gatewayKeyFor, postReadings } from '../../apps/api/src/testing/sign-in';
 import { createTestApp, createTestRuntime } from '../../apps/api/src/testing/test-app';
 import {
   DEMO_FAULTS,
@@ -59,12 +59,7 @@ beforeAll(async () => {
   const sections = await db.select().from(schema.sections);
   const counters = await db.select().from(schema.counters);
   for (const farm of await db.select().from(schema.farms)) {
-    const key = (
-      await request(app)
-        .post(`/api/v1/farms/${farm.id}/gateways`)
-        .set('Authorization', admin)
-        .send({ name: 'Demo simulator' })
-    ).body.key as string;
+    const key = await gatewayKeyFor(app, admin, farm.id, 'Demo simulator');
     const models = houses
       .filter((h) => h.farmId === farm.id)
       .map((h) => {
@@ -74,21 +69,11 @@ beforeAll(async () => {
         });
         return new RealisticHouseModel(house, { seed: DEMO_SIMULATOR_SEED, start: START, faults });
       });
-    let batch: Reading[] = [];
-    const send = async () => {
-      const response = await request(app)
-        .post('/api/v1/ingest/readings')
-        .set('Authorization', `Bearer ${key}`)
-        .send({ readings: batch });
-      expect(response.status).toBe(200);
-      batch = [];
-    };
-    for (let t = backfillFrom.getTime() + SLOT_MS; t <= START.getTime(); t += SLOT_MS) {
+    const readings: Reading[] = [];
+    for (let t = backfillFrom.getTime() + SLOT_MS; t <= START.getTime(); t += SLOT_MS)
       for (const model of models)
-        batch.push(...model.readingsFor(new Date(t - SLOT_MS), new Date(t)));
-      if (batch.length >= 5000) await send();
-    }
-    if (batch.length > 0) await send();
+        readings.push(...model.readingsFor(new Date(t - SLOT_MS), new Date(t)));
+    await postReadings(app, key, readings);
   }
   // Every day replayed, as the scheduler does after a backfill: checkpoints and complete days in order.
   // The day under way at START is left to the live evaluation (a replay judges whole days and checkpoints).

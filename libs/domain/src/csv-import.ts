@@ -3,6 +3,7 @@
  * timestamp say, and which counter a line belongs to. Pure functions; the API streams the file through
  * csv-parse and applies these to each record.
  */
+import { localParts } from './production-day';
 
 export const DELIMITERS = [',', ';', '\t'] as const;
 export type Delimiter = (typeof DELIMITERS)[number];
@@ -80,7 +81,6 @@ export function parseCount(cell: string, decimal: DecimalMark): Parsed<number> {
   return { ok: true, value };
 }
 
-const offsetFormatters = new Map<string, Intl.DateTimeFormat>();
 const offsetCache = new Map<string, number>();
 
 /** Minutes the zone is ahead of UTC at an instant (cached per zone and UTC hour: offsets change on the hour). */
@@ -89,23 +89,9 @@ function zoneOffsetMinutes(utcMs: number, timeZone: string): number {
   const key = `${timeZone}|${hour}`;
   const cached = offsetCache.get(key);
   if (cached !== undefined) return cached;
-  let formatter = offsetFormatters.get(timeZone);
-  if (!formatter) {
-    formatter = new Intl.DateTimeFormat('en-US', {
-      timeZone,
-      hourCycle: 'h23',
-      year: 'numeric',
-      month: 'numeric',
-      day: 'numeric',
-      hour: 'numeric',
-      minute: 'numeric',
-    });
-    offsetFormatters.set(timeZone, formatter);
-  }
   const at = hour * 3_600_000;
-  const parts = formatter.formatToParts(new Date(at));
-  const get = (type: string) => Number(parts.find((p) => p.type === type)?.value);
-  const shown = Date.UTC(get('year'), get('month') - 1, get('day'), get('hour'), get('minute'));
+  const local = localParts(new Date(at), timeZone);
+  const shown = Date.UTC(local.year, local.month - 1, local.day, local.hour, local.minute);
   const offset = Math.round((shown - at) / 60_000);
   if (offsetCache.size > 100_000) offsetCache.clear();
   offsetCache.set(key, offset);

@@ -206,11 +206,10 @@ export function judgeStage(input: StageInput): StageJudgement {
   for (const s of all.filter((x) => x.scope === 'tier')) {
     if (s.isShort || open.has(s.key)) shortTiers.add(s.tier ?? 0);
   }
-  const found = all.filter((s) => {
-    if (!s.isShort) return false;
-    if (s.scope !== 'section') return true;
-    return !shortRows.has(s.row ?? 0) && !shortTiers.has(s.tier ?? 0);
-  });
+  // A short row or tier absorbs its sections.
+  const isAbsorbed = (s: SpotJudgement) =>
+    s.scope === 'section' && (shortRows.has(s.row ?? 0) || shortTiers.has(s.tier ?? 0));
+  const found = all.filter((s) => s.isShort && !isAbsorbed(s));
   // One unusual judgement is not yet an alarm: a spot seen short for the first time is held until one of
   // the next CONFIRM_WITHIN_STAGES judged stages (checkpoints and complete days) says so too — unless it is
   // far outside its wobble (CONFIRM_AT_ONCE_Z), a slow slide (the CUSUM has seen days of it), or already
@@ -219,8 +218,6 @@ export function judgeStage(input: StageInput): StageJudgement {
   // by chance stay rare. A spot back within half the threshold is no longer held.
   const pendingBefore = input.pending ?? new Map<string, number>();
   const pending = new Map<string, number>();
-  const isAbsorbed = (s: SpotJudgement) =>
-    s.scope === 'section' && (shortRows.has(s.row ?? 0) || shortTiers.has(s.tier ?? 0));
   const confirmedNow: SpotJudgement[] = [];
   for (const [key, left] of pendingBefore) {
     const s = spots.get(key);

@@ -82,13 +82,23 @@ export async function sectionEggsBetween(
  * A counter whose gateway is late has an old horizon; a dead counter still sends its zeros.
  */
 export async function beltHorizons(db: Queryable, farmId: number, houseId: number, since: Date) {
-  const result = await db.execute<{ section_id: number; last_ts: string }>(sql`
-    SELECT c.section_id, max(r.ts) AS last_ts
-    FROM readings r JOIN counters c ON c.id = r.counter_id
-    WHERE r.farm_id = ${farmId} AND c.house_id = ${houseId} AND c.kind = 'belt' AND c.section_id IS NOT NULL
-      AND r.ts > ${since.toISOString()}::timestamptz
-    GROUP BY c.section_id`);
-  return new Map(result.rows.map((r) => [r.section_id, new Date(r.last_ts)]));
+  // One backward step down the readings key per counter (farm, counter, ts), not a scan of the day's rows:
+  // the map asks for this on every live frame.
+  const result = await db.execute<{ section_id: number; last_ts: string | null }>(sql`
+    SELECT c.section_id,
+           (SELECT max(r.ts) FROM readings r
+             WHERE r.farm_id = ${farmId} AND r.counter_id = c.id
+               AND r.ts > ${since.toISOString()}::timestamptz) AS last_ts
+    FROM counters c
+    WHERE c.house_id = ${houseId} AND c.kind = 'belt' AND c.section_id IS NOT NULL`);
+  const horizons = new Map<number, Date>();
+  for (const r of result.rows) {
+    if (r.last_ts === null) continue;
+    const at = new Date(r.last_ts);
+    const known = horizons.get(r.section_id);
+    if (!known || at > known) horizons.set(r.section_id, at);
+  }
+  return horizons;
 }
 
 export async function collectorTotal(

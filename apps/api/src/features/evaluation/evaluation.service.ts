@@ -83,13 +83,23 @@ const spotKey = (c: Pick<Candidate, 'kind' | 'scope' | 'row' | 'tier'>) =>
 const rowKey = (e: Pick<ExceptionRow, 'kind' | 'scope' | 'row' | 'tier'>) =>
   `${e.kind}|${findingKey(e)}`;
 
-/**
- * Whether an exception keeps a production day out of the spots' learned usual level: it was open that day,
- * and it is a shortfall or a silent counter (a house-level kind says nothing about one spot), unless a person
- * closed it as normal for this spot (then its days are the spot's normal).
- */
 /** A counter's data counts as up to a checkpoint when its newest reading is at most this much older. */
 const DATA_LATE_SLACK_MS = 20 * 60_000;
+/** How long a house's layout and its past days' baseline may be reused between evaluations and frames. */
+const CACHE_MS = 30_000;
+/** What a house's read-mostly figures are kept for, by key, for CACHE_MS. */
+type Cache<T> = Map<string, { at: number; value: Promise<T> }>;
+
+/** A cached value while it is fresh, else loaded anew (a failed load is not kept). */
+function remembered<T>(cache: Cache<T>, key: string, load: () => Promise<T>): Promise<T> {
+  const hit = cache.get(key);
+  if (hit && Date.now() - hit.at < CACHE_MS) return hit.value;
+  const value = load();
+  cache.set(key, { at: Date.now(), value });
+  value.catch(() => cache.delete(key));
+  return value;
+}
+
 /** A section whose data is this far behind its house's newest is shown as late on the map. */
 const DATA_LATE_MAP_MS = 30 * 60_000;
 /** How long the house-dip judgement of a day is kept before it is read again. */
@@ -97,6 +107,11 @@ const HEN_DAY_REFRESH_MS = 3_600_000;
 /** How long a checkpoint waits for late counters before it is judged without them. */
 const DATA_LATE_WAIT_HOURS = 3;
 
+/**
+ * Whether an exception keeps a production day out of the spots' learned usual level: it was open that day,
+ * and it is a shortfall or a silent counter (a house-level kind says nothing about one spot), unless a person
+ * closed it as normal for this spot (then its days are the spot's normal).
+ */
 function keepsDayOut(e: ExceptionRow, dayStart: Date, dayEnd: Date): boolean {
   if (e.closeReason === 'normal_for_spot' || e.kind === 'collector_gap' || e.kind === 'house_dip')
     return false;
@@ -142,9 +157,6 @@ export interface EvaluationService {
   ): Promise<HouseMap | undefined>;
 }
 
-/** How long a house's layout and its past days' baseline may be reused between evaluations and frames. */
-const CACHE_MS = 30_000;
-
 /** The hen-day % a house's flock is expected to lay on a day, from its fitted lay curve (flocks feature). */
 /** What the engine asks of a house's flock: the hen-day % its fitted curve expects on a day (flocks/flock-curves). */
 export interface ExpectedLay {
@@ -158,9 +170,9 @@ export function createEvaluationService(
 ): EvaluationService {
   // The seven days before today do not change while today runs, so frames and evaluations share them. They
   // are dropped when readings for past days arrive or an exception changes (exceptions shape the baseline).
-  const historyCache = new Map<string, { at: number; days: Promise<HistoryDay[]> }>();
-  const layoutCache = new Map<number, { at: number; layout: Promise<Layout | undefined> }>();
-  const pastCache = new Map<string, { at: number; days: Promise<PastDay[]> }>();
+  const historyCache: Cache<HistoryDay[]> = new Map();
+  const layoutCache: Cache<Layout | undefined> = new Map();
+  const pastCache: Cache<PastDay[]> = new Map();
   const forget = (houseId: number) => {
     for (const key of historyCache.keys())
       if (key.startsWith(`${houseId}|`)) historyCache.delete(key);
@@ -176,22 +188,14 @@ export function createEvaluationService(
     forget(e.houseId);
   });
 
-  async function cachedLayout(houseId: number): Promise<Layout | undefined> {
-    const hit = layoutCache.get(houseId);
-    if (hit && Date.now() - hit.at < CACHE_MS) return hit.layout;
-    const layout = houseLayout(db, houseId);
-    layoutCache.set(houseId, { at: Date.now(), layout });
-    return layout;
+  function cachedLayout(houseId: number): Promise<Layout | undefined> {
+    return remembered(layoutCache, String(houseId), () => houseLayout(db, houseId));
   }
 
-  async function history(layout: Layout, beforeDay: string): Promise<HistoryDay[]> {
-    const key = `${layout.house.id}|${beforeDay}`;
-    const hit = historyCache.get(key);
-    if (hit && Date.now() - hit.at < CACHE_MS) return hit.days;
-    const days = loadHistory(layout, beforeDay);
-    historyCache.set(key, { at: Date.now(), days });
-    days.catch(() => historyCache.delete(key));
-    return days;
+  function history(layout: Layout, beforeDay: string): Promise<HistoryDay[]> {
+    return remembered(historyCache, `${layout.house.id}|${beforeDay}`, () =>
+      loadHistory(layout, beforeDay),
+    );
   }
 
   async function loadHistory(layout: Layout, beforeDay: string): Promise<HistoryDay[]> {
@@ -248,14 +252,10 @@ export function createEvaluationService(
    * the whole day, with the spots that had an exception that day kept out (a fault is never learned as
    * normal; a spot closed as normal for this spot lets its days in). Cached like the old baseline.
    */
-  async function pastDays(layout: Layout, beforeDay: string): Promise<PastDay[]> {
-    const key = `${layout.house.id}|past|${beforeDay}`;
-    const hit = pastCache.get(key);
-    if (hit && Date.now() - hit.at < CACHE_MS) return hit.days;
-    const days = loadPastDays(layout, beforeDay);
-    pastCache.set(key, { at: Date.now(), days });
-    days.catch(() => pastCache.delete(key));
-    return days;
+  function pastDays(layout: Layout, beforeDay: string): Promise<PastDay[]> {
+    return remembered(pastCache, `${layout.house.id}|${beforeDay}`, () =>
+      loadPastDays(layout, beforeDay),
+    );
   }
 
   async function loadPastDays(layout: Layout, beforeDay: string): Promise<PastDay[]> {
@@ -515,7 +515,7 @@ export function createEvaluationService(
       const hoursIntoDay = minutesSinceLightsOn(at, house.timezone, house.lightsOn) / 60;
       const isLight = hoursIntoDay <= house.photoperiodHours;
       // Each section's usual ratio to its tier peers, from its clean complete days.
-      const past = await pastDays(layout, productionDayOf(at, house.timezone, house.lightsOn));
+      const past = await pastDays(layout, day);
       const sectionOf = new Map(layout.sections.map((sec) => [sec.id, sec]));
       for (const belt of belts) {
         const section = sectionOf.get(belt.sectionId ?? -1);

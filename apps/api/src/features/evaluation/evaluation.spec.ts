@@ -7,7 +7,7 @@ import { WebSocket } from 'ws';
 import type { Runtime } from '../../app';
 import { attachLive } from '../../realtime/live';
 import { seedFixture, type Fixture } from '../../testing/fixtures';
-import { bearerFor } from '../../testing/sign-in';
+import { bearerFor, gatewayKeyFor, postReadings } from '../../testing/sign-in';
 import { createTestApp, createTestRuntime } from '../../testing/test-app';
 import { countersOfHouse } from '../houses/houses.repository';
 
@@ -33,14 +33,8 @@ function eggsFor(row: number, tier: number): number {
   return Math.round([90, 120, 105][tier - 1]! * (row === 4 ? 0.92 : 1));
 }
 
-async function ingest(readings: { counter: string; ts: string; eggs: number }[]) {
-  for (let i = 0; i < readings.length; i += 5000) {
-    const response = await request(app)
-      .post('/api/v1/ingest/readings')
-      .set('Authorization', `Bearer ${key}`)
-      .send({ readings: readings.slice(i, i + 5000) });
-    expect(response.status).toBe(200);
-  }
+function ingest(readings: { counter: string; ts: string; eggs: number }[]) {
+  return postReadings(app, key, readings);
 }
 
 /** Hourly readings for every belt and the collector over [fromHour, toHour) after DAY0, skipping the dark. */
@@ -73,13 +67,7 @@ beforeAll(async () => {
   fixture = await seedFixture(database.db);
   runtime = createTestRuntime(database.db);
   app = createTestApp(database.db, { runtime });
-  const admin = await bearerFor(app, fixture.usersA.admin.email);
-  key = (
-    await request(app)
-      .post(`/api/v1/farms/${fixture.farmA}/gateways`)
-      .set('Authorization', admin)
-      .send({ name: 'g' })
-  ).body.key;
+  key = await gatewayKeyFor(app, await bearerFor(app, fixture.usersA.admin.email), fixture.farmA);
   counters = await countersOfHouse(database.db, fixture.houseA);
   // Eight clean days, then today with section row 2 tier 2 laying 20 % less.
   await ingest(hours(0, 8 * 24));
@@ -289,13 +277,12 @@ describe('the exception lifecycle', () => {
 describe('historical evaluation', () => {
   it('finds what history would have raised, and finds it once however often it runs', async () => {
     // Farm B's house: a whole row 15 % short for two past days.
-    const adminB = await bearerFor(app, fixture.adminB.email);
-    const keyB = (
-      await request(app)
-        .post(`/api/v1/farms/${fixture.farmB}/gateways`)
-        .set('Authorization', adminB)
-        .send({ name: 'gB' })
-    ).body.key;
+    const keyB = await gatewayKeyFor(
+      app,
+      await bearerFor(app, fixture.adminB.email),
+      fixture.farmB,
+      'gB',
+    );
     const countersB = await countersOfHouse(database.db, fixture.houseB);
     const readings: { counter: string; ts: string; eggs: number }[] = [];
     for (let h = 0; h < 8 * 24; h++) {
@@ -310,13 +297,7 @@ describe('historical evaluation', () => {
         });
       }
     }
-    for (let i = 0; i < readings.length; i += 5000) {
-      await request(app)
-        .post('/api/v1/ingest/readings')
-        .set('Authorization', `Bearer ${keyB}`)
-        .send({ readings: readings.slice(i, i + 5000) })
-        .expect(200);
-    }
+    await postReadings(app, keyB, readings);
     const first = await runtime.evaluation.evaluateHistory(
       fixture.houseB,
       '2026-11-12',

@@ -1,10 +1,9 @@
 import { createTestDatabase } from '@tierscope/db/testing';
 import { sql } from 'drizzle-orm';
-import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Runtime } from '../../app';
 import { seedFixture, type Fixture } from '../../testing/fixtures';
-import { bearerFor } from '../../testing/sign-in';
+import { bearerFor, gatewayKeyFor, postReadings } from '../../testing/sign-in';
 import { createTestApp, createTestRuntime } from '../../testing/test-app';
 import { countersOfHouse } from '../houses/houses.repository';
 import { readEvaluation } from './evaluation.repository';
@@ -60,14 +59,8 @@ function hours(
   return readings;
 }
 
-async function ingest(readings: { counter: string; ts: string; eggs: number }[], gateway = key) {
-  for (let i = 0; i < readings.length; i += 5000) {
-    const response = await request(app)
-      .post('/api/v1/ingest/readings')
-      .set('Authorization', `Bearer ${gateway}`)
-      .send({ readings: readings.slice(i, i + 5000) });
-    expect(response.status).toBe(200);
-  }
+function ingest(readings: { counter: string; ts: string; eggs: number }[], gateway = key) {
+  return postReadings(app, gateway, readings);
 }
 
 async function openExceptions(houseId = fixture.houseA) {
@@ -88,13 +81,7 @@ beforeAll(async () => {
   fixture = await seedFixture(database.db);
   runtime = createTestRuntime(database.db);
   app = createTestApp(database.db, { runtime });
-  const admin = await bearerFor(app, fixture.usersA.admin.email);
-  key = (
-    await request(app)
-      .post(`/api/v1/farms/${fixture.farmA}/gateways`)
-      .set('Authorization', admin)
-      .send({ name: 'g' })
-  ).body.key;
+  key = await gatewayKeyFor(app, await bearerFor(app, fixture.usersA.admin.email), fixture.farmA);
   counters = await countersOfHouse(database.db, fixture.houseA);
   await ingest(hours(0, (DAYS - 1) * 24, () => 1));
 });
@@ -123,13 +110,11 @@ describe('one cause, one alarm', () => {
   it('a late gateway is neither a silent counter nor a shortfall: its checkpoint waits for the data', async () => {
     // House B1 (farm B, its own gateway): nine clean days, then on day 10 row 2's readings stop after the
     // third hour of light while the other rows' keep coming — what a second gateway running late looks like.
-    const adminB = await bearerFor(app, fixture.adminB.email);
-    const keyB = (
-      await request(app)
-        .post(`/api/v1/farms/${fixture.farmB}/gateways`)
-        .set('Authorization', adminB)
-        .send({ name: 'g' })
-    ).body.key as string;
+    const keyB = await gatewayKeyFor(
+      app,
+      await bearerFor(app, fixture.adminB.email),
+      fixture.farmB,
+    );
     const countersB = await countersOfHouse(database.db, fixture.houseB);
     await ingest(
       hours(0, (DAYS - 1) * 24, () => 1, countersB),

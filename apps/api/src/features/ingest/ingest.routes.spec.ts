@@ -5,7 +5,7 @@ import { productionDayOf } from '@tierscope/domain';
 import { sql } from 'drizzle-orm';
 import { createEventBus, type DomainEvents } from '../../platform/events';
 import { seedFixture, type Fixture } from '../../testing/fixtures';
-import { bearerFor } from '../../testing/sign-in';
+import { bearerFor, gatewayKeyFor } from '../../testing/sign-in';
 import { createTestApp } from '../../testing/test-app';
 import { dropReadingPartitionsBefore } from './ingest.repository';
 
@@ -43,18 +43,8 @@ beforeAll(async () => {
   app = createTestApp(database.db, { events });
   const adminA = await bearerFor(app, fixture.usersA.admin.email);
   const adminB = await bearerFor(app, fixture.adminB.email);
-  keyA = (
-    await request(app)
-      .post(`/api/v1/farms/${fixture.farmA}/gateways`)
-      .set('Authorization', adminA)
-      .send({ name: 'Barn A gateway' })
-  ).body.key;
-  keyB = (
-    await request(app)
-      .post(`/api/v1/farms/${fixture.farmB}/gateways`)
-      .set('Authorization', adminB)
-      .send({ name: 'Barn B gateway' })
-  ).body.key;
+  keyA = await gatewayKeyFor(app, adminA, fixture.farmA, 'Barn A gateway');
+  keyB = await gatewayKeyFor(app, adminB, fixture.farmB, 'Barn B gateway');
   countersA = (
     await request(app).get(`/api/v1/houses/${fixture.houseA}/counters`).set('Authorization', adminA)
   ).body;
