@@ -1,5 +1,5 @@
 /**
- * npm run bench:detect [-- --seeds 3 --weeks 2]
+ * npm run bench:detect [-- --seeds 5 --weeks 2]
  *
  * The quality of Tierscope's exceptions, measured on simulated houses with real-world noise (the realistic
  * simulator: binomial counts, day-to-day section and house noise, persistent differences, lay-time offsets,
@@ -42,7 +42,7 @@ import { generator, hashSeed } from '../simulator/src/random';
 
 const { values } = parseArgs({
   options: {
-    seeds: { type: 'string', default: '3' },
+    seeds: { type: 'string', default: '5' },
     weeks: { type: 'string', default: '2' },
   },
 });
@@ -257,6 +257,32 @@ function layingHours(from: number, to: number): number {
   return (slots * SLOT_MINUTES) / 60;
 }
 
+/**
+ * The laying time between a fault's onset and an alarm: the hours of each day's laying window (the slots
+ * between the first 5 % and the last 5 % of the section's eggs of that day, as its hens laid them) that
+ * passed between the two. A counter that dies in the afternoon tail, or during the dark, has little to miss
+ * until its hens lay again; a dead counter's target ("found within 45 min of laying time") is counted so.
+ */
+function layingWindowHours(house: RealisticHouse, planted: Planted, to: number): number {
+  let slots = 0;
+  for (let d = Math.floor(planted.onsetSlot / SLOTS_PER_DAY); d * SLOTS_PER_DAY < to; d++) {
+    const section = house
+      .dayData(d)
+      .sections.find((x) => x.row === planted.row && x.tier === planted.tier);
+    const laid = section?.laid ?? new Int32Array(SLOTS_PER_DAY);
+    const total = laid.reduce((n, v) => n + v, 0);
+    let sum = 0;
+    for (let k = 0; k < SLOTS_PER_DAY; k++) {
+      const before = sum;
+      sum += laid[k] ?? 0;
+      const slot = d * SLOTS_PER_DAY + k;
+      if (slot < planted.onsetSlot || slot >= to) continue;
+      if (sum > 0.05 * total && before < 0.95 * total) slots += 1;
+    }
+  }
+  return (slots * SLOT_MINUTES) / 60;
+}
+
 /** Cumulative counts by stage of a simulated day, from the slots known (`knownSlots` of the day). */
 function countsOf(day: SimDay, knownSlots: number): SectionCounts[] {
   const stageEnds = [...CHECKPOINT_HOURS.map((h) => (h * 60) / SLOT_MINUTES), SLOTS_PER_DAY];
@@ -277,6 +303,13 @@ interface HouseResult {
   naive: Event[];
   /** per section: the oracle's standardised daily residuals over the judged days */
   oracleSeries: Map<string, { slot: number; u: number }[]>;
+}
+
+/** The spot DETECT_DEBUG follows: the planted row or tier, else its section. */
+function debugKeyOf(planted: Planted): string {
+  if (planted.kind.startsWith('row')) return spotKeyOf('row', planted.row, null);
+  if (planted.kind.startsWith('tier')) return spotKeyOf('tier', null, planted.tier);
+  return spotKeyOf('section', planted.row, planted.tier);
 }
 
 /** Runs the engine over a house, as the server would: every 15 minutes, with the data that has arrived. */
@@ -423,7 +456,7 @@ function runEngine(house: RealisticHouse, planted: Planted, totalDays: number): 
         });
         pending = judged.pending;
         if (process.env['DETECT_DEBUG'] === planted.kind && d >= WARMUP_DAYS) {
-          const spot = judged.spots.get(spotKeyOf('section', planted.row, planted.tier));
+          const spot = judged.spots.get(debugKeyOf(planted));
           console.log(
             `  day ${d} checkpoint ${c}`,
             spot
@@ -454,7 +487,7 @@ function runEngine(house: RealisticHouse, planted: Planted, totalDays: number): 
     pending = judged.pending;
     const endSlot = dayStart + SLOTS_PER_DAY;
     if (process.env['DETECT_DEBUG'] === planted.kind && d >= WARMUP_DAYS) {
-      const spot = judged.spots.get(spotKeyOf('section', planted.row, planted.tier));
+      const spot = judged.spots.get(debugKeyOf(planted));
       console.log(
         '  day',
         d,
@@ -546,6 +579,7 @@ function main(): void {
   const started = Date.now();
   const runs: { planted: Planted; result: HouseResult; size: string }[] = [];
   const deadMissedShare: number[] = [];
+  const deadLayingDelays: number[] = [];
   for (const [rows, tiers] of SIZES) {
     for (const kind of FAULT_KINDS) {
       for (let seed = 1; seed <= SEEDS; seed++) {
@@ -585,6 +619,9 @@ function main(): void {
               e.kind === 'silent_counter' &&
               e.key === spotKeyOf('section', planted.row, planted.tier) &&
               e.slot >= planted.onsetSlot,
+          );
+          deadLayingDelays.push(
+            found ? layingWindowHours(house, planted, found.slot) : Number.POSITIVE_INFINITY,
           );
           if (found) {
             let missed = 0;
@@ -777,6 +814,11 @@ function main(): void {
     },
   };
   console.log(
+    `dead counters: laying time from death to alarm (hours of the section's laying window, the central 90 % ` +
+      `of its eggs): median ${round1(percentile(deadLayingDelays, 50))} h, p90 ${round1(percentile(deadLayingDelays, 90))} h, ` +
+      `within 45 min ${((deadLayingDelays.filter((h) => h <= 0.75).length / Math.max(1, deadLayingDelays.length)) * 100).toFixed(0)} %`,
+  );
+  console.log(
     `dead counters: eggs laid but not counted before the alarm, as a share of the section's day: median ` +
       `${((percentile(deadMissedShare, 50) ?? 0) * 100).toFixed(1)} %, p90 ${((percentile(deadMissedShare, 90) ?? 0) * 100).toFixed(1)} %`,
   );
@@ -802,6 +844,10 @@ function main(): void {
       house_weeks: houseWeeks,
       dead_counter_missed_share_median:
         Math.round((percentile(deadMissedShare, 50) ?? 0) * 1000) / 1000,
+      dead_counter_laying_window_h: {
+        median: round1(percentile(deadLayingDelays, 50)),
+        p90: round1(percentile(deadLayingDelays, 90)),
+      },
       false_per_house_week: Math.round(engine.falsePerHouseWeek * 1000) / 1000,
       false_by_kind: Object.fromEntries(engine.falseByKind),
       recall,

@@ -158,6 +158,31 @@ describe('judgeStage on noisy days', () => {
     );
   });
 
+  it('confirms a near sighting followed by a full one, but never two near sightings', () => {
+    const random = seeded(23);
+    const past = history(random, 28);
+    const key = spotKeyOf('section', 2, 1);
+    const judge = (drop: number, pending?: Map<string, number>) =>
+      judgeStage({
+        thresholdPct: 10,
+        stage: COMPLETE_DAY,
+        sections: makeDay(random, (row, tier) => (row === 2 && tier === 1 ? 1 - drop : 1)),
+        past,
+        ...(pending ? { pending } : {}),
+      });
+    // 8 % down is past three quarters of the way (not short by both rules yet): remembered, no alarm.
+    const near = judge(0.08);
+    expect(near.short).toEqual([]);
+    expect(near.spots.get(key)?.isShort).toBe(false);
+    expect(near.pending.get(key)).toBeLessThan(0);
+    // A full sighting next confirms it at once (the order of the two judgements does not matter)…
+    expect(judge(0.16, near.pending).short.map((s) => s.key)).toEqual([key]);
+    // …a second near sighting does not, and the memory runs out after three stages.
+    const again = judge(0.08, near.pending);
+    expect(again.short).toEqual([]);
+    const later = judge(0, judge(0, again.pending).pending);
+    expect(later.pending.has(key)).toBe(false);
+  });
   it('learns a structural end row as normal', () => {
     const random = seeded(15);
     const past: PastDay[] = [];

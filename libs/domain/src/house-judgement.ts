@@ -79,7 +79,10 @@ export interface StageInput {
   accepted?: ReadonlyMap<string, number>;
   /** the CUSUM of each spot before this day (complete-day stage only) */
   cusum?: ReadonlyMap<string, CusumState>;
-  /** spots seen short once, waiting for a later stage to confirm them: key → judged stages still to wait */
+  /**
+   * spots seen short once, waiting for a later stage to confirm them: key → judged stages still to wait
+   * (negative for a complete day seen three quarters of the way down, which a full sighting confirms)
+   */
   pending?: ReadonlyMap<string, number>;
 }
 
@@ -92,7 +95,7 @@ export interface StageJudgement {
   high: SpotJudgement[];
   /** the CUSUM after this day (complete-day stage only; otherwise the input's) */
   cusum: Map<string, CusumState>;
-  /** spots seen short once and not yet confirmed: key → judged stages still to wait */
+  /** spots seen short (or near, negative) once and not yet confirmed: key → judged stages still to wait */
   pending: Map<string, number>;
   /** eggs of the house at this stage with silent sections filled in */
   houseEggs: number;
@@ -219,13 +222,22 @@ export function judgeStage(input: StageInput): StageJudgement {
   const pendingBefore = input.pending ?? new Map<string, number>();
   const pending = new Map<string, number>();
   const confirmedNow: SpotJudgement[] = [];
+  const isNear = (s: SpotJudgement) =>
+    s.ratio < 1 - (0.75 * input.thresholdPct) / 100 && s.z <= -0.75 * ALARM_Z;
   for (const [key, left] of pendingBefore) {
     const s = spots.get(key);
     if (!s || s.isShort || isAbsorbed(s)) continue;
-    if (s.ratio < 1 - (0.75 * input.thresholdPct) / 100 && s.z <= -0.75 * ALARM_Z) {
+    if (left > 0 && isNear(s)) {
       s.isShort = true;
       confirmedNow.push(s);
-    } else if (!s.isRecovered && left > 1) pending.set(key, left - 1);
+    } else if (!s.isRecovered && Math.abs(left) > 1) pending.set(key, left - Math.sign(left));
+  }
+  // A near sighting (three quarters of the way) on a complete day is held too: a full sighting in the next
+  // stages (the next day's) confirms it just as a near one confirms a full one. Not a checkpoint's: the
+  // complete day that follows it counts the same eggs again, so the two would be one sighting twice.
+  for (const s of stage === COMPLETE_DAY ? all : []) {
+    if (s.isShort || isAbsorbed(s) || open.has(s.key) || pendingBefore.has(s.key)) continue;
+    if (isNear(s)) pending.set(s.key, -CONFIRM_WITHIN_STAGES);
   }
   const short = found
     .filter((s) => {
