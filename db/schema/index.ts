@@ -15,3 +15,4 @@ export * from './work-orders';
 export * from './notification-settings';
 export * from './user-tokens';
 export * from './imports';
+export * from './cluster';

@@ -136,5 +136,5 @@ describe('an import interrupted by a killed API', () => {
              (SELECT sum(d.eggs)::int FROM section_day_rollups d JOIN sections s ON s.id = d.section_id WHERE s.house_id = ${houseId}) AS rolled`);
     const expectedEggs = Array.from({ length: LINES }, (_, i) => i % 17).reduce((a, b) => a + b, 0);
     expect(totals.rows[0]).toEqual({ n: LINES, eggs: expectedEggs, rolled: expectedEggs });
-  });
+  }, 120_000); // the restarted process takes the import over once the killed one's lease runs out (15 s)
 });

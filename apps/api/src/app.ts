@@ -1,3 +1,4 @@
+import { randomUUID } from 'node:crypto';
 import { existsSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import type { Database } from '@tierscope/db';
@@ -23,9 +24,13 @@ import type { AppConfig } from './platform/config';
 import { AppError, errorMiddleware } from './platform/errors';
 import { createEventBus, type EventBus } from './platform/events';
 import { inputGuard } from './platform/input-guard';
+import { PostgresRateLimitStore } from './platform/rate-limit-store';
 import { buildOpenApiDocument } from './platform/openapi';
 import { createTokenService, type TokenService } from './platform/tokens';
-import { EvaluationScheduler } from './features/evaluation/evaluation-scheduler';
+import {
+  EVALUATION_INTERVAL_MS,
+  EvaluationScheduler,
+} from './features/evaluation/evaluation-scheduler';
 import {
   createEvaluationService,
   type EvaluationService,
@@ -73,8 +78,12 @@ export interface AppDeps {
   log?: (message: string, error?: unknown) => void;
   /** Operational lines (ingest counts); tests pass a no-op. */
   info?: (message: string) => void;
-  /** In-process domain events; tests pass their own to listen. */
+  /** Domain events (the server passes the cluster bus); tests pass their own to listen. */
   events?: EventBus;
+  /** this process's name on leases (one process evaluates a house or runs an import at a time) */
+  holder?: string;
+  /** false once the process is stopping: /api/health/ready answers 503 so the balancer moves on */
+  isReady?: () => boolean;
 }
 
 /** The long-lived parts shared by the HTTP app, the live socket and the timers. */
@@ -95,9 +104,10 @@ export function createRuntime({
   log = defaultLog,
   info = defaultInfo,
   events = createEventBus(),
-}: Pick<AppDeps, 'db' | 'config' | 'log' | 'info' | 'events'>): Runtime {
+  holder = randomUUID(),
+}: Pick<AppDeps, 'db' | 'config' | 'log' | 'info' | 'events' | 'holder'>): Runtime {
   const tokens = createTokenService(config.jwtSecret, config.tokenTtlSeconds);
-  const evaluation = createEvaluationService(db, events, createFlockCurves(db));
+  const evaluation = createEvaluationService(db, events, createFlockCurves(db, events));
   const mailer = createMailer({ smtpUrl: config.smtpUrl, from: config.mailFrom, info });
   const notifier = createNotifier({
     db,
@@ -109,12 +119,12 @@ export function createRuntime({
   return {
     mailer,
     notifier,
-    imports: new ImportRunner(db, events, join(config.dataDir, 'imports'), log),
+    imports: new ImportRunner(db, events, join(config.dataDir, 'imports'), log, {}, holder),
     events,
     tokens,
     evaluation,
     exceptions: createExceptionsService(db, evaluation, events),
-    scheduler: new EvaluationScheduler(db, evaluation, events, log),
+    scheduler: new EvaluationScheduler(db, evaluation, events, log, EVALUATION_INTERVAL_MS, holder),
   };
 }
 
@@ -148,7 +158,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
 
   app.use(
     '/api',
-    healthRoutes(() => pingDatabase(db), API_VERSION),
+    healthRoutes(() => pingDatabase(db), API_VERSION, deps.isReady ?? (() => true)),
   );
 
   const v1 = express.Router();
@@ -163,6 +173,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
       {
         maxFailures: config.loginMaxFailures,
         windowSeconds: config.loginWindowSeconds,
+        storeFor: (prefix) => new PostgresRateLimitStore(db, prefix),
       },
       log,
     ),
@@ -185,7 +196,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
     ),
   );
   v1.use(notificationsRoutes(db, config.mailCatcherUrl));
-  v1.use(flocksRoutes(createFlocksService(db)));
+  v1.use(flocksRoutes(createFlocksService(db, events)));
   v1.use(reportsRoutes(createReportsService(db, runtime.evaluation)));
   v1.use(
     importsRoutes(createImportsService(db, runtime.imports), {

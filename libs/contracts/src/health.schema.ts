@@ -1,7 +1,7 @@
 import { z } from 'zod';
 
 export const healthSchema = z.object({
-  status: z.enum(['ok', 'degraded']),
+  status: z.enum(['ok', 'degraded', 'stopping']),
   database: z.enum(['up', 'down']),
   version: z.string(),
 });

@@ -110,6 +110,12 @@ export const closeExceptionSchema = z.object({
 export type CloseException = z.infer<typeof closeExceptionSchema>;
 
 /** Messages the browser sends on /api/v1/live. */
+/**
+ * Close codes of the live socket the browser acts on: sign in again (no reconnect); reconnect (access
+ * changed, or the server restarting — 1012, "Service Restart" in RFC 6455's registry).
+ */
+export const LIVE_CLOSE = { signIn: 4401, accessChanged: 4403, restarting: 1012 } as const;
+
 export const liveClientMessageSchema = z.discriminatedUnion('type', [
   z.object({ type: z.literal('auth'), token: z.string().min(1) }),
   z.object({ type: z.literal('subscribe'), houseId: dbId }),

@@ -2,7 +2,10 @@ import type { ImportState } from '@tierscope/domain';
 import { EventEmitter } from 'node:events';
 import type { schema } from '@tierscope/db';
 
-/** What services announce; the realtime module and the shortfall engine listen. Services never touch sockets. */
+/**
+ * What services announce; the realtime module and the shortfall engine listen. Services never touch sockets.
+ * Every payload must survive JSON (with Dates) — the cluster bus carries it to the other API processes.
+ */
 export interface DomainEvents {
   /** New readings landed for a house (only readings that were actually new). */
   'readings.accepted': {
@@ -39,6 +42,8 @@ export interface DomainEvents {
     userId: number;
     reason: 'disabled' | 'roles' | 'password';
   };
+  /** A flock was placed, changed or ended, or its mortality recorded (its lay-curve fit changes). */
+  'flock.changed': { farmId: number; houseId: number };
   /** A person acknowledged or closed an exception. */
   'exception.changed': {
     farmId: number;
@@ -47,14 +52,24 @@ export interface DomainEvents {
   };
 }
 
+export interface ListenOptions {
+  /** hear only this process's own events (work the emitting process does, e.g. evaluating its readings) */
+  localOnly?: boolean;
+}
+
 export interface EventBus {
   emit<K extends keyof DomainEvents>(name: K, payload: DomainEvents[K]): void;
   on<K extends keyof DomainEvents>(
     name: K,
     listener: (payload: DomainEvents[K]) => void,
+    options?: ListenOptions,
   ): () => void;
 }
 
+/**
+ * The in-process bus (one process, tests). The API server uses the cluster bus (cluster-events.ts), which
+ * adds the other processes' events through PostgreSQL.
+ */
 export function createEventBus(): EventBus {
   const emitter = new EventEmitter();
   // Many houses and listeners per process are normal, not a leak.

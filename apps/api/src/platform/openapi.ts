@@ -77,8 +77,20 @@ export function buildOpenApiDocument(version: string) {
     {
       method: 'get',
       path: '/api/health',
-      summary: 'Database reachability',
-      responses: { 200: ok(healthSchema), 503: ok(healthSchema, 'Database down') },
+      summary: 'Takes work: the database answers and the process is not stopping',
+      responses: { 200: ok(healthSchema), 503: ok(healthSchema, 'Database down, or stopping') },
+    },
+    {
+      method: 'get',
+      path: '/api/health/ready',
+      summary: 'Readiness (as /api/health): 503 while the database is down or the process stops',
+      responses: { 200: ok(healthSchema), 503: ok(healthSchema, 'Database down, or stopping') },
+    },
+    {
+      method: 'get',
+      path: '/api/health/live',
+      summary: 'Liveness: the process is up',
+      responses: { 200: { description: 'Up' } },
     },
     {
       method: 'get',
@@ -492,7 +504,7 @@ export function buildOpenApiDocument(version: string) {
   const paths: Record<string, Record<string, unknown>> = {};
   for (const route of routes) {
     const isPublic =
-      route.path === '/api/health' ||
+      route.path.startsWith('/api/health') ||
       route.path === '/api/v1/openapi.json' ||
       ['login', 'forgot', 'set-password'].some((p) => route.path === `/api/v1/auth/${p}`);
     const isGateway = route.path === '/api/v1/ingest/readings';

@@ -1,6 +1,6 @@
 import type { IncomingMessage, Server } from 'node:http';
 import type { Duplex } from 'node:stream';
-import { liveClientMessageSchema, type LiveServerMessage } from '@tierscope/contracts';
+import { LIVE_CLOSE, liveClientMessageSchema, type LiveServerMessage } from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
 import { WebSocket, WebSocketServer } from 'ws';
 import type { AuthUser } from '../platform/auth';
@@ -29,8 +29,8 @@ export const MAX_SUBSCRIPTIONS = 64;
 const MAX_PENDING_MESSAGES = MAX_SUBSCRIPTIONS + 36;
 
 /** Close codes the browser reads: sign in again; or reconnect (access changed, server going away). */
-export const CLOSE_SIGN_IN = 4401;
-export const CLOSE_ACCESS_CHANGED = 4403;
+export const CLOSE_SIGN_IN = LIVE_CLOSE.signIn;
+export const CLOSE_ACCESS_CHANGED = LIVE_CLOSE.accessChanged;
 const CLOSE_POLICY = 1008;
 
 interface Client {
@@ -360,7 +360,9 @@ export function attachLive(
       for (const t of frameTimers.values()) clearTimeout(t);
       for (const stop of unsubscribers) stop();
       server.off('upgrade', onUpgrade);
-      for (const client of clients) client.socket.terminate();
+      // Every browser connects again by itself (to another process behind the balancer).
+      for (const client of clients)
+        client.socket.close(LIVE_CLOSE.restarting, 'server restarting: reconnect');
       wss.close();
     },
   };

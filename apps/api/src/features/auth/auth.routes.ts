@@ -1,6 +1,6 @@
 import { forgotPasswordSchema, loginRequestSchema, setPasswordSchema } from '@tierscope/contracts';
 import { Router, type RequestHandler } from 'express';
-import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
+import { ipKeyGenerator, rateLimit, type Store } from 'express-rate-limit';
 import { contextOf } from '../../platform/auth';
 import { AppError, errorBody, parseInput } from '../../platform/errors';
 import type { AuthService } from './auth.service';
@@ -10,8 +10,14 @@ import type { AuthService } from './auth.service';
  * mistypes a few times and then gets it right is not locked out. Reset requests count every time, so the
  * route cannot be used to flood someone's inbox.
  */
-function loginLimiter(maxFailures: number, windowSeconds: number, isOnlyFailures = true) {
+function loginLimiter(
+  store: Store,
+  maxFailures: number,
+  windowSeconds: number,
+  isOnlyFailures = true,
+) {
   return rateLimit({
+    store,
     windowMs: windowSeconds * 1000,
     limit: maxFailures,
     skipSuccessfulRequests: isOnlyFailures,
@@ -40,13 +46,18 @@ function loginLimiter(maxFailures: number, windowSeconds: number, isOnlyFailures
 export function authRoutes(
   service: AuthService,
   authenticate: RequestHandler,
-  limits: { maxFailures: number; windowSeconds: number },
+  limits: {
+    maxFailures: number;
+    windowSeconds: number;
+    /** where counts are kept (shared by every process): one store per limiter, by its prefix */
+    storeFor: (prefix: string) => Store;
+  },
   log: (message: string, error?: unknown) => void,
 ): Router {
   const router = Router();
   router.post(
     '/login',
-    loginLimiter(limits.maxFailures, limits.windowSeconds),
+    loginLimiter(limits.storeFor('login'), limits.maxFailures, limits.windowSeconds),
     async (req, res) => {
       res.json(await service.login(parseInput(loginRequestSchema, req.body)));
     },
@@ -55,7 +66,7 @@ export function authRoutes(
   // mail happen after the answer has gone, so neither its words nor its timing can find accounts.
   router.post(
     '/forgot',
-    loginLimiter(limits.maxFailures, limits.windowSeconds, false),
+    loginLimiter(limits.storeFor('forgot'), limits.maxFailures, limits.windowSeconds, false),
     (req, res) => {
       const input = parseInput(forgotPasswordSchema, req.body);
       res.status(202).json({ message: 'If that address has an account, a link is on its way.' });
@@ -68,7 +79,7 @@ export function authRoutes(
   );
   router.post(
     '/set-password',
-    loginLimiter(limits.maxFailures, limits.windowSeconds),
+    loginLimiter(limits.storeFor('set-password'), limits.maxFailures, limits.windowSeconds),
     async (req, res) => {
       res.json(await service.setPassword(parseInput(setPasswordSchema, req.body)));
     },

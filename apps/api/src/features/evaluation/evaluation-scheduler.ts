@@ -1,4 +1,6 @@
+import { randomUUID } from 'node:crypto';
 import { addDays, productionDayOf } from '@tierscope/domain';
+import { withLease } from '../../platform/leases';
 import type { EventBus } from '../../platform/events';
 import type { EvaluationService } from './evaluation.service';
 import { findHouse } from '../houses/houses.repository';
@@ -8,6 +10,10 @@ import type { Database } from '@tierscope/db';
 export const EVALUATION_INTERVAL_MS = 2000;
 /** Quiet time after past-day readings before their days are evaluated (imports send many batches). */
 export const HISTORY_QUIET_MS = 3000;
+/** How long an evaluation waits for another process to finish the same house before trying later. */
+export const LEASE_WAIT_MS = 30_000;
+/** The lease a house's evaluation holds (platform/leases.ts). */
+export const houseLease = (houseId: number) => `house:${houseId}`;
 /** Readings younger than this are live data (no replay of past days). */
 export const LIVE_DATA_MS = 3_600_000;
 /** The longest history one pass re-evaluates after live readings for past days. */
@@ -39,18 +45,25 @@ export class EvaluationScheduler {
     events: EventBus,
     private readonly log: (message: string, error?: unknown) => void,
     private readonly intervalMs = EVALUATION_INTERVAL_MS,
+    /** this process's name on the house leases (one process evaluates a house at a time) */
+    private readonly holder: string = randomUUID(),
   ) {
-    this.stop = events.on('readings.accepted', (e) => {
-      // Readings of the last hour are today's live data: the live evaluation judges what they complete.
-      // Older ones (a backfill, a gateway's backlog, an import) are replayed through the days they touch.
-      if (e.isImport || Date.now() - e.firstTs.getTime() > LIVE_DATA_MS)
-        this.scheduleHistory(
-          e.houseId,
-          e.firstTs,
-          e.isImport ? MAX_IMPORT_HISTORY_DAYS : MAX_HISTORY_DAYS,
-        );
-      this.schedule(e.houseId);
-    });
+    // Local only: the process that stored the readings evaluates them (the others hear them for their sockets).
+    this.stop = events.on(
+      'readings.accepted',
+      (e) => {
+        // Readings of the last hour are today's live data: the live evaluation judges what they complete.
+        // Older ones (a backfill, a gateway's backlog, an import) are replayed through the days they touch.
+        if (e.isImport || Date.now() - e.firstTs.getTime() > LIVE_DATA_MS)
+          this.scheduleHistory(
+            e.houseId,
+            e.firstTs,
+            e.isImport ? MAX_IMPORT_HISTORY_DAYS : MAX_HISTORY_DAYS,
+          );
+        this.schedule(e.houseId);
+      },
+      { localOnly: true },
+    );
   }
 
   schedule(houseId: number): void {
@@ -72,9 +85,18 @@ export class EvaluationScheduler {
     const previous = this.running.get(houseId);
     if (previous) await previous;
     this.lastRun.set(houseId, Date.now());
-    const job = this.evaluation
-      .evaluateNow(houseId)
-      .then(() => undefined)
+    // One process of the cluster evaluates a house at a time; another one busy with it is waited for (its
+    // evaluation may have started before these readings landed), and after too long this one tries later.
+    const job = withLease(
+      this.db,
+      houseLease(houseId),
+      this.holder,
+      () => this.evaluation.evaluateNow(houseId),
+      { waitMs: LEASE_WAIT_MS },
+    )
+      .then((outcome) => {
+        if (!outcome.ran) this.schedule(houseId);
+      })
       .catch((error: unknown) => {
         this.log(`evaluation of house ${houseId} failed`, error);
       });
@@ -110,7 +132,17 @@ export class EvaluationScheduler {
       if (firstDay > today) return;
       const start =
         firstDay < addDays(today, -entry.maxDays) ? addDays(today, -entry.maxDays) : firstDay;
-      await this.evaluation.evaluateHistory(houseId, start, today);
+      const outcome = await withLease(
+        this.db,
+        houseLease(houseId),
+        this.holder,
+        () => this.evaluation.evaluateHistory(houseId, start, today),
+        { waitMs: LEASE_WAIT_MS },
+      );
+      if (!outcome.ran) {
+        this.scheduleHistory(houseId, entry.firstTs, entry.maxDays);
+        return;
+      }
       // Then today, so live state continues from the replayed days.
       this.replayingHouses.delete(houseId);
       await this.run(houseId);

@@ -1,4 +1,5 @@
 import type { Database } from '@tierscope/db';
+import type { EventBus } from '../../platform/events';
 import { addDays, ageInWeeks, compartmentalLay } from '@tierscope/domain';
 import type { ExpectedLay } from '../evaluation/evaluation.service';
 import { findHouse } from '../houses/houses.repository';
@@ -10,8 +11,12 @@ import { computeProduction } from './flocks.service';
  * `isFitGoodEnough`); null otherwise, and the engine falls back to the 7-day average. A fit is made at most
  * once per house per day: it changes only when a day completes.
  */
-export function createFlockCurves(db: Database): ExpectedLay {
+export function createFlockCurves(db: Database, events?: EventBus): ExpectedLay {
   const cache = new Map<string, Promise<number | null>>();
+  // A placed, changed or ended flock, or a corrected morning walk, changes the fit (in every process).
+  events?.on('flock.changed', (e) => {
+    for (const key of cache.keys()) if (key.startsWith(`${e.houseId}|`)) cache.delete(key);
+  });
   return {
     expectedHenDayPct(houseId, day) {
       const key = `${houseId}|${day}`;

@@ -6,6 +6,7 @@ import type {
   MortalityEntry,
 } from '@tierscope/contracts';
 import { flockCreateSchema } from '@tierscope/contracts';
+import type { EventBus } from '../../platform/events';
 import type { Database } from '@tierscope/db';
 import {
   addDays,
@@ -51,7 +52,10 @@ export interface FlocksService {
   production(ctx: RequestContext, id: number): Promise<FlockProduction>;
 }
 
-export function createFlocksService(db: Database): FlocksService {
+export function createFlocksService(db: Database, events?: EventBus): FlocksService {
+  // The lay curve fitted to a house's flock changes with its records: every process forgets its fits.
+  const changed = (house: { id: number; farmId: number }) =>
+    events?.emit('flock.changed', { farmId: house.farmId, houseId: house.id });
   async function houseFor(
     ctx: RequestContext,
     houseId: number,
@@ -135,6 +139,7 @@ export function createFlocksService(db: Database): FlocksService {
         });
         return created;
       });
+      changed(house);
       return toFlock(flock);
     },
 
@@ -159,6 +164,7 @@ export function createFlocksService(db: Database): FlocksService {
         return row;
       });
       if (!updated) throw notFound('Flock');
+      changed(house);
       return toFlock(updated);
     },
 
@@ -176,6 +182,7 @@ export function createFlocksService(db: Database): FlocksService {
           after: { day, ...entry },
         });
       });
+      changed(house);
       return toFlock(flock);
     },
 

@@ -1,17 +1,32 @@
 import type { Health } from '@tierscope/contracts';
-import { Router } from 'express';
+import { Router, type RequestHandler } from 'express';
 
-/** Database reachability for load balancers and for `npm start` to wait on; no sign-in needed. */
-export function healthRoutes(pingDatabase: () => Promise<boolean>, version: string): Router {
+/**
+ * For load balancers, orchestrators and `npm start`; no sign-in needed.
+ * - `/health` and `/health/ready`: this process takes work — the database answers and it is not stopping
+ *   (503 otherwise, so a balancer sends requests elsewhere during a rolling restart);
+ * - `/health/live`: the process is up (restart it when this fails, not when the database is down).
+ */
+export function healthRoutes(
+  pingDatabase: () => Promise<boolean>,
+  version: string,
+  isReady: () => boolean = () => true,
+): Router {
   const router = Router();
-  router.get('/health', async (_req, res) => {
+  const ready: RequestHandler = async (_req, res) => {
     const isUp = await pingDatabase();
+    const isTakingWork = isUp && isReady();
     const body: Health = {
-      status: isUp ? 'ok' : 'degraded',
+      status: isTakingWork ? 'ok' : isUp ? 'stopping' : 'degraded',
       database: isUp ? 'up' : 'down',
       version,
     };
-    res.status(isUp ? 200 : 503).json(body);
+    res.status(isTakingWork ? 200 : 503).json(body);
+  };
+  router.get('/health', ready);
+  router.get('/health/ready', ready);
+  router.get('/health/live', (_req, res) => {
+    res.json({ status: 'ok', version });
   });
   return router;
 }

@@ -1,3 +1,4 @@
+import { randomUUID } from 'node:crypto';
 import { createReadStream } from 'node:fs';
 import { rm } from 'node:fs/promises';
 import { join } from 'node:path';
@@ -13,6 +14,7 @@ import {
 } from '@tierscope/domain';
 import { parse, type Info } from 'csv-parse';
 import type { EventBus } from '../../platform/events';
+import { withLease } from '../../platform/leases';
 import { copyReadingsInChunks } from '../ingest/bulk-ingest.repository';
 import { ensureReadingPartitions } from '../ingest/ingest.repository';
 import {
@@ -28,6 +30,8 @@ import {
 
 /** Errors kept per import (all are counted; the CSV download holds these). */
 export const MAX_STORED_ERRORS = 10_000;
+/** An import's lease: a process that dies mid-import leaves it to another after this long. */
+export const IMPORT_LEASE_MS = 15_000;
 /** How often a running import writes its progress and looks for a cancel request. */
 const REPORT_MS = 500;
 
@@ -59,7 +63,8 @@ export interface ImportProgress {
  * Runs historical imports in the background, one at a time: streams the stored file through csv-parse,
  * checks each line, and loads the good readings through the same exactly-once bulk path as the benchmark
  * (COPY into staging, ON CONFLICT DO NOTHING, rollups of the new rows only). An import that stopped
- * half-way is run again from the start on the next start of the API and counts each reading once.
+ * half-way is run again from the start (by this process's next start or another process's sweep) and
+ * counts each reading once.
  */
 export class ImportRunner {
   private readonly queue: number[] = [];
@@ -72,6 +77,7 @@ export class ImportRunner {
     private readonly importsDir: string,
     private readonly log: (message: string, error?: unknown) => void,
     private readonly options: { chunkRows?: number; reportMs?: number } = {},
+    private readonly holder: string = randomUUID(),
   ) {}
 
   enqueue(id: number): void {
@@ -80,7 +86,10 @@ export class ImportRunner {
     this.pump();
   }
 
-  /** Queues again what a stop interrupted. */
+  /**
+   * Queues again what a stop interrupted — at start, and on every minute's sweep (an import whose process
+   * died is taken over once its lease has run out; one still held elsewhere is skipped when its turn comes).
+   */
   async resumeInterrupted(): Promise<number> {
     const rows = await interruptedImports(this.db);
     for (const row of rows) this.enqueue(row.id);
@@ -101,7 +110,18 @@ export class ImportRunner {
     if (this.current) return;
     const next = this.queue.shift();
     if (next === undefined) return;
-    this.current = this.run(next)
+    // One process of the cluster runs an import at a time: the one holding its lease. Another one busy
+    // with it is left to it; when that process dies its lease runs out and the next sweep takes it over.
+    this.current = withLease(this.db, `import:${next}`, this.holder, () => this.run(next), {
+      leaseMs: IMPORT_LEASE_MS,
+    })
+      .then((outcome) => {
+        // Held elsewhere: running there, or left by a process that died (its lease runs out) — look again
+        // then (a finished import is not run again: run() reads its state first).
+        if (!outcome.ran && !this.isDisposed) {
+          setTimeout(() => this.enqueue(next), IMPORT_LEASE_MS).unref();
+        }
+      })
       .catch(async (error: unknown) => {
         this.log(`import ${next} failed`, error);
         // Never leave a job "running" behind: it would be queued again at every start.

@@ -1,10 +1,23 @@
 import { inject, Injectable, signal, untracked } from '@angular/core';
 import {
+  LIVE_CLOSE,
   liveServerMessageSchema,
   type LiveClientMessage,
   type LiveServerMessage,
 } from '@tierscope/contracts';
-import { defer, filter, finalize, map, Observable, retry, share, Subject, timer } from 'rxjs';
+import {
+  defer,
+  EMPTY,
+  filter,
+  finalize,
+  map,
+  Observable,
+  repeat,
+  retry,
+  share,
+  Subject,
+  timer,
+} from 'rxjs';
 import { webSocket, type WebSocketSubject } from 'rxjs/webSocket';
 import { AuthStore } from '../auth/auth-store';
 
@@ -24,6 +37,8 @@ export class LiveSocket {
   readonly state = signal<ConnectionState>('offline');
   readonly lastMessageAt = signal<Date | null>(null);
 
+  private lastCloseCode: number | null = null;
+
   private readonly messages: Observable<LiveServerMessage> = defer(() => {
     this.state.set(untracked(this.state) === 'offline' ? 'connecting' : 'reconnecting');
     const protocol = location.protocol === 'https:' ? 'wss' : 'ws';
@@ -39,7 +54,8 @@ export class LiveSocket {
         },
       },
       closeObserver: {
-        next: () => {
+        next: (event: CloseEvent) => {
+          this.lastCloseCode = event.code;
           this.state.set('reconnecting');
         },
       },
@@ -50,6 +66,9 @@ export class LiveSocket {
     retry({
       delay: (_error, attempt) => timer(Math.min(30_000, 1000 * 2 ** Math.min(attempt - 1, 5))),
     }),
+    // A clean close is the server going away (a restart: 1012) or access changed (4403): connect again
+    // after a second (another API process answers); 'sign in again' (4401) does not.
+    repeat({ delay: () => (this.lastCloseCode === LIVE_CLOSE.signIn ? EMPTY : timer(1000)) }),
     map((raw) => liveServerMessageSchema.safeParse(raw)),
     filter((parsed) => parsed.success),
     map((parsed) => {
