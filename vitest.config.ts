@@ -27,6 +27,7 @@ export default defineConfig({
             'db/**/*.spec.ts',
             'tests/integration/**/*.spec.ts',
             'tests/robustness/**/*.spec.ts',
+            'tests/cluster/**/*.spec.ts',
           ],
           environment: 'node',
           // Each file makes its own database; two files at once would still be fine, but 2 cores are few.

@@ -1,8 +1,13 @@
 import { randomUUID } from 'node:crypto';
 import { EventEmitter } from 'node:events';
-import { schema, type Database } from '@tierscope/db';
-import { eq, lt, sql } from 'drizzle-orm';
+import type { Database } from '@tierscope/db';
 import pg from 'pg';
+import {
+  deleteEventPayloadsBefore,
+  notify,
+  readEventPayload,
+  storeEventPayload,
+} from './cluster.repository';
 import type { DomainEvents, EventBus, ListenOptions } from './events';
 
 /** The PostgreSQL channel every API process listens on. */
@@ -81,12 +86,8 @@ export function createClusterEventBus(
   const deliver = async (envelope: Envelope) => {
     let body = envelope.body;
     if (envelope.ref !== undefined) {
-      const [row] = await db
-        .select({ body: schema.eventPayloads.body })
-        .from(schema.eventPayloads)
-        .where(eq(schema.eventPayloads.id, envelope.ref));
-      if (!row) return;
-      body = row.body;
+      body = await readEventPayload(db, envelope.ref);
+      if (body === undefined) return;
     }
     everyone.emit(envelope.name, revive(body));
   };
@@ -98,7 +99,9 @@ export function createClusterEventBus(
       log('event bus connection lost; reconnecting', error);
       reconnect(next);
     });
-    next.on('end', () => reconnect(next));
+    next.on('end', () => {
+      reconnect(next);
+    });
     next.on('notification', (message) => {
       if (message.channel !== EVENTS_CHANNEL || !message.payload) return;
       let envelope: Envelope;
@@ -137,19 +140,14 @@ export function createClusterEventBus(
     const body = encode(payload);
     let text = encode({ origin: processId, name, body: JSON.parse(body) as unknown });
     if (Buffer.byteLength(text) > MAX_INLINE_BYTES) {
-      const [row] = await db
-        .insert(schema.eventPayloads)
-        .values({ body: JSON.parse(body) as unknown })
-        .returning({ id: schema.eventPayloads.id });
-      text = JSON.stringify({ origin: processId, name, ref: row?.id } satisfies Envelope);
+      const ref = await storeEventPayload(db, JSON.parse(body) as unknown);
+      text = JSON.stringify({ origin: processId, name, ref } satisfies Envelope);
       if (Date.now() - lastCleanup > 60_000) {
         lastCleanup = Date.now();
-        await db
-          .delete(schema.eventPayloads)
-          .where(lt(schema.eventPayloads.createdAt, new Date(Date.now() - PAYLOAD_KEEP_MS)));
+        await deleteEventPayloadsBefore(db, new Date(Date.now() - PAYLOAD_KEEP_MS));
       }
     }
-    await db.execute(sql`SELECT pg_notify(${EVENTS_CHANNEL}, ${text})`);
+    await notify(db, EVENTS_CHANNEL, text);
   };
 
   void connect();

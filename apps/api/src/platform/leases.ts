@@ -1,33 +1,19 @@
 import type { Database } from '@tierscope/db';
-import { sql } from 'drizzle-orm';
+import { claimLease as claim, releaseLease } from './cluster.repository';
 
 /** How long a held lease lasts without renewal: a process that dies blocks its work for at most this. */
 export const LEASE_MS = 60_000;
 /** How often a process waiting for a lease asks again. */
 const POLL_MS = 200;
 
-/**
- * Claims the lease `name` for `holder` for `ms` — when nobody holds it, its holder's time ran out, or the
- * holder already has it (renewal). One statement: two processes claiming at once never both get it.
- */
-export async function claimLease(
+/** Claims the lease `name` for `holder` (see cluster.repository.ts), for LEASE_MS by default. */
+export function claimLease(
   db: Database,
   name: string,
   holder: string,
   ms = LEASE_MS,
 ): Promise<boolean> {
-  const result = await db.execute(sql`
-    INSERT INTO leases (name, holder, until)
-    VALUES (${name}, ${holder}, now() + make_interval(secs => ${ms / 1000}))
-    ON CONFLICT (name) DO UPDATE SET holder = excluded.holder, until = excluded.until
-      WHERE leases.until < now() OR leases.holder = excluded.holder
-    RETURNING name`);
-  return result.rows.length > 0;
-}
-
-/** Gives a lease back early (only its holder can). */
-export async function releaseLease(db: Database, name: string, holder: string): Promise<void> {
-  await db.execute(sql`DELETE FROM leases WHERE name = ${name} AND holder = ${holder}`);
+  return claim(db, name, holder, ms);
 }
 
 /**

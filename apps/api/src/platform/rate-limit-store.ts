@@ -1,6 +1,12 @@
 import type { Database } from '@tierscope/db';
-import { sql } from 'drizzle-orm';
 import type { ClientRateLimitInfo, Options, Store } from 'express-rate-limit';
+import {
+  countLimitHit,
+  deleteExpiredLimits,
+  readLimit,
+  resetLimit,
+  uncountLimitHit,
+} from './cluster.repository';
 
 /**
  * express-rate-limit's counts kept in PostgreSQL (`rate_limit_hits`), so a limit holds across every API
@@ -26,39 +32,24 @@ export class PostgresRateLimitStore implements Store {
   }
 
   async get(key: string): Promise<ClientRateLimitInfo | undefined> {
-    const result = await this.db.execute<{ hits: number; reset_at: Date | string }>(sql`
-      SELECT hits, reset_at FROM rate_limit_hits WHERE key = ${this.key(key)} AND reset_at > now()`);
-    const row = result.rows[0];
-    return row ? { totalHits: row.hits, resetTime: new Date(row.reset_at) } : undefined;
+    const count = await readLimit(this.db, this.key(key));
+    return count ? { totalHits: count.hits, resetTime: count.resetAt } : undefined;
   }
 
   async increment(key: string): Promise<ClientRateLimitInfo> {
-    const window = sql`now() + make_interval(secs => ${this.windowMs / 1000})`;
-    const result = await this.db.execute<{ hits: number; reset_at: Date | string }>(sql`
-      INSERT INTO rate_limit_hits (key, hits, reset_at) VALUES (${this.key(key)}, 1, ${window})
-      ON CONFLICT (key) DO UPDATE SET
-        hits = CASE WHEN rate_limit_hits.reset_at <= now() THEN 1 ELSE rate_limit_hits.hits + 1 END,
-        reset_at = CASE WHEN rate_limit_hits.reset_at <= now() THEN ${window}
-                        ELSE rate_limit_hits.reset_at END
-      RETURNING hits, reset_at`);
-    await this.sweep();
-    const row = result.rows[0];
-    return { totalHits: row?.hits ?? 1, resetTime: new Date(row?.reset_at ?? Date.now()) };
+    const count = await countLimitHit(this.db, this.key(key), this.windowMs);
+    if (Date.now() - this.lastSweep > 60_000) {
+      this.lastSweep = Date.now();
+      await deleteExpiredLimits(this.db);
+    }
+    return { totalHits: count.hits, resetTime: count.resetAt };
   }
 
   async decrement(key: string): Promise<void> {
-    await this.db.execute(sql`
-      UPDATE rate_limit_hits SET hits = greatest(0, hits - 1)
-      WHERE key = ${this.key(key)} AND reset_at > now()`);
+    await uncountLimitHit(this.db, this.key(key));
   }
 
   async resetKey(key: string): Promise<void> {
-    await this.db.execute(sql`DELETE FROM rate_limit_hits WHERE key = ${this.key(key)}`);
-  }
-
-  private async sweep(): Promise<void> {
-    if (Date.now() - this.lastSweep < 60_000) return;
-    this.lastSweep = Date.now();
-    await this.db.execute(sql`DELETE FROM rate_limit_hits WHERE reset_at <= now()`);
+    await resetLimit(this.db, this.key(key));
   }
 }

@@ -119,7 +119,9 @@ export class ImportRunner {
         // Held elsewhere: running there, or left by a process that died (its lease runs out) — look again
         // then (a finished import is not run again: run() reads its state first).
         if (!outcome.ran && !this.isDisposed) {
-          setTimeout(() => this.enqueue(next), IMPORT_LEASE_MS).unref();
+          setTimeout(() => {
+            this.enqueue(next);
+          }, IMPORT_LEASE_MS).unref();
         }
       })
       .catch(async (error: unknown) => {

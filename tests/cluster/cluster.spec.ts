@@ -1,0 +1,222 @@
+import { randomBytes } from 'node:crypto';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { hash } from '@node-rs/argon2';
+import { insertHouseWithLayout, schema } from '@tierscope/db';
+import { defaultBeltCounterId } from '@tierscope/domain';
+import { createTestDatabase } from '@tierscope/db/testing';
+import { sql } from 'drizzle-orm';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import WebSocket from 'ws';
+import {
+  makeGatewayKey,
+  signInThroughApi,
+  startApiProcess,
+  type ApiProcess,
+} from '../../scripts/processes';
+import { withLease } from '../../apps/api/src/platform/leases';
+
+/**
+ * Three real API processes on one PostgreSQL, as behind a load balancer: what one process learns, the
+ * others' browsers hear; limits hold across them; a process stopped with SIGTERM hands its browsers over.
+ */
+const PASSWORD = 'cluster-pass';
+const MAX_FAILURES = 4;
+let database: Awaited<ReturnType<typeof createTestDatabase>>;
+let dir: string;
+let processes: ApiProcess[] = [];
+let houseId: number;
+let farmId: number;
+
+beforeAll(async () => {
+  database = await createTestDatabase();
+  dir = mkdtempSync(join(tmpdir(), 'tierscope-cluster-'));
+  const [farm] = await database.db
+    .insert(schema.farms)
+    .values({ name: 'Cluster Farm' })
+    .returning();
+  farmId = farm!.id;
+  const house = await insertHouseWithLayout(database.db, farmId, {
+    name: 'House 1',
+    rows: 2,
+    tiers: 2,
+    timezone: 'UTC',
+    lightsOn: '00:00',
+    photoperiodHours: 16,
+    shortfallThresholdPct: 10,
+  });
+  houseId = house.id;
+  const [user] = await database.db
+    .insert(schema.users)
+    .values({ email: 'admin@cluster.test', name: 'Admin', passwordHash: await hash(PASSWORD) })
+    .returning();
+  await database.db.insert(schema.memberships).values({ userId: user!.id, farmId, role: 'admin' });
+  const env = {
+    DATABASE_URL: database.url,
+    JWT_SECRET: randomBytes(32).toString('hex'),
+    DATA_DIR: join(dir, 'data'),
+    LOGIN_MAX_FAILURES: String(MAX_FAILURES),
+  };
+  processes = await Promise.all(
+    [0, 1, 2].map(() => startApiProcess(env, { stdio: ['ignore', 'ignore', 'ignore'] })),
+  );
+}, 120_000);
+
+afterAll(async () => {
+  await Promise.all(processes.map((p) => p.stop()));
+  await database.drop();
+  rmSync(dir, { recursive: true, force: true });
+});
+
+type Message = { type: string; houseId?: number; [k: string]: unknown };
+
+/** A signed-in socket on one process, watching the house; keeps every message it gets. */
+async function watcher(api: ApiProcess, token: string) {
+  const socket = new WebSocket(`${api.baseUrl.replace('http', 'ws')}/api/v1/live`);
+  const messages: Message[] = [];
+  const closed = new Promise<number>((resolve) =>
+    socket.on('close', (code) => {
+      resolve(code);
+    }),
+  );
+  socket.on('error', () => undefined);
+  socket.on('message', (data: Buffer) =>
+    messages.push(JSON.parse(data.toString('utf8')) as Message),
+  );
+  await new Promise<void>((resolve, reject) => {
+    socket.once('open', () => {
+      resolve();
+    });
+    socket.once('error', reject);
+  });
+  socket.send(JSON.stringify({ type: 'auth', token }));
+  await until(() => messages.some((m) => m.type === 'ready'));
+  socket.send(JSON.stringify({ type: 'subscribe', houseId }));
+  await until(() => messages.some((m) => m.type === 'snapshot'));
+  return { socket, messages, closed };
+}
+
+async function until(isDone: () => boolean, timeoutMs = 20_000): Promise<void> {
+  const deadline = Date.now() + timeoutMs;
+  while (!isDone()) {
+    if (Date.now() > deadline) throw new Error('timed out waiting');
+    await new Promise((resolve) => setTimeout(resolve, 25));
+  }
+}
+
+async function post(api: ApiProcess, key: string, readings: object[]): Promise<number> {
+  const response = await fetch(`${api.baseUrl}/api/v1/ingest/readings`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', authorization: `Bearer ${key}` },
+    body: JSON.stringify({ readings }),
+  });
+  return response.status;
+}
+
+describe('three API processes on one database', () => {
+  it('sends every browser the frames for readings another process stored', async () => {
+    const [a, b, c] = processes as [ApiProcess, ApiProcess, ApiProcess];
+    const { token } = await signInThroughApi(a.baseUrl, 'admin@cluster.test', PASSWORD);
+    const key = await makeGatewayKey(b.baseUrl, token, farmId, 'cluster gateway');
+    const sockets = await Promise.all([a, b, c].map((p) => watcher(p, token)));
+    const framesBefore = sockets.map((s) => s.messages.filter((m) => m.type === 'frame').length);
+    const now = Date.now();
+    const readings = [1, 2].flatMap((row) =>
+      [1, 2].map((tier) => ({
+        counter: defaultBeltCounterId(houseId, { row, tier }),
+        ts: new Date(now - 60_000).toISOString(),
+        eggs: 40 + row + tier,
+      })),
+    );
+    expect(await post(b, key, readings)).toBe(200);
+    // Each process's socket gets a frame: B's from its own event, A's and C's through PostgreSQL.
+    for (const [i, s] of sockets.entries()) {
+      await until(() => s.messages.filter((m) => m.type === 'frame').length > framesBefore[i]!);
+    }
+    const frame = sockets[2]!.messages.findLast((m) => m.type === 'frame');
+    expect(frame?.houseId).toBe(houseId);
+    // Sent again through another process: stored once.
+    expect(await post(c, key, readings)).toBe(200);
+    const stored = await database.db.execute<{ n: number; eggs: number }>(sql`
+      SELECT count(*)::int AS n, sum(r.eggs)::int AS eggs
+      FROM readings r JOIN counters k ON k.id = r.counter_id WHERE k.house_id = ${houseId}`);
+    expect(stored.rows[0]).toEqual({ n: 4, eggs: 4 * 40 + 12 });
+    for (const s of sockets) s.socket.close();
+  });
+
+  it('counts failed sign-ins across every process', async () => {
+    const attempt = async (api: ApiProcess, password: string) =>
+      (
+        await fetch(`${api.baseUrl}/api/v1/auth/login`, {
+          method: 'POST',
+          headers: { 'content-type': 'application/json' },
+          body: JSON.stringify({ email: 'someone@cluster.test', password }),
+        })
+      ).status;
+    // The limit's failures spread over the three processes: with one memory store each, each would
+    // allow MAX_FAILURES of its own.
+    const statuses: number[] = [];
+    for (let i = 0; i < MAX_FAILURES; i++)
+      statuses.push(await attempt(processes[i % 3]!, 'wrong-password'));
+    expect(statuses).toEqual(Array.from({ length: MAX_FAILURES }, () => 401));
+    for (const api of processes) expect(await attempt(api, 'wrong-password')).toBe(429);
+  });
+
+  it('runs work under one lease in one holder at a time, and gives it up to waiters after', async () => {
+    // Three holders (as three processes) want the same house at once: they take turns, never overlap.
+    const log: { holder: string; at: 'start' | 'end' }[] = [];
+    const outcomes = await Promise.all(
+      ['p1', 'p2', 'p3'].map((holder) =>
+        withLease(
+          database.db,
+          'house:lease-test',
+          holder,
+          async () => {
+            log.push({ holder, at: 'start' });
+            await new Promise((resolve) => setTimeout(resolve, 150));
+            log.push({ holder, at: 'end' });
+          },
+          { waitMs: 10_000 },
+        ),
+      ),
+    );
+    expect(outcomes.every((o) => o.ran)).toBe(true);
+    for (let i = 0; i < log.length; i += 2) {
+      expect(log[i]?.at).toBe('start');
+      expect(log[i + 1]).toEqual({ holder: log[i]?.holder, at: 'end' });
+    }
+    // One that will not wait is turned away while another holds it.
+    const slow = withLease(
+      database.db,
+      'house:lease-test',
+      'p1',
+      () => new Promise((resolve) => setTimeout(resolve, 300)),
+    );
+    await new Promise((resolve) => setTimeout(resolve, 50));
+    expect((await withLease(database.db, 'house:lease-test', 'p2', async () => 1)).ran).toBe(false);
+    await slow;
+  });
+
+  it('on SIGTERM stops taking work and tells its browsers to reconnect; the others go on', async () => {
+    const [a, b] = processes as [ApiProcess, ApiProcess];
+    const { token } = await signInThroughApi(b.baseUrl, 'admin@cluster.test', PASSWORD);
+    const onA = await watcher(a, token);
+    const onB = await watcher(b, token);
+    await a.stop();
+    // 1012: "service restart" — the browser connects again, to a process still running.
+    expect(await onA.closed).toBe(1012);
+    expect(a.child.exitCode).toBe(0);
+    const ready = await fetch(`${b.baseUrl}/api/health/ready`);
+    expect(ready.status).toBe(200);
+    const again = await watcher(b, token);
+    expect(again.messages.some((m) => m.type === 'snapshot')).toBe(true);
+    onB.socket.close();
+    again.socket.close();
+    // No lease is left behind by the stopped process.
+    const left = await database.db.execute(
+      sql`SELECT name FROM leases WHERE until > now() AND name LIKE 'house:%' AND name <> 'house:lease-test'`,
+    );
+    expect(left.rows).toEqual([]);
+  });
+});
