@@ -58,9 +58,9 @@ export interface ApiProcess {
  */
 export async function startApiProcess(
   env: Record<string, string>,
-  options: { stdio?: StdioOptions } = {},
+  options: { stdio?: StdioOptions; port?: number } = {},
 ): Promise<ApiProcess> {
-  const port = await freePort();
+  const port = options.port ?? (await freePort());
   const child = spawn(process.execPath, API_NODE_ARGS, {
     cwd: ROOT,
     env: { ...process.env, HOST: '127.0.0.1', PORT: String(port), ...env },

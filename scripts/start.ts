@@ -2,7 +2,8 @@
  * `npm start`: the whole product with its demo on this machine.
  * PostgreSQL (private cluster in .data/, loopback only) → migrations → demo seed (empty database only) →
  * web build → API serving it. Prints the URL and the demo sign-ins; Ctrl-C stops everything it started.
- * `npm start -- --reset` starts over with a fresh demo database.
+ * `npm start -- --reset` starts over with a fresh demo database; `npm start -- --processes 3` runs three API
+ * processes behind a balancer on the same port.
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
@@ -22,7 +23,8 @@ import { startMailCatcher, type MailCatcher } from '@tierscope/mail-catcher';
 import { DEMO_FAULTS, DEMO_SIMULATOR_SEED, writeDemoHistory } from './demo-history';
 import { prepareSimulatorFarms } from './demo-simulator';
 import { recreateDatabase, startCluster } from './postgres';
-import { API_NODE_ARGS, waitForHealth } from './processes';
+import { startBalancer, type Balancer } from './balancer';
+import { API_NODE_ARGS, freePort, waitForHealth } from './processes';
 
 const ROOT = new URL('..', import.meta.url).pathname;
 const DATA = join(ROOT, '.data');
@@ -32,10 +34,24 @@ const SMTP_PORT = Number(process.env['TIERSCOPE_SMTP_PORT'] ?? 1025);
 const MAILBOX_PORT = Number(process.env['TIERSCOPE_MAILBOX_PORT'] ?? 1080);
 const DATABASE = 'tierscope';
 const isReset = process.argv.includes('--reset');
+/** `--processes N`: N API processes behind a balancer (default 1, no balancer). */
+const PROCESSES = processesArg();
+
+function processesArg(): number {
+  const at = process.argv.indexOf('--processes');
+  if (at === -1) return 1;
+  const n = Number(process.argv[at + 1]);
+  if (!Number.isInteger(n) || n < 1 || n > 16) {
+    console.error('[start] --processes takes a whole number from 1 to 16');
+    process.exit(2);
+  }
+  return n;
+}
 
 const children: ChildProcess[] = [];
 let stopDatabase: (() => void) | null = null;
 let mailCatcher: MailCatcher | null = null;
+let balancer: Balancer | null = null;
 let isStopping = false;
 
 function log(line: string): void {
@@ -57,6 +73,7 @@ function stopAll(code: number): void {
   log('stopping…');
   for (const child of children) child.kill('SIGTERM');
   void mailCatcher?.close();
+  void balancer?.close();
   try {
     stopDatabase?.();
     log('database stopped');
@@ -187,8 +204,20 @@ async function main(): Promise<void> {
     JWT_SECRET: jwtSecret(),
     WEB_DIST: join(ROOT, 'dist/web/browser'),
   };
-  superviseApi(env);
   const url = `http://127.0.0.1:${PORT}`;
+  if (PROCESSES === 1) superviseApi(env);
+  else {
+    // Several API processes on one database behind a balancer on the public port (ADR 0005).
+    const targets: string[] = [];
+    for (let i = 0; i < PROCESSES; i++) {
+      const port = await freePort();
+      targets.push(`http://127.0.0.1:${port}`);
+      superviseApi({ ...env, PORT: String(port) });
+    }
+    await Promise.all(targets.map((target) => waitForHealth(target, 60_000)));
+    balancer = await startBalancer({ port: PORT, targets });
+    log(`${PROCESSES} API processes (${targets.join(', ')}) behind the balancer on ${url}`);
+  }
   await waitForHealth(url, 60_000);
 
   const farmFiles = await prepareSimulatorFarms({ apiUrl: url, dataDir: DATA, flocks });

@@ -15,6 +15,7 @@ import {
   startApiProcess,
   type ApiProcess,
 } from '../../scripts/processes';
+import { startBalancer } from '../../scripts/balancer';
 import { withLease } from '../../apps/api/src/platform/leases';
 
 /**
@@ -28,6 +29,7 @@ let dir: string;
 let processes: ApiProcess[] = [];
 let houseId: number;
 let farmId: number;
+let env: Record<string, string>;
 
 beforeAll(async () => {
   database = await createTestDatabase();
@@ -52,11 +54,12 @@ beforeAll(async () => {
     .values({ email: 'admin@cluster.test', name: 'Admin', passwordHash: await hash(PASSWORD) })
     .returning();
   await database.db.insert(schema.memberships).values({ userId: user!.id, farmId, role: 'admin' });
-  const env = {
+  env = {
     DATABASE_URL: database.url,
     JWT_SECRET: randomBytes(32).toString('hex'),
     DATA_DIR: join(dir, 'data'),
     LOGIN_MAX_FAILURES: String(MAX_FAILURES),
+    SHUTDOWN_DRAIN_MS: '1500',
   };
   processes = await Promise.all(
     [0, 1, 2].map(() => startApiProcess(env, { stdio: ['ignore', 'ignore', 'ignore'] })),
@@ -197,6 +200,91 @@ describe('three API processes on one database', () => {
     expect((await withLease(database.db, 'house:lease-test', 'p2', async () => 1)).ran).toBe(false);
     await slow;
   });
+
+  it('goes through a rolling restart behind the balancer losing no reading, and browsers reconnect', async () => {
+    const ports = processes.map((p) => Number(new URL(p.baseUrl).port));
+    const balancer = await startBalancer({ port: 0, targets: processes.map((p) => p.baseUrl) });
+    const url = `http://127.0.0.1:${balancer.port}`;
+    try {
+      const { token } = await signInThroughApi(url, 'admin@cluster.test', PASSWORD);
+      const key = await makeGatewayKey(url, token, farmId, 'rolling gateway');
+      // A browser: on a close it connects again after a moment (as the web app does) and watches again.
+      let socketsOpened = 0;
+      let snapshotsSinceLastOpen = 0;
+      let current: WebSocket | null = null;
+      let isDone = false;
+      const connect = () => {
+        const socket = new WebSocket(`${url.replace('http', 'ws')}/api/v1/live`);
+        current = socket;
+        socket.on('error', () => undefined);
+        socket.on('open', () => {
+          socketsOpened += 1;
+          snapshotsSinceLastOpen = 0;
+          socket.send(JSON.stringify({ type: 'auth', token }));
+          socket.send(JSON.stringify({ type: 'subscribe', houseId }));
+        });
+        socket.on('message', (data: Buffer) => {
+          const m = JSON.parse(data.toString('utf8')) as Message;
+          if (m.type === 'snapshot') snapshotsSinceLastOpen += 1;
+        });
+        socket.on('close', () => {
+          if (!isDone) setTimeout(connect, 200);
+        });
+      };
+      connect();
+      // A gateway: a batch every 50 ms, each sent again until it is taken (as the simulator does).
+      let sent = 0;
+      let refusals = 0;
+      let isPosting = true;
+      const base = Date.now() - 3_600_000;
+      const poster = (async () => {
+        for (let batch = 0; isPosting; batch++) {
+          const readings = [1, 2].map((row) => ({
+            counter: defaultBeltCounterId(houseId, { row, tier: 1 }),
+            ts: new Date(base + batch * 1000).toISOString(),
+            eggs: 1,
+          }));
+          while (
+            (await post({ baseUrl: url } as ApiProcess, key, readings).catch(() => 0)) !== 200
+          ) {
+            refusals += 1;
+            await new Promise((resolve) => setTimeout(resolve, 100));
+          }
+          sent += readings.length;
+          await new Promise((resolve) => setTimeout(resolve, 50));
+        }
+      })();
+      for (let i = 0; i < processes.length; i++) {
+        await new Promise((resolve) => setTimeout(resolve, 1000));
+        await processes[i]!.stop();
+        processes[i] = await startApiProcess(env, {
+          stdio: ['ignore', 'ignore', 'ignore'],
+          port: ports[i]!,
+        });
+      }
+      await until(() => balancer.ready().length === 3);
+      await new Promise((resolve) => setTimeout(resolve, 1000));
+      isPosting = false;
+      await poster;
+      await until(() => snapshotsSinceLastOpen > 0 && current?.readyState === WebSocket.OPEN);
+      isDone = true;
+      (current as WebSocket | null)?.close();
+      const stored = await database.db.execute<{ n: number }>(sql`
+        SELECT count(*)::int AS n FROM readings r JOIN counters k ON k.id = r.counter_id
+        WHERE k.house_id = ${houseId} AND r.ts >= ${new Date(base)}
+          AND r.ts < ${new Date(base + 3_000_000)}`); // not the first test's readings (a minute ago)
+      // Every reading the gateway was told was taken is stored, once; retries never counted twice.
+      expect(stored.rows[0]?.n).toBe(sent);
+      expect(sent).toBeGreaterThan(40);
+      // The browser was moved at least once and is connected again at the end.
+      expect(socketsOpened).toBeGreaterThan(1);
+      console.log(
+        `rolling restart: ${sent} readings taken, ${refusals} batches sent again, ${socketsOpened} socket connections`,
+      );
+    } finally {
+      await balancer.close();
+    }
+  }, 120_000);
 
   it('on SIGTERM stops taking work and tells its browsers to reconnect; the others go on', async () => {
     const [a, b] = processes as [ApiProcess, ApiProcess];

@@ -88,9 +88,13 @@ async function main(): Promise<void> {
   const stop = () => {
     if (isStopping) return;
     isStopping = true;
-    console.log('[api] stopping: finishing the work in hand');
     clearInterval(evaluateAll);
     clearInterval(housekeepingTimer);
+    // Readiness fails at once; a balancer stops sending here within its next check, then this closes.
+    console.log(`[api] stopping: taking no new work; closing in ${config.shutdownDrainMs} ms`);
+    setTimeout(closeDown, config.shutdownDrainMs);
+  };
+  const closeDown = () => {
     live.close();
     server.close();
     server.closeIdleConnections();

@@ -37,6 +37,8 @@ const configSchema = z.object({
     .int()
     .positive()
     .default(500 * 1024 * 1024),
+  /** after SIGTERM, how long the process fails readiness before it closes (a balancer moves on meanwhile) */
+  SHUTDOWN_DRAIN_MS: z.coerce.number().int().min(0).default(1500),
 });
 
 export interface AppConfig {
@@ -64,6 +66,7 @@ export interface AppConfig {
   photoMaxBytes: number;
   /** the largest historical export accepted (streamed to disk, never held in memory) */
   importMaxBytes: number;
+  shutdownDrainMs: number;
 }
 
 /** Reads the API's settings from the environment; a bad value stops the start with its name. */
@@ -95,5 +98,6 @@ export function loadConfig(env: NodeJS.ProcessEnv): AppConfig {
     dataDir: c.DATA_DIR,
     photoMaxBytes: c.PHOTO_MAX_BYTES,
     importMaxBytes: c.IMPORT_MAX_BYTES,
+    shutdownDrainMs: c.SHUTDOWN_DRAIN_MS,
   };
 }
