@@ -235,10 +235,10 @@ describe('three API processes on one database', () => {
       // A gateway: a batch every 50 ms, each sent again until it is taken (as the simulator does).
       let sent = 0;
       let refusals = 0;
-      let isPosting = true;
+      const posting = { isOn: true };
       const base = Date.now() - 3_600_000;
       const poster = (async () => {
-        for (let batch = 0; isPosting; batch++) {
+        for (let batch = 0; posting.isOn; batch++) {
           const readings = [1, 2].map((row) => ({
             counter: defaultBeltCounterId(houseId, { row, tier: 1 }),
             ts: new Date(base + batch * 1000).toISOString(),
@@ -264,7 +264,7 @@ describe('three API processes on one database', () => {
       }
       await until(() => balancer.ready().length === 3);
       await new Promise((resolve) => setTimeout(resolve, 1000));
-      isPosting = false;
+      posting.isOn = false;
       await poster;
       await until(() => snapshotsSinceLastOpen > 0 && current?.readyState === WebSocket.OPEN);
       isDone = true;
