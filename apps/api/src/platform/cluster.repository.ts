@@ -95,3 +95,38 @@ export async function deleteEventPayloadsBefore(db: Database, before: Date): Pro
 export async function notify(db: Database, channel: string, text: string): Promise<void> {
   await db.execute(sql`SELECT pg_notify(${channel}, ${text})`);
 }
+
+/**
+ * A process waiting to replay a house's past days says so (a row per process in `leases`, named
+ * `replay:<house>:<process>`), so no other process judges that house's today before the replay.
+ */
+export async function markReplayPending(
+  db: Database,
+  houseId: number,
+  holder: string,
+  ms: number,
+): Promise<void> {
+  await db.execute(sql`
+    INSERT INTO leases (name, holder, until)
+    VALUES (${`replay:${houseId}:${holder}`}, ${holder}, now() + make_interval(secs => ${ms / 1000}))
+    ON CONFLICT (name) DO UPDATE SET until = excluded.until`);
+}
+
+export async function isReplayPendingElsewhere(
+  db: Database,
+  houseId: number,
+  holder: string,
+): Promise<boolean> {
+  const result = await db.execute(sql`
+    SELECT 1 FROM leases
+    WHERE name LIKE ${`replay:${houseId}:%`} AND holder <> ${holder} AND until > now() LIMIT 1`);
+  return result.rows.length > 0;
+}
+
+export async function clearReplayPending(
+  db: Database,
+  houseId: number,
+  holder: string,
+): Promise<void> {
+  await db.execute(sql`DELETE FROM leases WHERE name = ${`replay:${houseId}:${holder}`}`);
+}

@@ -1,5 +1,10 @@
 import { randomUUID } from 'node:crypto';
 import { addDays, productionDayOf } from '@tierscope/domain';
+import {
+  clearReplayPending,
+  isReplayPendingElsewhere,
+  markReplayPending,
+} from '../../platform/cluster.repository';
 import { withLease } from '../../platform/leases';
 import type { EventBus } from '../../platform/events';
 import type { EvaluationService } from './evaluation.service';
@@ -12,6 +17,8 @@ export const EVALUATION_INTERVAL_MS = 2000;
 export const HISTORY_QUIET_MS = 3000;
 /** How long an evaluation waits for another process to finish the same house before trying later. */
 export const LEASE_WAIT_MS = 30_000;
+/** How long a replay mark holds other processes' live runs back (renewed as batches come; cleared after). */
+export const REPLAY_MARK_MS = 120_000;
 /** The lease a house's evaluation holds (platform/leases.ts). */
 export const houseLease = (houseId: number) => `house:${houseId}`;
 /** Readings younger than this are live data (no replay of past days). */
@@ -82,6 +89,8 @@ export class EvaluationScheduler {
     // Past days still to be replayed come first: judging today before them would judge it without the
     // exceptions and CUSUM they bring (the replay evaluates today itself when it ends).
     if (this.history.has(houseId) || this.replayingHouses.has(houseId)) return;
+    // …also when another process waits to replay them (it evaluates today after its replay).
+    if (await isReplayPendingElsewhere(this.db, houseId, this.holder)) return;
     const previous = this.running.get(houseId);
     if (previous) await previous;
     this.lastRun.set(houseId, Date.now());
@@ -114,6 +123,7 @@ export class EvaluationScheduler {
       maxDays: Math.max(maxDays, entry?.maxDays ?? 0),
       timer: setTimeout(() => void this.runHistory(houseId), HISTORY_QUIET_MS),
     });
+    this.markReplay(houseId);
   }
 
   private async runHistory(houseId: number): Promise<void> {
@@ -122,6 +132,7 @@ export class EvaluationScheduler {
     if (!entry) return;
     this.replaying += 1;
     this.replayingHouses.add(houseId);
+    this.markReplay(houseId);
     const previous = this.running.get(houseId);
     if (previous) await previous;
     try {
@@ -151,7 +162,19 @@ export class EvaluationScheduler {
     } finally {
       this.replayingHouses.delete(houseId);
       this.replaying -= 1;
+      if (!this.history.has(houseId)) {
+        await clearReplayPending(this.db, houseId, this.holder).catch((error: unknown) => {
+          this.log(`replay mark of house ${houseId} not cleared`, error);
+        });
+      }
     }
+  }
+
+  /** Tells the other processes a replay of this house is coming (their live runs wait for it). */
+  private markReplay(houseId: number): void {
+    markReplayPending(this.db, houseId, this.holder, REPLAY_MARK_MS).catch((error: unknown) => {
+      this.log(`replay mark of house ${houseId} not written`, error);
+    });
   }
 
   /** Evaluates every given house now (the periodic timer). */
