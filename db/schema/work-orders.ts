@@ -1,6 +1,7 @@
 import {
   bigint,
   boolean,
+  customType,
   date,
   index,
   integer,
@@ -81,7 +82,10 @@ export const workOrderChecklistItems = pgTable(
   (t) => [index('work_order_checklist_order_idx').on(t.workOrderId, t.position)],
 );
 
-/** Photos attached to a work order; the file lives under the data folder, named by its random key. */
+/**
+ * Photos attached to a work order. Their bytes are in `work_order_photo_contents` (every API process reads
+ * them there); photos taken before that lived under the data folder, named by their random key.
+ */
 export const workOrderPhotos = pgTable(
   'work_order_photos',
   {
@@ -92,7 +96,7 @@ export const workOrderPhotos = pgTable(
     farmId: integer('farm_id')
       .notNull()
       .references(() => farms.id, { onDelete: 'cascade' }),
-    /** random file name under the photos folder; never the uploader's name */
+    /** random key (the file name under the photos folder for older photos); never the uploader's name */
     storedName: text('stored_name').notNull(),
     originalName: text('original_name').notNull(),
     contentType: text('content_type').notNull(),
@@ -103,3 +107,16 @@ export const workOrderPhotos = pgTable(
   // A work order lists its photos.
   (t) => [index('work_order_photos_order_idx').on(t.workOrderId)],
 );
+
+const bytea = customType<{ data: Buffer; driverData: Buffer }>({ dataType: () => 'bytea' });
+
+/**
+ * A photo's bytes (re-encoded, at most 2,560 px a side, a few hundred KB), kept in PostgreSQL so any API
+ * process serves any photo (docs/adr/0005). A table of its own keeps photo lists light.
+ */
+export const workOrderPhotoContents = pgTable('work_order_photo_contents', {
+  photoId: integer('photo_id')
+    .primaryKey()
+    .references(() => workOrderPhotos.id, { onDelete: 'cascade' }),
+  content: bytea('content').notNull(),
+});

@@ -16,6 +16,7 @@ import {
   type ApiProcess,
 } from '../../scripts/processes';
 import { startBalancer } from '../../scripts/balancer';
+import { solidPng } from '../fixtures/images';
 import { withLease } from '../../apps/api/src/platform/leases';
 
 /**
@@ -57,12 +58,11 @@ beforeAll(async () => {
   env = {
     DATABASE_URL: database.url,
     JWT_SECRET: randomBytes(32).toString('hex'),
-    DATA_DIR: join(dir, 'data'),
     LOGIN_MAX_FAILURES: String(MAX_FAILURES),
     SHUTDOWN_DRAIN_MS: '1500',
   };
   processes = await Promise.all(
-    [0, 1, 2].map(() => startApiProcess(env, { stdio: ['ignore', 'ignore', 'ignore'] })),
+    [0, 1, 2].map((i) => startApiProcess(envOf(i), { stdio: ['ignore', 'ignore', 'ignore'] })),
   );
 }, 120_000);
 
@@ -71,6 +71,9 @@ afterAll(async () => {
   await database.drop();
   rmSync(dir, { recursive: true, force: true });
 });
+
+/** Each process its own data folder, as on separate machines: nothing may rely on another's disk. */
+const envOf = (i: number) => ({ ...env, DATA_DIR: join(dir, `data-${i}`) });
 
 type Message = { type: string; houseId?: number; [k: string]: unknown };
 
@@ -201,6 +204,41 @@ describe('three API processes on one database', () => {
     await slow;
   });
 
+  it('serves a photo uploaded through one process from another', async () => {
+    const [a, b] = processes as [ApiProcess, ApiProcess];
+    const { token } = await signInThroughApi(a.baseUrl, 'admin@cluster.test', PASSWORD);
+    const headers = { authorization: `Bearer ${token}` };
+    const created = await fetch(`${a.baseUrl}/api/v1/work-orders`, {
+      method: 'POST',
+      headers: { ...headers, 'content-type': 'application/json' },
+      body: JSON.stringify({ houseId, row: 1, tier: 1, title: 'Check the drinkers' }),
+    });
+    expect(created.status).toBe(201);
+    const order = (await created.json()) as { id: number };
+    const form = new FormData();
+    form.append(
+      'photos',
+      new Blob([solidPng(4, 3, [10, 200, 30])], { type: 'image/png' }),
+      'a.png',
+    );
+    const uploaded = await fetch(`${a.baseUrl}/api/v1/work-orders/${order.id}/photos`, {
+      method: 'POST',
+      headers,
+      body: form,
+    });
+    expect(uploaded.status).toBe(201);
+    const { photos } = (await uploaded.json()) as { photos: { id: number; bytes: number }[] };
+    const served = await fetch(
+      `${b.baseUrl}/api/v1/work-orders/${order.id}/photos/${photos[0]!.id}`,
+      {
+        headers,
+      },
+    );
+    expect(served.status).toBe(200);
+    expect(served.headers.get('content-type')).toBe('image/png');
+    expect((await served.arrayBuffer()).byteLength).toBe(photos[0]!.bytes);
+  });
+
   it('goes through a rolling restart behind the balancer losing no reading, and browsers reconnect', async () => {
     const ports = processes.map((p) => Number(new URL(p.baseUrl).port));
     const balancer = await startBalancer({ port: 0, targets: processes.map((p) => p.baseUrl) });
@@ -257,7 +295,7 @@ describe('three API processes on one database', () => {
       for (let i = 0; i < processes.length; i++) {
         await new Promise((resolve) => setTimeout(resolve, 1000));
         await processes[i]!.stop();
-        processes[i] = await startApiProcess(env, {
+        processes[i] = await startApiProcess(envOf(i), {
           stdio: ['ignore', 'ignore', 'ignore'],
           port: ports[i]!,
         });

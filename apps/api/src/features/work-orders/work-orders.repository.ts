@@ -6,6 +6,7 @@ const {
   workOrders,
   workOrderChecklistItems,
   workOrderPhotos,
+  workOrderPhotoContents,
   houses,
   farms,
   users,
@@ -179,6 +180,19 @@ export async function insertPhoto(db: Queryable, values: typeof workOrderPhotos.
   const [row] = await db.insert(workOrderPhotos).values(values).returning();
   if (!row) throw new Error('photo not inserted');
   return row;
+}
+
+export async function insertPhotoContent(db: Queryable, photoId: number, content: Buffer) {
+  await db.insert(workOrderPhotoContents).values({ photoId, content });
+}
+
+/** A photo's bytes, or undefined for a photo from before they were kept in the database. */
+export async function findPhotoContent(db: Queryable, photoId: number) {
+  const [row] = await db
+    .select({ content: workOrderPhotoContents.content })
+    .from(workOrderPhotoContents)
+    .where(eq(workOrderPhotoContents.photoId, photoId));
+  return row?.content;
 }
 
 export async function findPhoto(db: Queryable, workOrderId: number, photoId: number) {

@@ -1,4 +1,4 @@
-import { mkdtempSync, readdirSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { hash } from '@node-rs/argon2';
@@ -420,8 +420,13 @@ describe('photos', () => {
     const [sent, back] = await Promise.all([pixels(png), pixels(served.body as Buffer)]);
     expect(back.info).toMatchObject({ width: 4, height: 3, channels: 3 });
     expect(Buffer.compare(back.data, sent.data)).toBe(0);
-    // Stored under a random name in the farm's folder, never the uploader's.
-    expect(readdirSync(join(dataDir, 'photos', String(fixture.farmA)))).not.toContain('feeder.png');
+    // Kept in the database (any API process serves it), not on this process's disk.
+    const kept = await database.db
+      .select({ content: schema.workOrderPhotoContents.content })
+      .from(schema.workOrderPhotoContents)
+      .where(eq(schema.workOrderPhotoContents.photoId, photo.id as number));
+    expect(Buffer.compare(kept[0]!.content, served.body as Buffer)).toBe(0);
+    expect(existsSync(join(dataDir, 'photos'))).toBe(false);
 
     const otherFarm = await request(app)
       .get(`/api/v1/work-orders/${order.id}/photos/${photo.id}`)

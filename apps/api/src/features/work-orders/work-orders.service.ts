@@ -1,5 +1,5 @@
 import { randomBytes } from 'node:crypto';
-import { mkdir, readFile, rm, writeFile } from 'node:fs/promises';
+import { readFile } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import type {
   Assignee,
@@ -46,6 +46,8 @@ import {
   findPhoto,
   findWorkOrder,
   insertPhoto,
+  insertPhotoContent,
+  findPhotoContent,
   insertWorkOrder,
   listWorkOrders,
   photosOf,
@@ -509,39 +511,29 @@ export function createWorkOrdersService(options: {
         ]);
       }
       const decoded = await readPhotos(files);
-      const folder = join(photosDir, String(row.order.farmId));
-      await mkdir(folder, { recursive: true });
-      const written: string[] = [];
-      try {
-        await db.transaction(async (tx) => {
-          for (const { file, mime, extension, image } of decoded) {
-            const storedName = `${randomBytes(16).toString('hex')}.${extension}`;
-            await writeFile(join(folder, storedName), image, { mode: 0o600 });
-            written.push(storedName);
-            await insertPhoto(tx, {
-              workOrderId: id,
-              farmId: row.order.farmId,
-              storedName,
-              originalName: file.originalName,
-              contentType: mime,
-              bytes: image.length,
-              uploadedBy: ctx.user.id,
-            });
-          }
-          await recordAudit(tx, {
+      await db.transaction(async (tx) => {
+        for (const { file, mime, extension, image } of decoded) {
+          const photo = await insertPhoto(tx, {
+            workOrderId: id,
             farmId: row.order.farmId,
-            actorUserId: ctx.user.id,
-            action: 'workOrder.photos',
-            entity: 'work_order',
-            entityId: id,
-            after: { added: written.length },
+            storedName: `${randomBytes(16).toString('hex')}.${extension}`,
+            originalName: file.originalName,
+            contentType: mime,
+            bytes: image.length,
+            uploadedBy: ctx.user.id,
           });
+          // The bytes in the database, with their record: any API process serves them.
+          await insertPhotoContent(tx, photo.id, image);
+        }
+        await recordAudit(tx, {
+          farmId: row.order.farmId,
+          actorUserId: ctx.user.id,
+          action: 'workOrder.photos',
+          entity: 'work_order',
+          entityId: id,
+          after: { added: decoded.length },
         });
-      } catch (error) {
-        // The records were rolled back: remove the files written for them, then report the failure.
-        await Promise.all(written.map((name) => rm(join(folder, name), { force: true })));
-        throw error;
-      }
+      });
       return fresh(ctx, id, role);
     },
 
@@ -549,12 +541,13 @@ export function createWorkOrdersService(options: {
       const { row } = await visible(ctx, id);
       const found = await findPhoto(db, id, photoId);
       if (found?.farmId !== row.order.farmId) throw notFound('Photo');
-      const body = await readFile(join(photosDir, String(found.farmId), found.storedName)).catch(
-        () => {
+      // Photos from before their bytes were kept in the database are read from the data folder.
+      const body =
+        (await findPhotoContent(db, found.id)) ??
+        (await readFile(join(photosDir, String(found.farmId), found.storedName)).catch(() => {
           // The record outlived its file (a restored database, a cleaned folder): say so plainly.
           throw notFound('Photo file');
-        },
-      );
+        }));
       return { contentType: found.contentType, body, name: found.originalName };
     },
 
