@@ -88,7 +88,9 @@ export async function startBalancer(options: {
   server.keepAliveTimeout = 65_000;
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
-    server.listen(options.port, options.host ?? '127.0.0.1', () => { resolve(); });
+    server.listen(options.port, options.host ?? '127.0.0.1', () => {
+      resolve();
+    });
   });
   const address = server.address();
   return {

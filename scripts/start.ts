@@ -12,13 +12,16 @@ import { createServer } from 'node:net';
 import { join } from 'node:path';
 import { openDatabase, runMigrations } from '@tierscope/db';
 import {
+  DEMO_LIGHTS_ON,
   DEMO_PASSWORD,
+  DEMO_TIMEZONE,
   DEMO_USERS,
   demoFlocks,
   hasReadings,
   isEmpty,
   seedDemo,
 } from '@tierscope/db/seed';
+import { addDays, productionDayOf, productionDayStart } from '@tierscope/domain';
 import { startMailCatcher, type MailCatcher } from '@tierscope/mail-catcher';
 import { DEMO_FAULTS, DEMO_SIMULATOR_SEED, writeDemoHistory } from './demo-history';
 import { prepareSimulatorFarms } from './demo-simulator';
@@ -162,9 +165,17 @@ async function main(): Promise<void> {
     log('database already has data: demo seed skipped (npm start -- --reset to start over)');
   }
   const isHistoryMissing = !(await hasReadings(database.db));
+  let backfillFrom: Date | null = null;
   if (isHistoryMissing) {
-    // Older days as daily totals; the simulator backfills the last 14 days reading by reading.
-    const lastDay = new Date(Date.now() - 15 * 86_400_000).toISOString().slice(0, 10);
+    // Older days as daily totals; the simulator backfills the last 14 days reading by reading, from the
+    // lights-on of the production day 14 days ago (so that day is whole: not half history, half missing).
+    const backfillDay = productionDayOf(
+      new Date(Date.now() - 14 * 86_400_000),
+      DEMO_TIMEZONE,
+      DEMO_LIGHTS_ON,
+    );
+    backfillFrom = productionDayStart(backfillDay, DEMO_TIMEZONE, DEMO_LIGHTS_ON);
+    const lastDay = addDays(backfillDay, -1);
     const days = await writeDemoHistory(database.db, lastDay);
     log(`demo history: ${days} house-days of daily totals and morning walks up to ${lastDay}`);
   }
@@ -230,7 +241,9 @@ async function main(): Promise<void> {
     String(DEMO_SIMULATOR_SEED),
     '--interval',
     '1',
-    ...(isHistoryMissing ? ['--backfill-days', '14', '--backfill-interval', '15'] : []),
+    ...(backfillFrom
+      ? ['--backfill-from', backfillFrom.toISOString(), '--backfill-interval', '15']
+      : []),
     // The demo's planted faults (DESIGN.md).
     ...DEMO_FAULTS.flatMap((fault) => ['--fault', fault]),
   ];
@@ -244,9 +257,7 @@ async function main(): Promise<void> {
     if (!isStopping)
       console.error(`[start] the simulator exited (${code}); the app keeps running without it`);
   });
-  log(
-    isHistoryMissing ? 'simulator: backfilling 14 days of history, then live' : 'simulator: live',
-  );
+  log(backfillFrom ? 'simulator: backfilling 14 days of history, then live' : 'simulator: live');
 
   console.log('');
   console.log(`  Tierscope is running at ${url}`);

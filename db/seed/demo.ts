@@ -49,6 +49,8 @@ const DEMO_FARMS = [
 ] as const;
 
 export const DEMO_TIMEZONE = 'America/Chicago';
+/** Every demo house's lights go on at this local time. */
+export const DEMO_LIGHTS_ON = '04:00';
 
 /** True when the database holds no farm yet; the demo is only ever seeded into an empty database. */
 export async function isEmpty(db: Database): Promise<boolean> {
@@ -74,7 +76,7 @@ export async function seedDemo(
           rows: 6,
           tiers: 3,
           timezone: DEMO_TIMEZONE,
-          lightsOn: '04:00',
+          lightsOn: DEMO_LIGHTS_ON,
           photoperiodHours: 16,
           shortfallThresholdPct: 10,
           // An invented price, so eggs lost to exceptions carry a money figure in the demo.

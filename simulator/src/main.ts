@@ -22,6 +22,8 @@ Usage: npm run simulate -- --farm-file FILE [--farm-file FILE …] [options]
   --section-noise S       realistic model: σ of each section's day-to-day factor (default 0.025)
   --backfill-days N       first post N days of history, as fast as the API takes it (default 0)
   --backfill-interval M   minutes between history readings (default 15)
+  --backfill-from ISO     start the backfill at this instant instead (e.g. a lights-on, so its first
+                          production day is whole)
   --interval M            minutes between live readings (default 1)
   --speed S               1 = real time; up to 1440 (a simulated day per minute). Above 1, the day before the
                           start is replayed at that speed, then the simulator keeps pace with the clock
@@ -71,6 +73,7 @@ async function main(): Promise<void> {
       'section-noise': { type: 'string' },
       'backfill-days': { type: 'string', default: '0' },
       'backfill-interval': { type: 'string', default: '15' },
+      'backfill-from': { type: 'string' },
       interval: { type: 'string', default: '1' },
       speed: { type: 'string', default: '1' },
       duration: { type: 'string' },
@@ -161,9 +164,12 @@ async function main(): Promise<void> {
   process.on('SIGTERM', () => void finish(0));
 
   const liveStart = floorTo(speed > 1 ? new Date(start.getTime() - 86_400_000) : start, interval);
-  if (backfillDays > 0) {
+  const backfillFrom = values['backfill-from'] ? new Date(values['backfill-from']) : null;
+  if (backfillFrom && (Number.isNaN(backfillFrom.getTime()) || backfillFrom >= liveStart))
+    throw new Error('--backfill-from must be a time before now');
+  if (backfillDays > 0 || backfillFrom) {
     const from = floorTo(
-      new Date(liveStart.getTime() - backfillDays * 86_400_000),
+      backfillFrom ?? new Date(liveStart.getTime() - backfillDays * 86_400_000),
       backfillInterval,
     );
     log(`backfilling ${backfillDays} days from ${from.toISOString()}…`);

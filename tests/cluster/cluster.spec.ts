@@ -218,7 +218,7 @@ describe('three API processes on one database', () => {
     const form = new FormData();
     form.append(
       'photos',
-      new Blob([solidPng(4, 3, [10, 200, 30])], { type: 'image/png' }),
+      new Blob([new Uint8Array(solidPng(4, 3, [10, 200, 30]))], { type: 'image/png' }),
       'a.png',
     );
     const uploaded = await fetch(`${a.baseUrl}/api/v1/work-orders/${order.id}/photos`, {
