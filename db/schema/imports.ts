@@ -5,12 +5,14 @@ import {
   jsonb,
   pgEnum,
   pgTable,
+  primaryKey,
   serial,
   text,
   timestamp,
   unique,
 } from 'drizzle-orm/pg-core';
 import { IMPORT_STATES } from '@tierscope/domain';
+import { bytea } from './bytea';
 import { farms } from './farms';
 import { houses } from './houses';
 import { users } from './users';
@@ -87,4 +89,18 @@ export const importMappings = pgTable(
   },
   // A farm's mappings are chosen by name; saving the same name again replaces it.
   (t) => [unique('import_mappings_farm_name_unique').on(t.farmId, t.name)],
+);
+
+/**
+ * An uploaded export's bytes in 1 MiB pieces, kept in PostgreSQL from upload until its import ends, so any
+ * API process can run (or take over) the import (docs/adr/0005). Keyed by the upload's stored name.
+ */
+export const importFileChunks = pgTable(
+  'import_file_chunks',
+  {
+    storedName: text('stored_name').notNull(),
+    seq: integer('seq').notNull(),
+    data: bytea('data').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.storedName, t.seq] })],
 );

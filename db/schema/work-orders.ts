@@ -1,7 +1,6 @@
 import {
   bigint,
   boolean,
-  customType,
   date,
   index,
   integer,
@@ -13,6 +12,7 @@ import {
   timestamp,
 } from 'drizzle-orm/pg-core';
 import { FINDING_CAUSES, WORK_ORDER_PRIORITIES, WORK_ORDER_STATES } from '@tierscope/domain';
+import { bytea } from './bytea';
 import { farms } from './farms';
 import { houses } from './houses';
 import { users } from './users';
@@ -107,8 +107,6 @@ export const workOrderPhotos = pgTable(
   // A work order lists its photos.
   (t) => [index('work_order_photos_order_idx').on(t.workOrderId)],
 );
-
-const bytea = customType<{ data: Buffer; driverData: Buffer }>({ dataType: () => 'bytea' });
 
 /**
  * A photo's bytes (re-encoded, at most 2,560 px a side, a few hundred KB), kept in PostgreSQL so any API

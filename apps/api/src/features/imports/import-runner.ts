@@ -1,7 +1,5 @@
 import { randomUUID } from 'node:crypto';
-import { createReadStream } from 'node:fs';
-import { rm } from 'node:fs/promises';
-import { join } from 'node:path';
+import type { Readable } from 'node:stream';
 import { importMappingSchema, type ImportMapping } from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
 import {
@@ -15,6 +13,7 @@ import {
 import { parse, type Info } from 'csv-parse';
 import type { EventBus } from '../../platform/events';
 import { withLease } from '../../platform/leases';
+import { openImportFile, removeImportFile } from './import-files';
 import { copyReadingsInChunks } from '../ingest/bulk-ingest.repository';
 import { ensureReadingPartitions } from '../ingest/ingest.repository';
 import {
@@ -159,9 +158,9 @@ export class ImportRunner {
   private async run(id: number): Promise<void> {
     const found = await findImport(this.db, id);
     if (!found || found.import.state === 'done' || found.import.state === 'cancelled') return;
-    const path = join(this.importsDir, found.import.storedName);
+    const file = found.import.storedName;
     if (found.import.cancelRequestedAt) {
-      await this.finish(id, path, { state: 'cancelled', message: 'Cancelled before it started' });
+      await this.finish(id, file, { state: 'cancelled', message: 'Cancelled before it started' });
       return;
     }
     // From the start: counts of an earlier, interrupted run are recounted (the readings themselves are not).
@@ -180,8 +179,8 @@ export class ImportRunner {
     if (started) this.emit(started);
     try {
       const mapping = importMappingSchema.parse(found.import.mapping);
-      const result = await this.load(found.import, path, mapping);
-      const done = await this.finish(id, path, {
+      const result = await this.load(found.import, file, mapping);
+      const done = await this.finish(id, file, {
         state: 'done',
         ...result,
         message: null,
@@ -200,17 +199,17 @@ export class ImportRunner {
       }
     } catch (error) {
       if (error instanceof Cancelled) {
-        await this.finish(id, path, {
+        await this.finish(id, file, {
           state: 'cancelled',
           message: 'Cancelled; readings loaded so far are kept',
         });
       } else if (error instanceof MappingProblem) {
-        await this.finish(id, path, { state: 'failed', message: error.message }, true);
+        await this.finish(id, file, { state: 'failed', message: error.message }, true);
       } else {
         this.log(`import ${id} failed`, error);
         await this.finish(
           id,
-          path,
+          file,
           {
             state: 'failed',
             message: 'The import stopped on an unexpected error; it can be run again',
@@ -223,20 +222,26 @@ export class ImportRunner {
 
   private async finish(
     id: number,
-    path: string,
+    file: string,
     patch: Parameters<typeof updateImport>[2],
     isFileKept = false,
   ): Promise<ImportRow | undefined> {
     const row = await updateImport(this.db, id, { ...patch, finishedAt: new Date() });
     if (row) this.emit(row);
-    if (!isFileKept) await rm(path, { force: true });
+    if (!isFileKept) await removeImportFile(this.db, this.importsDir, file);
     return row;
   }
 
-  private async load(row: ImportRow, path: string, mapping: ImportMapping) {
+  private async load(row: ImportRow, file: string, mapping: ImportMapping) {
     const counters = await houseCounters(this.db, row.houseId);
-    const delimiter = mapping.delimiter ?? detectDelimiter(await readSample(path));
-    const stream = createReadStream(path);
+    const delimiter =
+      mapping.delimiter ??
+      detectDelimiter(
+        await readSample(
+          await openImportFile(this.db, this.importsDir, file, { firstBytes: 65_536 }),
+        ),
+      );
+    const stream = await openImportFile(this.db, this.importsDir, file);
     const parser = parse({
       delimiter,
       record_delimiter: LINE_ENDINGS,
@@ -372,9 +377,9 @@ export class ImportRunner {
 }
 
 /** The first 64 KB of a file, to detect its delimiter. */
-async function readSample(path: string): Promise<string> {
+async function readSample(stream: Readable): Promise<string> {
   const chunks: Buffer[] = [];
-  for await (const chunk of createReadStream(path, { start: 0, end: 65_535 })) {
+  for await (const chunk of stream) {
     chunks.push(chunk as Buffer);
   }
   return Buffer.concat(chunks).toString('utf8');

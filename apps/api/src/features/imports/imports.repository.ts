@@ -7,7 +7,16 @@ import pg from 'pg';
 export const MAX_IMPORT_MESSAGE_LENGTH = 500;
 const MAX_COLUMN_NAME_LENGTH = 100;
 
-const { imports, importErrors, importMappings, houses, users, counters, sections } = schema;
+const {
+  imports,
+  importErrors,
+  importMappings,
+  importFileChunks,
+  houses,
+  users,
+  counters,
+  sections,
+} = schema;
 
 export type ImportRow = typeof imports.$inferSelect;
 export type NewImport = typeof imports.$inferInsert;
@@ -153,4 +162,31 @@ export async function findMapping(db: Queryable, id: number) {
 
 export async function deleteMapping(db: Queryable, id: number): Promise<void> {
   await db.delete(importMappings).where(eq(importMappings.id, id));
+}
+
+/** Keeps one piece of an uploaded file (see import-files.ts). */
+export async function insertFileChunk(
+  db: Queryable,
+  storedName: string,
+  seq: number,
+  data: Buffer,
+): Promise<void> {
+  await db.insert(importFileChunks).values({ storedName, seq, data });
+}
+
+/** One piece of a kept file, or undefined past its end (or for a file kept on disk). */
+export async function findFileChunk(
+  db: Queryable,
+  storedName: string,
+  seq: number,
+): Promise<Buffer | undefined> {
+  const [row] = await db
+    .select({ data: importFileChunks.data })
+    .from(importFileChunks)
+    .where(and(eq(importFileChunks.storedName, storedName), eq(importFileChunks.seq, seq)));
+  return row?.data;
+}
+
+export async function deleteFileChunks(db: Queryable, storedName: string): Promise<void> {
+  await db.delete(importFileChunks).where(eq(importFileChunks.storedName, storedName));
 }

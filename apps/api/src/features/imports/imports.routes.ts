@@ -114,6 +114,7 @@ export function importsRoutes(
             houseId,
             {
               storedName: file.filename,
+              path: file.path,
               fileName: cleanText(file.originalname, MAX_FILE_NAME_LENGTH),
               bytes: file.size,
             },

@@ -4,6 +4,7 @@ import {
   type ImportStatus,
   type SavedMapping,
 } from '@tierscope/contracts';
+import { rm } from 'node:fs/promises';
 import type { Database } from '@tierscope/db';
 import { toCsv } from '@tierscope/domain';
 import { farmsWith, requireFarmPermission } from '../../platform/access';
@@ -24,12 +25,16 @@ import {
   updateImport,
 } from './imports.repository';
 
+import { keepUpload } from './import-files';
+
 /** Errors shown with an import's status; the CSV download holds all that were kept. */
 const ERRORS_SHOWN = 100;
 
 export interface StoredUpload {
-  /** name under the imports folder */
+  /** the upload's random name (its pieces in the database are kept under it) */
   storedName: string;
+  /** where the upload is on this process's disk until it is kept in the database */
+  path: string;
   fileName: string;
   bytes: number;
 }
@@ -123,8 +128,11 @@ export function createImportsService(db: Database, runner: ImportRunner): Import
           entityId: created.id,
           after: { houseId: house.id, fileName: created.fileName, bytes: created.bytes, mapping },
         });
+        // The file with its row: any process can run the import, or take it over.
+        await keepUpload(tx, upload.path, upload.storedName);
         return created;
       });
+      await rm(upload.path, { force: true });
       runner.enqueue(row.id);
       return toStatus({ import: row, houseName: house.name, createdByName: ctx.user.name }, false);
     },
