@@ -103,9 +103,9 @@ async function watcher(api: ApiProcess, token: string) {
   return { socket, messages, closed };
 }
 
-async function until(isDone: () => boolean, timeoutMs = 20_000): Promise<void> {
+async function until(isDone: () => boolean | Promise<boolean>, timeoutMs = 20_000): Promise<void> {
   const deadline = Date.now() + timeoutMs;
-  while (!isDone()) {
+  while (!(await isDone())) {
     if (Date.now() > deadline) throw new Error('timed out waiting');
     await new Promise((resolve) => setTimeout(resolve, 25));
   }
@@ -386,11 +386,73 @@ describe('three API processes on one database', () => {
     }
   }, 120_000);
 
+  it('finishes an import on another process when the one running it is killed (SIGKILL)', async () => {
+    const [a] = processes as [ApiProcess];
+    const { token } = await signInThroughApi(a.baseUrl, 'admin@cluster.test', PASSWORD);
+    const lines = ['timestamp,row,tier,eggs'];
+    const IMPORT_LINES = 80_000;
+    const start = Date.UTC(2026, 5, 1);
+    for (let i = 0; i < IMPORT_LINES; i++) {
+      const section = i % 4;
+      const ts = new Date(start + Math.floor(i / 4) * 300_000).toISOString();
+      lines.push(`${ts},${Math.floor(section / 2) + 1},${(section % 2) + 1},${i % 13}`);
+    }
+    const form = new FormData();
+    form.set(
+      'mapping',
+      JSON.stringify({
+        layout: 'long',
+        timestamp: 'timestamp',
+        timezone: 'UTC',
+        row: 'row',
+        tier: 'tier',
+        eggs: 'eggs',
+      }),
+    );
+    form.set('file', new Blob([lines.join('\n') + '\n'], { type: 'text/csv' }), 'export.csv');
+    const started = await fetch(`${a.baseUrl}/api/v1/houses/${houseId}/imports`, {
+      method: 'POST',
+      headers: { authorization: `Bearer ${token}` },
+      body: form,
+    });
+    expect(started.status).toBe(202);
+    const { id } = (await started.json()) as { id: number };
+    const importedSoFar = async () =>
+      (
+        await database.db.execute<{ n: number }>(sql`
+          SELECT count(*)::int AS n FROM readings r JOIN counters k ON k.id = r.counter_id
+          WHERE k.house_id = ${houseId} AND r.ts >= ${new Date(start)} AND r.ts < ${new Date(start + 80 * 86_400_000)}`)
+      ).rows[0]!.n;
+    await until(async () => (await importedSoFar()) > 0, 60_000);
+    process.kill(-a.child.pid!, 'SIGKILL');
+    await new Promise((resolve) => a.child.once('exit', resolve));
+    // A running import whose process died: another one takes it over (its own data folder holds no file).
+    const b = processes[1]!;
+    let status: { state: string; readingsAdded: number; duplicates: number; linesRead: number };
+    const deadline = Date.now() + 170_000;
+    for (;;) {
+      const response = await fetch(`${b.baseUrl}/api/v1/imports/${id}`, {
+        headers: { authorization: `Bearer ${token}` },
+      });
+      status = (await response.json()) as typeof status;
+      if (status.state === 'done' || status.state === 'failed') break;
+      if (Date.now() > deadline) throw new Error(`the import did not end (${status.state})`);
+      await new Promise((resolve) => setTimeout(resolve, 250));
+    }
+    expect(status.state).toBe('done');
+    expect(status.linesRead).toBe(IMPORT_LINES);
+    expect(await importedSoFar()).toBe(IMPORT_LINES);
+    processes[0] = await startApiProcess(envOf(0), { stdio: ['ignore', 'ignore', 'ignore'] });
+  }, 200_000);
+
   it('on SIGTERM stops taking work and tells its browsers to reconnect; the others go on', async () => {
     const [a, b] = processes as [ApiProcess, ApiProcess];
     const { token } = await signInThroughApi(b.baseUrl, 'admin@cluster.test', PASSWORD);
     const onA = await watcher(a, token);
     const onB = await watcher(b, token);
+    const live = (await (await fetch(`${a.baseUrl}/api/health/live`)).json()) as {
+      process: string;
+    };
     await a.stop();
     // 1012: "service restart" — the browser connects again, to a process still running.
     expect(await onA.closed).toBe(1012);
@@ -401,10 +463,11 @@ describe('three API processes on one database', () => {
     expect(again.messages.some((m) => m.type === 'snapshot')).toBe(true);
     onB.socket.close();
     again.socket.close();
-    // No lease is left behind by the stopped process.
+    // The stopped process gave back every lease it held.
     const left = await database.db.execute(
-      sql`SELECT name FROM leases WHERE until > now() AND name LIKE 'house:%' AND name <> 'house:lease-test'`,
+      sql`SELECT name FROM leases WHERE holder = ${live.process} AND until > now()`,
     );
+    expect(live.process).toMatch(/^[0-9a-f-]{36}$/);
     expect(left.rows).toEqual([]);
   });
 });

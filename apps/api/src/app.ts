@@ -158,7 +158,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
 
   app.use(
     '/api',
-    healthRoutes(() => pingDatabase(db), API_VERSION, deps.isReady ?? (() => true)),
+    healthRoutes(() => pingDatabase(db), API_VERSION, deps.isReady ?? (() => true), deps.holder),
   );
 
   const v1 = express.Router();

@@ -6,6 +6,7 @@ import { maintainReadingPartitions } from './features/ingest/retention';
 import { loadConfig } from './platform/config';
 import { createClusterEventBus } from './platform/cluster-events';
 import { claimLease } from './platform/leases';
+import { releaseAllLeases } from './platform/cluster.repository';
 
 /** How often the cluster evaluates every house (silent counters) and looks for abandoned imports. */
 const SWEEP_MS = 60_000;
@@ -47,6 +48,7 @@ async function main(): Promise<void> {
     config,
     runtime,
     log,
+    holder,
     isReady: () => !isStopping,
   });
   runtime.notifier.start();
@@ -107,6 +109,7 @@ async function main(): Promise<void> {
       ]);
       runtime.scheduler.dispose();
       runtime.mailer.close();
+      await releaseAllLeases(database.db, holder);
       await events.close();
       await database.close();
     };

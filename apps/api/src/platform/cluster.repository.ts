@@ -130,3 +130,8 @@ export async function clearReplayPending(
 ): Promise<void> {
   await db.execute(sql`DELETE FROM leases WHERE name = ${`replay:${houseId}:${holder}`}`);
 }
+
+/** Everything a stopping process holds goes back: its work is taken up by the others at once. */
+export async function releaseAllLeases(db: Database, holder: string): Promise<void> {
+  await db.execute(sql`DELETE FROM leases WHERE holder = ${holder}`);
+}
