@@ -1,8 +1,9 @@
 /**
- * npm run bench:ingest [-- --rows 1000000 --clients 4 --batch 10000]
+ * npm run bench:ingest [-- --rows 1000000 --clients 4 --batch 10000 --processes 2]
  *
  * Loads the same generated readings three ways, each into a fresh database with the same keys, in one run:
- *   (a) the HTTP ingest API (a separate API process, several concurrent clients, 10,000-reading batches),
+ *   (a) the HTTP ingest API (a separate API process, several concurrent clients, 10,000-reading batches;
+ *       with --processes N also N API processes on one database, the clients spread over them),
  *   (b) the bulk path the historical importer uses (COPY into staging, then INSERT … ON CONFLICT + rollups),
  *   (c) psql \copy into a plain table with the same primary key — the baseline.
  * Prints rows/s, the ratios a/c and b/c and the API's peak RSS; the last line is one JSON object.
@@ -32,11 +33,14 @@ const { values } = parseArgs({
     rows: { type: 'string', default: '1000000' },
     clients: { type: 'string', default: '4' },
     batch: { type: 'string', default: '10000' },
+    processes: { type: 'string', default: '1' },
   },
 });
 const ROWS = Number(values.rows);
 const CLIENTS = Number(values.clients);
 const BATCH = Number(values.batch);
+/** With N > 1, (a) runs twice in the same run: one API process, then N on the same database kind. */
+const PROCESSES = Number(values.processes);
 const HOUSES = 10;
 
 /** A farm of 10 houses (6 rows × 3 tiers and a collector each): 190 counters. */
@@ -84,6 +88,79 @@ function peakRssMb(pid: number): number {
   return Math.round(kb / 1024);
 }
 
+/**
+ * Posts every generated reading through `processes` API processes on one database (the clients take the
+ * processes in turn) and returns the time taken and the largest peak RSS of them.
+ */
+async function runApi(url: string, processes: number) {
+  const farm = await prepareFarm(url);
+  const counterCount = farm.counters.length;
+  const [user] = await farm.database.db
+    .insert(schema.users)
+    .values({
+      email: 'bench@bench.test',
+      name: 'Bench',
+      passwordHash: await hash('bench-password'),
+    })
+    .returning();
+  if (!user) throw new Error('no user');
+  await farm.database.db
+    .insert(schema.memberships)
+    .values({ userId: user.id, farmId: farm.farmId, role: 'integrator' });
+  const servers = await Promise.all(
+    Array.from({ length: processes }, () =>
+      startApiProcess({
+        DATABASE_URL: url,
+        JWT_SECRET: 'bench-secret-bench-secret-bench-secret-0123',
+      }),
+    ),
+  );
+  const first = servers[0];
+  if (!first) throw new Error('no API process');
+  const login = await signInThroughApi(first.baseUrl, 'bench@bench.test', 'bench-password');
+  const key = await makeGatewayKey(first.baseUrl, login.token, farm.farmId, 'bench');
+  const batches = Math.ceil(ROWS / BATCH);
+  let next = 0;
+  let accepted = 0;
+  const started = performance.now();
+  await Promise.all(
+    Array.from({ length: CLIENTS }, async (_, client) => {
+      const apiUrl = (servers[client % servers.length] ?? first).baseUrl;
+      for (;;) {
+        const b = next++;
+        if (b >= batches) return;
+        const readings = [];
+        for (let i = b * BATCH; i < Math.min(ROWS, (b + 1) * BATCH); i++) {
+          const r = reading(i, counterCount);
+          readings.push({
+            counter: counterAt(farm.counters, r.counterIndex).externalId,
+            ts: r.ts.toISOString(),
+            eggs: r.eggs,
+          });
+        }
+        const response = await fetch(`${apiUrl}/api/v1/ingest/readings`, {
+          method: 'POST',
+          headers: { 'content-type': 'application/json', authorization: `Bearer ${key}` },
+          body: JSON.stringify({ readings }),
+        });
+        if (!response.ok)
+          throw new Error(`ingest answered ${response.status}: ${await response.text()}`);
+        accepted += ((await response.json()) as { accepted: number }).accepted;
+      }
+    }),
+  );
+  const seconds = (performance.now() - started) / 1000;
+  const peak = Math.max(...servers.map((s) => (s.child.pid ? peakRssMb(s.child.pid) : 0)));
+  await Promise.all(servers.map((s) => s.stop()));
+  await farm.database.close();
+  if (accepted !== ROWS) throw new Error(`API accepted ${accepted} of ${ROWS}`);
+  console.log(
+    `[bench] (a) API, ${processes} process${processes > 1 ? 'es' : ''}, ${CLIENTS} clients × ${BATCH}/batch: ` +
+      `${seconds.toFixed(1)} s, ${Math.round(ROWS / seconds).toLocaleString()} rows/s, peak RSS ${peak} MB`,
+  );
+  return { farm, seconds, peakRssMb: peak };
+}
+
 async function main(): Promise<void> {
   const bin = ensurePostgres();
   const dir = mkdtempSync(join(tmpdir(), 'tierscope-bench-'));
@@ -95,68 +172,16 @@ async function main(): Promise<void> {
   const cluster = startCluster({
     dir: join(dir, 'pg'),
     port: pgPort,
-    databases: ['bench_api', 'bench_bulk', 'bench_copy'],
+    databases: ['bench_api', 'bench_api_n', 'bench_bulk', 'bench_copy'],
   });
   try {
-    // (a) the API
-    const api = await prepareFarm(cluster.url('bench_api'));
+    // (a) the API: one process, then (with --processes N) N processes on one database
+    const single = await runApi(cluster.url('bench_api'), 1);
+    const api = single.farm;
     const counterCount = api.counters.length;
-    const [user] = await api.database.db
-      .insert(schema.users)
-      .values({
-        email: 'bench@bench.test',
-        name: 'Bench',
-        passwordHash: await hash('bench-password'),
-      })
-      .returning();
-    if (!user) throw new Error('no user');
-    await api.database.db
-      .insert(schema.memberships)
-      .values({ userId: user.id, farmId: api.farmId, role: 'integrator' });
-    const server = await startApiProcess({
-      DATABASE_URL: cluster.url('bench_api'),
-      JWT_SECRET: 'bench-secret-bench-secret-bench-secret-0123',
-    });
-    const apiUrl = server.baseUrl;
-    const login = await signInThroughApi(apiUrl, 'bench@bench.test', 'bench-password');
-    const gateway = { key: await makeGatewayKey(apiUrl, login.token, api.farmId, 'bench') };
-    const batches = Math.ceil(ROWS / BATCH);
-    let next = 0;
-    let accepted = 0;
-    const apiStart = performance.now();
-    await Promise.all(
-      Array.from({ length: CLIENTS }, async () => {
-        for (;;) {
-          const b = next++;
-          if (b >= batches) return;
-          const readings = [];
-          for (let i = b * BATCH; i < Math.min(ROWS, (b + 1) * BATCH); i++) {
-            const r = reading(i, counterCount);
-            readings.push({
-              counter: counterAt(api.counters, r.counterIndex).externalId,
-              ts: r.ts.toISOString(),
-              eggs: r.eggs,
-            });
-          }
-          const response = await fetch(`${apiUrl}/api/v1/ingest/readings`, {
-            method: 'POST',
-            headers: { 'content-type': 'application/json', authorization: `Bearer ${gateway.key}` },
-            body: JSON.stringify({ readings }),
-          });
-          if (!response.ok)
-            throw new Error(`ingest answered ${response.status}: ${await response.text()}`);
-          accepted += ((await response.json()) as { accepted: number }).accepted;
-        }
-      }),
-    );
-    const apiSeconds = (performance.now() - apiStart) / 1000;
-    const apiRss = server.child.pid ? peakRssMb(server.child.pid) : 0;
-    await server.stop();
-    await api.database.close();
-    if (accepted !== ROWS) throw new Error(`API accepted ${accepted} of ${ROWS}`);
-    console.log(
-      `[bench] (a) API, ${CLIENTS} clients × ${BATCH}/batch: ${apiSeconds.toFixed(1)} s, ${Math.round(ROWS / apiSeconds).toLocaleString()} rows/s, API peak RSS ${apiRss} MB`,
-    );
+    const apiSeconds = single.seconds;
+    const apiRss = single.peakRssMb;
+    const multi = PROCESSES > 1 ? await runApi(cluster.url('bench_api_n'), PROCESSES) : null;
 
     // The same rows as CSV for (b) and (c): counter ids are equal in all three databases (same creation order).
     const csvFile = join(dir, 'readings.csv');
@@ -204,6 +229,11 @@ async function main(): Promise<void> {
     console.log(
       `[bench] API / COPY = ${(apiRate / copyRate).toFixed(2)} (target ≥ 0.35); bulk / COPY = ${(bulkRate / copyRate).toFixed(2)} (target ≥ 0.5)`,
     );
+    const multiRate = multi ? ROWS / multi.seconds : null;
+    if (multi && multiRate)
+      console.log(
+        `[bench] API with ${PROCESSES} processes / 1 process = ${(multiRate / apiRate).toFixed(2)}; / COPY = ${(multiRate / copyRate).toFixed(2)}`,
+      );
     console.log(
       JSON.stringify({
         bench: 'ingest',
@@ -216,6 +246,13 @@ async function main(): Promise<void> {
         api_vs_copy: Number((apiRate / copyRate).toFixed(3)),
         bulk_vs_copy: Number((bulkRate / copyRate).toFixed(3)),
         api_peak_rss_mb: apiRss,
+        ...(multi && multiRate
+          ? {
+              processes: PROCESSES,
+              api_n_rows_per_s: Math.round(multiRate),
+              api_n_vs_1: Number((multiRate / apiRate).toFixed(3)),
+            }
+          : {}),
       }),
     );
   } finally {
