@@ -88,6 +88,23 @@ describe('the house dip with a fitted lay curve', () => {
     expect(Math.abs(expected! - compartmentalLay(30, CURVE))).toBeLessThan(4);
   });
 
+  it('forgets its fit when the flock changes, in every process (the flock.changed event)', async () => {
+    const houseId = await houseWithFlock('Curve D');
+    const events = createEventBus();
+    const curves = createFlockCurves(database.db, events);
+    expect(await curves.expectedHenDayPct(houseId, yesterday)).not.toBeNull();
+    // The flock ended before yesterday (recorded by any process): there is no flock to expect from.
+    await database.db
+      .update(schema.flocks)
+      .set({ endedOn: addDays(yesterday, -2) })
+      .where(eq(schema.flocks.houseId, houseId));
+    // Without the event the fit made before is still answered…
+    expect(await curves.expectedHenDayPct(houseId, yesterday)).not.toBeNull();
+    // …after it (as the cluster bus delivers it from any process) the house is fitted again.
+    events.emit('flock.changed', { farmId: fixture.farmA, houseId });
+    expect(await curves.expectedHenDayPct(houseId, yesterday)).toBeNull();
+  });
+
   it('flags a week-long 8 % drop that the 7-day average has already absorbed', async () => {
     const withCurve = await houseWithFlock('Curve B');
     const without = await houseWithFlock('Curve C');
