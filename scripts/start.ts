@@ -30,6 +30,8 @@ import { startBalancer, type Balancer } from './balancer';
 import { API_NODE_ARGS, freePort, waitForHealth } from './processes';
 
 const ROOT = new URL('..', import.meta.url).pathname;
+// A .env in the project is read when present (see .env.example); variables already set win over it.
+if (existsSync(join(ROOT, '.env'))) process.loadEnvFile(join(ROOT, '.env'));
 const DATA = join(ROOT, '.data');
 const PG_PORT = Number(process.env['TIERSCOPE_PG_PORT'] ?? 54320);
 const PORT = Number(process.env['PORT'] ?? 8080);

@@ -1,3 +1,4 @@
+import { existsSync } from 'node:fs';
 import { openDatabase, runMigrations } from '@tierscope/db';
 import { createApp, createRuntime } from './app';
 import { allHouseIds } from './features/evaluation/evaluation.repository';
@@ -15,6 +16,8 @@ const SHUTDOWN_GRACE_MS = 20_000;
 
 /** Starts the API on its own (npm run api); `npm start` starts it through scripts/start.ts instead. */
 async function main(): Promise<void> {
+  // A .env beside the project is read when present; variables already set win over it.
+  if (existsSync('.env')) process.loadEnvFile('.env');
   const config = loadConfig(process.env);
   const database = openDatabase(config.databaseUrl);
   await runMigrations(database.db);
