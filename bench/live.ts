@@ -1,14 +1,17 @@
 /**
- * npm run bench:live
+ * npm run bench:live [-- --processes 2]
  *
  * A farm of 10 houses × 12 rows × 4 tiers with 400 days of history (daily rollups) on a throwaway cluster.
  * Prints (a) the evaluation time of one house and of the whole farm, (b) reading-accepted → frame-received
  * latency p50/p95/p99 over 200 real WebSocket clients while 5,000 readings/s are posted, and (c) the map API
- * time for today, 7 days and a 400-day range. The last line is one JSON object. Not a test; CI does not run it.
+ * time for today, 7 days and a 400-day range. With --processes N the API runs as N processes on the one
+ * database, the clients and the posts spread over them (frames cross processes through PostgreSQL).
+ * The last line is one JSON object. Not a test; CI does not run it.
  */
 import { chmodSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { parseArgs } from 'node:util';
 import { hash } from '@node-rs/argon2';
 import { insertHouseWithLayout, openDatabase, runMigrations, schema } from '@tierscope/db';
 import { addDays, productionDayOf } from '@tierscope/domain';
@@ -24,6 +27,9 @@ const TIERS = 4;
 const CLIENTS = 200;
 const RATE = 5000;
 const SECONDS = 10;
+const PROCESSES = Number(
+  parseArgs({ options: { processes: { type: 'string', default: '1' } } }).values.processes,
+);
 
 const percentile = (values: number[], p: number) => {
   const sorted = [...values].sort((a, b) => a - b);
@@ -118,11 +124,16 @@ async function main(): Promise<void> {
     await database.db
       .insert(schema.memberships)
       .values({ userId: user.id, farmId: farm.id, role: 'admin' });
-    const api = await startApiProcess({
-      DATABASE_URL: url,
-      JWT_SECRET: 'bench-live-secret-bench-live-secret-0123',
-    });
-    const apiUrl = api.baseUrl;
+    const apis = await Promise.all(
+      Array.from({ length: PROCESSES }, () =>
+        startApiProcess({
+          DATABASE_URL: url,
+          JWT_SECRET: 'bench-live-secret-bench-live-secret-0123',
+        }),
+      ),
+    );
+    const urlOf = (i: number) => (apis[i % apis.length] ?? apis[0])?.baseUrl ?? '';
+    const apiUrl = urlOf(0);
     const login = await signInThroughApi(apiUrl, 'bench@bench.test', 'bench-password');
     const auth = { authorization: `Bearer ${login.token}`, 'content-type': 'application/json' };
     const key = await makeGatewayKey(apiUrl, login.token, farm.id, 'bench');
@@ -161,7 +172,7 @@ async function main(): Promise<void> {
     const sockets: WebSocket[] = [];
     for (let c = 0; c < CLIENTS; c++) {
       const houseId = houseIds[c % HOUSES] ?? 0;
-      const socket = new WebSocket(`${apiUrl.replace('http', 'ws')}/api/v1/live`);
+      const socket = new WebSocket(`${urlOf(c).replace('http', 'ws')}/api/v1/live`);
       await new Promise((resolve) => socket.once('open', resolve));
       let seen = 0;
       socket.on('message', (data: Buffer) => {
@@ -198,7 +209,7 @@ async function main(): Promise<void> {
         readings.map((_, i) => counters[(b * perBatch + i) % counters.length]?.houseId ?? 0),
       );
       posts.push(
-        fetch(`${apiUrl}/api/v1/ingest/readings`, {
+        fetch(`${urlOf(b)}/api/v1/ingest/readings`, {
           method: 'POST',
           headers: { 'content-type': 'application/json', authorization: `Bearer ${key}` },
           body: JSON.stringify({ readings }),
@@ -215,13 +226,13 @@ async function main(): Promise<void> {
     await new Promise((r) => setTimeout(r, 1500));
     const achieved = sent / ((Date.now() - start - 1500) / 1000);
     for (const s of sockets) s.close();
-    await api.stop();
+    await Promise.all(apis.map((a) => a.stop()));
     await database.close();
     const p50 = percentile(latencies, 50);
     const p95 = percentile(latencies, 95);
     const p99 = percentile(latencies, 99);
     console.log(
-      `[bench] (b) ${CLIENTS} clients, ${Math.round(achieved)} readings/s posted: accepted → frame p50 ${p50} ms, p95 ${p95} ms, p99 ${p99} ms (${latencies.length} samples)`,
+      `[bench] (b) ${CLIENTS} clients on ${PROCESSES} API process(es), ${Math.round(achieved)} readings/s posted: accepted → frame p50 ${p50} ms, p95 ${p95} ms, p99 ${p99} ms (${latencies.length} samples)`,
     );
     console.log(`[bench] targets: farm evaluation ≤ 50 ms, frame p95 ≤ 250 ms, map API ≤ 100 ms`);
     console.log(
@@ -230,6 +241,7 @@ async function main(): Promise<void> {
         farm_eval_ms: round(farmEvalMs),
         farm_eval_cold_ms: round(farmColdMs),
         house_eval_ms: round(houseEvalMs),
+        processes: PROCESSES,
         frame_p50_ms: p50,
         frame_p95_ms: p95,
         frame_p99_ms: p99,
