@@ -9,7 +9,7 @@ import { userInfo } from 'node:os';
 import { join } from 'node:path';
 
 const PG_ROOT = '/usr/lib/postgresql';
-const isRoot = userInfo().uid === 0;
+export const isRoot = userInfo().uid === 0;
 
 export interface Cluster {
   readonly dir: string;
@@ -37,14 +37,19 @@ export function ensurePostgres(log: (line: string) => void = console.log): strin
     );
   }
   log('PostgreSQL is not installed: installing Debian package "postgresql" (about a minute)…');
-  run('apt-get', ['update', '-qq']);
-  run('apt-get', ['install', '-y', '-qq', 'postgresql'], { DEBIAN_FRONTEND: 'noninteractive' });
+  installDebianPackage('postgresql');
   bin = serverBinDir();
   if (!bin)
     throw new Error(
       'apt-get installed postgresql but no pg_ctl was found under /usr/lib/postgresql',
     );
   return bin;
+}
+
+/** Installs one of Debian's packages (as root: the callers check and say what to run otherwise). */
+export function installDebianPackage(name: string): void {
+  run('apt-get', ['update', '-qq']);
+  run('apt-get', ['install', '-y', '-qq', name], { DEBIAN_FRONTEND: 'noninteractive' });
 }
 
 function run(cmd: string, args: string[], env: Record<string, string> = {}): string {

@@ -6,6 +6,7 @@
  * Prints one closing line `N passed, N failed` and exits non-zero when anything failed.
  * `npm test -- --only=libs,api,web,e2e` runs a subset.
  */
+import { ensureChromium } from './chromium';
 import { spawn } from 'node:child_process';
 import { chmodSync, existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -120,6 +121,10 @@ async function main(): Promise<void> {
       results.push({ name: 'web', ...counts, exitCode: code });
     }
     if (wants('e2e')) {
+      // The browser suites drive Debian's Chromium: installed here when missing, like PostgreSQL.
+      ensureChromium((line) => {
+        console.log(`[test] ${line}`);
+      });
       const build = await run('npx', ['ng', 'build', 'web'], env);
       if (build.code !== 0) {
         results.push({ name: 'e2e (web build)', passed: 0, failed: 1, exitCode: build.code });

@@ -1,3 +1,4 @@
+import { chromiumPath } from '../../scripts/chromium';
 import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -47,7 +48,7 @@ export async function startHarness(): Promise<Harness> {
   );
   const baseUrl = api.baseUrl;
   const browser = await chromium.launch({
-    executablePath: process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium',
+    executablePath: chromiumPath(),
     headless: true,
     args: [
       '--no-sandbox',
