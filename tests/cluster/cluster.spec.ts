@@ -120,6 +120,43 @@ async function post(api: ApiProcess, key: string, readings: object[]): Promise<n
   return response.status;
 }
 
+/**
+ * A gateway posting two readings (rows 1 and 2 of one tier) each `pauseMs`, one second of readings apart
+ * from `base`, each batch sent again until it is taken, as the simulator does. `stop()` says how many
+ * readings were taken and how many sends were refused.
+ */
+function startGateway(
+  url: string,
+  key: string,
+  options: { tier: number; eggs: number; base: number; pauseMs: number },
+) {
+  const state = { isOn: true };
+  let sent = 0;
+  let refusals = 0;
+  const running = (async () => {
+    for (let batch = 0; state.isOn; batch++) {
+      const readings = [1, 2].map((row) => ({
+        counter: defaultBeltCounterId(houseId, { row, tier: options.tier }),
+        ts: new Date(options.base + batch * 1000).toISOString(),
+        eggs: options.eggs,
+      }));
+      while ((await post({ baseUrl: url } as ApiProcess, key, readings).catch(() => 0)) !== 200) {
+        refusals += 1;
+        await new Promise((resolve) => setTimeout(resolve, 100));
+      }
+      sent += readings.length;
+      await new Promise((resolve) => setTimeout(resolve, options.pauseMs));
+    }
+  })();
+  return {
+    async stop() {
+      state.isOn = false;
+      await running;
+      return { sent, refusals };
+    },
+  };
+}
+
 describe('three API processes on one database', () => {
   it('sends every browser the frames for readings another process stored', async () => {
     const [a, b, c] = processes as [ApiProcess, ApiProcess, ApiProcess];
@@ -271,27 +308,8 @@ describe('three API processes on one database', () => {
       };
       connect();
       // A gateway: a batch every 50 ms, each sent again until it is taken (as the simulator does).
-      let sent = 0;
-      let refusals = 0;
-      const posting = { isOn: true };
       const base = Date.now() - 3_600_000;
-      const poster = (async () => {
-        for (let batch = 0; posting.isOn; batch++) {
-          const readings = [1, 2].map((row) => ({
-            counter: defaultBeltCounterId(houseId, { row, tier: 1 }),
-            ts: new Date(base + batch * 1000).toISOString(),
-            eggs: 1,
-          }));
-          while (
-            (await post({ baseUrl: url } as ApiProcess, key, readings).catch(() => 0)) !== 200
-          ) {
-            refusals += 1;
-            await new Promise((resolve) => setTimeout(resolve, 100));
-          }
-          sent += readings.length;
-          await new Promise((resolve) => setTimeout(resolve, 50));
-        }
-      })();
+      const gateway = startGateway(url, key, { tier: 1, eggs: 1, base, pauseMs: 50 });
       for (let i = 0; i < processes.length; i++) {
         await new Promise((resolve) => setTimeout(resolve, 1000));
         await processes[i]!.stop();
@@ -302,8 +320,7 @@ describe('three API processes on one database', () => {
       }
       await until(() => balancer.ready().length === 3);
       await new Promise((resolve) => setTimeout(resolve, 1000));
-      posting.isOn = false;
-      await poster;
+      const { sent, refusals } = await gateway.stop();
       await until(() => snapshotsSinceLastOpen > 0 && current?.readyState === WebSocket.OPEN);
       isDone = true;
       (current as WebSocket | null)?.close();
@@ -332,27 +349,8 @@ describe('three API processes on one database', () => {
       const { token } = await signInThroughApi(url, 'admin@cluster.test', PASSWORD);
       const key = await makeGatewayKey(url, token, farmId, 'killed gateway');
       const base = Date.now() - 2 * 3_600_000;
-      const posting = { isOn: true };
-      let sent = 0;
-      let refusals = 0;
-      const poster = (async () => {
-        for (let batch = 0; posting.isOn; batch++) {
-          const readings = [1, 2].map((row) => ({
-            counter: defaultBeltCounterId(houseId, { row, tier: 2 }),
-            ts: new Date(base + batch * 1000).toISOString(),
-            eggs: 2,
-          }));
-          // Sent again until taken: a batch whose answer was lost with its process may already be stored.
-          while (
-            (await post({ baseUrl: url } as ApiProcess, key, readings).catch(() => 0)) !== 200
-          ) {
-            refusals += 1;
-            await new Promise((resolve) => setTimeout(resolve, 100));
-          }
-          sent += readings.length;
-          await new Promise((resolve) => setTimeout(resolve, 20));
-        }
-      })();
+      // Sent again until taken: a batch whose answer was lost with its process may already be stored.
+      const gateway = startGateway(url, key, { tier: 2, eggs: 2, base, pauseMs: 20 });
       await new Promise((resolve) => setTimeout(resolve, 1500));
       const victim = processes[1]!;
       process.kill(-victim.child.pid!, 'SIGKILL');
@@ -363,8 +361,7 @@ describe('three API processes on one database', () => {
         port: ports[1]!,
       });
       await until(() => balancer.ready().length === 3);
-      posting.isOn = false;
-      await poster;
+      const { sent, refusals } = await gateway.stop();
       const stored = await database.db.execute<{ n: number; eggs: number }>(sql`
         SELECT count(*)::int AS n, sum(r.eggs)::int AS eggs FROM readings r
         JOIN counters k ON k.id = r.counter_id

@@ -70,6 +70,7 @@ export function createClusterEventBus(
   log: (message: string, error?: unknown) => void,
 ): ClusterEventBus {
   const processId = randomUUID();
+  // Per-process listener lists only: what they hear is every process's events (or, for `local`, this one's).
   const everyone = new EventEmitter();
   const local = new EventEmitter();
   everyone.setMaxListeners(0);
@@ -137,10 +138,10 @@ export function createClusterEventBus(
   };
 
   const publish = async (name: keyof DomainEvents, payload: unknown) => {
-    const body = encode(payload);
-    let text = encode({ origin: processId, name, body: JSON.parse(body) as unknown });
+    // Encoded once on every emit; only a body too large to travel inline is encoded again for its row.
+    let text = encode({ origin: processId, name, body: payload } satisfies Envelope);
     if (Buffer.byteLength(text) > MAX_INLINE_BYTES) {
-      const ref = await storeEventPayload(db, JSON.parse(body) as unknown);
+      const ref = await storeEventPayload(db, JSON.parse(encode(payload)) as unknown);
       text = JSON.stringify({ origin: processId, name, ref } satisfies Envelope);
       if (Date.now() - lastCleanup > 60_000) {
         lastCleanup = Date.now();
