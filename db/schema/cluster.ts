@@ -1,7 +1,7 @@
 import { bigserial, index, integer, jsonb, pgTable, text, timestamp } from 'drizzle-orm/pg-core';
 
 /**
- * What several API processes on one database share beside the data itself (ADR 0007).
+ * What several API processes on one database share beside the data itself (ADR 0005).
  *
  * An event too large for a NOTIFY payload (PostgreSQL's limit is 8,000 bytes) is kept here for a while;
  * the notification carries its id and each process reads it once.

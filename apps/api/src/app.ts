@@ -74,7 +74,8 @@ export interface AppDeps {
     | 'dataDir'
     | 'photoMaxBytes'
     | 'importMaxBytes'
-  >;
+  > &
+    Partial<Pick<AppConfig, 'logEvaluations'>>;
   log?: (message: string, error?: unknown) => void;
   /** Operational lines (ingest counts); tests pass a no-op. */
   info?: (message: string) => void;
@@ -124,7 +125,11 @@ export function createRuntime({
     tokens,
     evaluation,
     exceptions: createExceptionsService(db, evaluation, events),
-    scheduler: new EvaluationScheduler(db, evaluation, events, log, EVALUATION_INTERVAL_MS, holder),
+    scheduler: new EvaluationScheduler(db, evaluation, events, log, {
+      intervalMs: EVALUATION_INTERVAL_MS,
+      holder,
+      trace: config.logEvaluations ? info : undefined,
+    }),
   };
 }
 

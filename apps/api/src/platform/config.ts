@@ -39,6 +39,8 @@ const configSchema = z.object({
     .default(500 * 1024 * 1024),
   /** after SIGTERM, how long the process fails readiness before it closes (a balancer moves on meanwhile) */
   SHUTDOWN_DRAIN_MS: z.coerce.number().int().min(0).default(1500),
+  /** one log line per house evaluation (which process, when): for operators, and the cluster suite */
+  LOG_EVALUATIONS: z.stringbool().default(false),
 });
 
 export interface AppConfig {
@@ -67,6 +69,8 @@ export interface AppConfig {
   /** the largest historical export accepted (streamed to disk, never held in memory) */
   importMaxBytes: number;
   shutdownDrainMs: number;
+  /** one log line per house evaluation (which process judged which house, from when to when) */
+  logEvaluations: boolean;
 }
 
 /** Reads the API's settings from the environment; a bad value stops the start with its name. */
@@ -99,5 +103,6 @@ export function loadConfig(env: NodeJS.ProcessEnv): AppConfig {
     photoMaxBytes: c.PHOTO_MAX_BYTES,
     importMaxBytes: c.IMPORT_MAX_BYTES,
     shutdownDrainMs: c.SHUTDOWN_DRAIN_MS,
+    logEvaluations: c.LOG_EVALUATIONS,
   };
 }

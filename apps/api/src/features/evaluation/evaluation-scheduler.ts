@@ -28,6 +28,15 @@ export const MAX_HISTORY_DAYS = 62;
 /** The longest history one pass re-evaluates after a historical import (a background job of minutes). */
 export const MAX_IMPORT_HISTORY_DAYS = 400;
 
+export interface SchedulerOptions {
+  /** how often one house may be evaluated after new readings */
+  intervalMs?: number;
+  /** this process's name on the house leases (one process evaluates a house at a time) */
+  holder?: string;
+  /** when given, one line per evaluation (LOG_EVALUATIONS) */
+  trace?: (line: string) => void;
+}
+
 /**
  * Evaluates a house after readings touched it — at once if it has been quiet, then at most every two
  * seconds — and past days after readings for them stopped arriving. Errors are logged, never thrown into
@@ -45,16 +54,20 @@ export class EvaluationScheduler {
     { firstTs: Date; maxDays: number; timer: ReturnType<typeof setTimeout> }
   >();
   private readonly stop: () => void;
+  private readonly intervalMs: number;
+  private readonly holder: string;
+  private readonly trace: ((line: string) => void) | undefined;
 
   constructor(
     private readonly db: Database,
     private readonly evaluation: EvaluationService,
     events: EventBus,
     private readonly log: (message: string, error?: unknown) => void,
-    private readonly intervalMs = EVALUATION_INTERVAL_MS,
-    /** this process's name on the house leases (one process evaluates a house at a time) */
-    private readonly holder: string = randomUUID(),
+    options: SchedulerOptions = {},
   ) {
+    this.intervalMs = options.intervalMs ?? EVALUATION_INTERVAL_MS;
+    this.holder = options.holder ?? randomUUID();
+    this.trace = options.trace;
     // Local only: the process that stored the readings evaluates them (the others hear them for their sockets).
     this.stop = events.on(
       'readings.accepted',
@@ -100,7 +113,7 @@ export class EvaluationScheduler {
       this.db,
       houseLease(houseId),
       this.holder,
-      () => this.evaluation.evaluateNow(houseId),
+      () => this.traced(houseId, 'live', () => this.evaluation.evaluateNow(houseId)),
       { waitMs: LEASE_WAIT_MS },
     )
       .then((outcome) => {
@@ -147,7 +160,10 @@ export class EvaluationScheduler {
         this.db,
         houseLease(houseId),
         this.holder,
-        () => this.evaluation.evaluateHistory(houseId, start, today),
+        () =>
+          this.traced(houseId, `days ${start}..${today}`, () =>
+            this.evaluation.evaluateHistory(houseId, start, today),
+          ),
         { waitMs: LEASE_WAIT_MS },
       );
       if (!outcome.ran) {
@@ -167,6 +183,23 @@ export class EvaluationScheduler {
           this.log(`replay mark of house ${houseId} not cleared`, error);
         });
       }
+    }
+  }
+
+  /**
+   * Runs one evaluation and, when tracing, writes one line for it: house, what was judged, this process,
+   * and when it started and ended (the cluster suite checks from these that no two processes ever
+   * evaluated one house at once; an operator sees who evaluates what).
+   */
+  private async traced<T>(houseId: number, what: string, work: () => Promise<T>): Promise<T> {
+    if (!this.trace) return work();
+    const started = new Date();
+    try {
+      return await work();
+    } finally {
+      this.trace(
+        `evaluation house=${houseId} holder=${this.holder} started=${started.toISOString()} ended=${new Date().toISOString()} (${what})`,
+      );
     }
   }
 

@@ -374,9 +374,30 @@ export function createEvaluationService(
       if (dayLate.size === layout.sections.length && waited) {
         isDayReady = false;
         engine.completeDay = yesterday;
+        engine.completeDayEggs = undefined;
+      }
+    } else if (isDayDue) {
+      // A replay judges the days as stored; but a day on which the whole house's data stops before its
+      // lights-off, with nothing after it (the gateway went quiet and has not come back), is data late, not
+      // a short day: it is left for the replay that comes with the rest of its data.
+      const lightsOff = new Date(
+        productionDayStart(yesterday, house.timezone, house.lightsOn).getTime() +
+          house.photoperiodHours * 3_600_000,
+      );
+      const horizons = await horizonsOf();
+      const isHouseLate = layout.sections.every((sec) => {
+        const horizon = horizons.get(sec.id);
+        return !horizon || horizon.getTime() < lightsOff.getTime() - DATA_LATE_SLACK_MS;
+      });
+      if (isHouseLate) {
+        isDayReady = false;
+        engine.completeDay = yesterday;
+        engine.completeDayEggs = undefined;
       }
     }
     if (isDayReady) {
+      // The eggs of the day judged here, or none: never another day's (the house dip reads them as this day's).
+      engine.completeDayEggs = undefined;
       const rows = await sectionStageCounts(db, house, CHECKPOINT_HOURS, yesterday, yesterday);
       const sections = rows.flatMap((r) => {
         const sec = byId.get(r.sectionId);
@@ -452,6 +473,18 @@ export function createEvaluationService(
         const isStillWaiting =
           at.getTime() - checkpoint.getTime() < DATA_LATE_WAIT_HOURS * 3_600_000;
         if (late.size > 0 && isStillWaiting) continue;
+      } else {
+        // A replay: the whole house's data stopping before the checkpoint, with nothing after it, is data
+        // late (the gateway went quiet), as on a complete day above.
+        const horizons = await horizonsOf();
+        const isHouseLate = layout.sections.every((sec) => {
+          const horizon = horizons.get(sec.id);
+          return !horizon || horizon.getTime() < checkpoint.getTime() - DATA_LATE_SLACK_MS;
+        });
+        if (isHouseLate) {
+          engine.checkpoints = [...(engine.checkpoints ?? []), stage];
+          continue;
+        }
       }
       const eggs = await sectionEggsBetween(db, house.farmId, house.id, dayStart, checkpoint);
       // Nothing counted by then (no gateway, or the house is empty): nothing to judge live; a replay judges
@@ -604,6 +637,11 @@ export function createEvaluationService(
     const { house } = layout;
     const yesterday = addDays(day, -1);
     const base = { day: yesterday, completeDay: engine.completeDay, at: at.getTime() };
+    // Yesterday is judged for a dip only once the day itself was judged on its whole data: while a late
+    // gateway's data is awaited, or when the house's data stopped part way through the day, its eggs are a
+    // part day — data late, not a dip.
+    const judgedEggs = engine.completeDay === yesterday ? engine.completeDayEggs : undefined;
+    if (judgedEggs === undefined) return { ...base, candidate: null };
     const sectionIds = layout.sections.map((s) => s.id);
     const hens = await hensAlive(db, house.id, addDays(day, -8), yesterday);
     const dayEggs = await sectionDays(db, house.farmId, sectionIds, addDays(day, -8), yesterday);
@@ -612,8 +650,8 @@ export function createEvaluationService(
       // Yesterday as judged: a silent counter's eggs and a short row's or tier's missing eggs filled in,
       // so one cause raises one alarm (the counter, the row, the tier), not also a house dip.
       const e =
-        d === yesterday && engine.completeDay === yesterday && engine.completeDayEggs
-          ? engine.completeDayEggs
+        d === yesterday
+          ? judgedEggs
           : dayEggs.filter((r) => r.day === d).reduce((n, r) => n + r.eggs, 0);
       return h && e > 0 ? (e / h) * 100 : null;
     };

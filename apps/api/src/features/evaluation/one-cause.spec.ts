@@ -1,4 +1,6 @@
+import { insertHouseWithLayout, schema } from '@tierscope/db';
 import { createTestDatabase } from '@tierscope/db/testing';
+import { addDays } from '@tierscope/domain';
 import { sql } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Runtime } from '../../app';
@@ -35,11 +37,13 @@ function hours(
   toHour: number,
   adjust: (row: number, tier: number, hour: number) => number,
   list = counters,
+  /** the lights-on of hour 0 */
+  day0 = DAY0,
 ): { counter: string; ts: string; eggs: number }[] {
   const readings: { counter: string; ts: string; eggs: number }[] = [];
   for (let h = fromHour; h < toHour; h++) {
     if (h % 24 >= 16) continue;
-    const ts = new Date(DAY0 + (h + 1) * HOUR).toISOString();
+    const ts = new Date(day0 + (h + 1) * HOUR).toISOString();
     let laid = 0;
     for (const c of list.filter((x) => x.kind === 'belt')) {
       const day = Math.floor(h / 24);
@@ -150,6 +154,38 @@ describe('one cause, one alarm', () => {
       )
     ).rows[0]?.engine;
     expect(engine?.checkpoints).toEqual([0, 1]);
+  });
+
+  it('a gateway that goes quiet part way through a day is data late: no house dip, replayed or live', async () => {
+    // House C1 (UTC, lights on at midnight, a flock of 2,000): ten whole days up to the day before
+    // yesterday, then yesterday's readings stop after its third hour of light — the gateway went quiet
+    // and has not come back. The readings are dated from today, so the replay runs up to today as the
+    // scheduler's does and the live evaluation carries on from it.
+    const house = await insertHouseWithLayout(database.db, fixture.farmA, {
+      name: 'C1',
+      rows: 4,
+      tiers: 3,
+      timezone: 'UTC',
+      lightsOn: '00:00',
+      photoperiodHours: 16,
+      shortfallThresholdPct: 10,
+    });
+    const today = new Date().toISOString().slice(0, 10);
+    await database.db.insert(schema.flocks).values({
+      houseId: house.id,
+      placedOn: addDays(today, -200),
+      hensHoused: 2000,
+      ageAtPlacementWeeks: 18,
+    });
+    const countersC = await countersOfHouse(database.db, house.id);
+    const day0 = Date.parse(`${addDays(today, -11)}T00:00:00Z`);
+    await ingest([
+      ...hours(0, 10 * 24, () => 1, countersC, day0),
+      ...hours(10 * 24, 10 * 24 + 3, () => 1, countersC, day0),
+    ]);
+    await runtime.evaluation.evaluateHistory(house.id, addDays(today, -11), today);
+    await runtime.evaluation.evaluateNow(house.id);
+    expect(await openExceptions(house.id)).toEqual([]);
   });
 
   it('reads the engine state it kept by its schema: a part an earlier version wrote differently is dropped', async () => {
