@@ -68,6 +68,21 @@ export function productionDayOf(instant: Date, timeZone: string, lightsOn: strin
 
 /** The instant a house's production day `day` (YYYY-MM-DD) starts: lights-on that local date. */
 export function productionDayStart(day: string, timeZone: string, lightsOn: string): Date {
+  // A pure function of its three inputs, asked for the same days over and over by every replayed
+  // checkpoint (three time-zone conversions each): remembered, a bounded number of them.
+  const key = `${day}|${timeZone}|${lightsOn}`;
+  const known = dayStarts.get(key);
+  if (known !== undefined) return new Date(known);
+  const start = computeProductionDayStart(day, timeZone, lightsOn);
+  if (dayStarts.size >= MAX_REMEMBERED_DAY_STARTS) dayStarts.clear();
+  dayStarts.set(key, start.getTime());
+  return start;
+}
+
+const MAX_REMEMBERED_DAY_STARTS = 20_000;
+const dayStarts = new Map<string, number>();
+
+function computeProductionDayStart(day: string, timeZone: string, lightsOn: string): Date {
   const minutes = minutesOfDay(lightsOn);
   if (minutes === null) throw new RangeError(`lights-on "${lightsOn}" is not HH:MM`);
   const [y, m, d] = day.split('-').map(Number) as [number, number, number];
