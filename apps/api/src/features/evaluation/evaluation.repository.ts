@@ -354,6 +354,8 @@ const engineStateSchema = z
     completeDay: z.string().optional().catch(undefined),
     /** that day's eggs with silent sections and short spots filled in at their expected counts */
     completeDayEggs: z.number().optional().catch(undefined),
+    /** a complete day whose readings stop before its lights-off (a late or quiet gateway): not judged a dip */
+    lateDay: z.string().optional().catch(undefined),
     /** each spot's CUSUM of complete days */
     cusum: z
       .record(z.string(), z.object({ sum: z.number(), recent: z.array(z.number()) }))

@@ -368,6 +368,8 @@ export function createEvaluationService(
           dayLate.add(spotKeyOf('section', sec.row, sec.tier));
       }
       const waited = minutes >= DATA_LATE_WAIT_HOURS * 60;
+      // Readings that stop before lights-off everywhere: a part day, never judged a house dip.
+      if (dayLate.size === layout.sections.length && horizons.size > 0) engine.lateDay = yesterday;
       if (dayLate.size > 0 && !waited) isDayReady = false;
       // Still no data at all after the wait (a house fed by imports, a gateway down): nothing to judge live;
       // the replay that comes with the data judges the day.
@@ -393,11 +395,13 @@ export function createEvaluationService(
         isDayReady = false;
         engine.completeDay = yesterday;
         engine.completeDayEggs = undefined;
+        if (horizons.size > 0) engine.lateDay = yesterday;
       }
     }
     if (isDayReady) {
       // The eggs of the day judged here, or none: never another day's (the house dip reads them as this day's).
       engine.completeDayEggs = undefined;
+      engine.lateDay = undefined;
       const rows = await sectionStageCounts(db, house, CHECKPOINT_HOURS, yesterday, yesterday);
       const sections = rows.flatMap((r) => {
         const sec = byId.get(r.sectionId);
@@ -637,11 +641,9 @@ export function createEvaluationService(
     const { house } = layout;
     const yesterday = addDays(day, -1);
     const base = { day: yesterday, completeDay: engine.completeDay, at: at.getTime() };
-    // Yesterday is judged for a dip only once the day itself was judged on its whole data: while a late
-    // gateway's data is awaited, or when the house's data stopped part way through the day, its eggs are a
-    // part day — data late, not a dip.
-    const judgedEggs = engine.completeDay === yesterday ? engine.completeDayEggs : undefined;
-    if (judgedEggs === undefined) return { ...base, candidate: null };
+    // A part day — the house's readings stopped before its lights-off (a late or quiet gateway) — is data
+    // late, not a dip.
+    if (engine.lateDay === yesterday) return { ...base, candidate: null };
     const sectionIds = layout.sections.map((s) => s.id);
     const hens = await hensAlive(db, house.id, addDays(day, -8), yesterday);
     const dayEggs = await sectionDays(db, house.farmId, sectionIds, addDays(day, -8), yesterday);
@@ -650,8 +652,8 @@ export function createEvaluationService(
       // Yesterday as judged: a silent counter's eggs and a short row's or tier's missing eggs filled in,
       // so one cause raises one alarm (the counter, the row, the tier), not also a house dip.
       const e =
-        d === yesterday
-          ? judgedEggs
+        d === yesterday && engine.completeDay === yesterday && engine.completeDayEggs
+          ? engine.completeDayEggs
           : dayEggs.filter((r) => r.day === d).reduce((n, r) => n + r.eggs, 0);
       return h && e > 0 ? (e / h) * 100 : null;
     };
