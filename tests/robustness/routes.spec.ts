@@ -7,7 +7,6 @@ import { createTestDatabase } from '@tierscope/db/testing';
 import { ROLES, type Role } from '@tierscope/domain';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { buildOpenApiDocument } from '../../apps/api/src/platform/openapi';
 import { seedFixture, type Fixture } from '../../apps/api/src/testing/fixtures';
 import { bearerFor } from '../../apps/api/src/testing/sign-in';
 import { createTestApp } from '../../apps/api/src/testing/test-app';
@@ -43,23 +42,25 @@ let own: FarmObjects;
 let foreign: FarmObjects;
 const bearers = {} as Record<Role, string>;
 
-const document = buildOpenApiDocument('robustness');
-const operations: Operation[] = Object.entries(document.paths).flatMap(([path, methods]) =>
-  Object.entries(methods).map(([method, raw]) => {
-    const op = raw as {
-      security?: Record<string, unknown>[];
-      requestBody?: { content: { 'application/json': { schema: { properties?: object } } } };
-    };
-    const schema = op.requestBody?.content['application/json'].schema;
-    return {
-      method: method as Operation['method'],
-      path,
-      isPublic: !op.security,
-      isGateway: op.security?.some((s) => 'gatewayKey' in s) ?? false,
-      bodyFields: schema ? Object.keys(schema.properties ?? {}) : null,
-    };
-  }),
-);
+/** Every operation of the OpenAPI document the app serves (all mounted routes: the drift test sees to that). */
+const operationsOf = (document: { paths: Record<string, object> }): Operation[] =>
+  Object.entries(document.paths).flatMap(([path, methods]) =>
+    Object.entries(methods).map(([method, raw]) => {
+      const op = raw as {
+        security?: Record<string, unknown>[];
+        requestBody?: { content: { 'application/json': { schema: { properties?: object } } } };
+      };
+      const schema = op.requestBody?.content['application/json'].schema;
+      return {
+        method: method as Operation['method'],
+        path,
+        isPublic: !op.security,
+        isGateway: op.security?.some((s) => 'gatewayKey' in s) ?? false,
+        bodyFields: schema ? Object.keys(schema.properties ?? {}) : null,
+      };
+    }),
+  );
+let operations: Operation[] = [];
 
 beforeAll(async () => {
   database = await createTestDatabase();
@@ -68,6 +69,9 @@ beforeAll(async () => {
   dataDir = mkdtempSync(join(tmpdir(), 'tierscope-robustness-'));
   const app = createTestApp(database.db, { config: { dataDir } });
   server = createServer(app);
+  operations = operationsOf(
+    (await request(app).get('/api/v1/openapi.json')).body as { paths: Record<string, object> },
+  );
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   for (const role of ROLES) bearers[role] = await bearerFor(app, fixture.usersA[role].email);
 });
@@ -272,7 +276,7 @@ describe('every route of the OpenAPI document', () => {
       }
     }
     expect(findings.list).toEqual([]);
-  });
+  }, 90_000); // every field of every write, each with the data fingerprinted before and after
 
   it('never fails on seeded random JSON (fast-check)', async () => {
     const findings = new Findings();

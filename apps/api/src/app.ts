@@ -26,6 +26,8 @@ import { createEventBus, type EventBus } from './platform/events';
 import { inputGuard } from './platform/input-guard';
 import { PostgresRateLimitStore } from './platform/rate-limit-store';
 import { buildOpenApiDocument } from './platform/openapi';
+import { routeOperations, type DeclaredRoutes } from './platform/route';
+import type { ZodOpenApiPathsObject } from 'zod-openapi';
 import { createTokenService, type TokenService } from './platform/tokens';
 import {
   EVALUATION_INTERVAL_MS,
@@ -159,14 +161,23 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
   app.use(inputGuard());
 
   const authenticate = createAuthenticator(tokens, (id) => loadActiveUser(db, id));
-  const openApi = buildOpenApiDocument(API_VERSION);
+  // The routes declared once (platform/route.ts): mounted here, and listed in the OpenAPI document.
+  const declared: ZodOpenApiPathsObject = {};
+  const mount = (router: express.Router, prefix: string, feature: DeclaredRoutes) => {
+    router.use(feature.router);
+    Object.assign(declared, routeOperations(prefix, feature.routes));
+  };
 
-  app.use(
+  const health = express.Router();
+  mount(
+    health,
     '/api',
     healthRoutes(() => pingDatabase(db), API_VERSION, deps.isReady ?? (() => true), deps.holder),
   );
+  app.use('/api', health);
 
   const v1 = express.Router();
+  let openApi: object = {};
   v1.get('/openapi.json', (_req, res) => {
     res.json(openApi);
   });
@@ -188,7 +199,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
   v1.use(housesRoutes(createHousesService(db)));
   v1.use(usersRoutes(createUsersService(db, runtime.notifier, events)));
   v1.use(gatewaysRoutes(createGatewaysService(db)));
-  v1.use(exceptionsRoutes(runtime.exceptions));
+  mount(v1, '/api/v1', exceptionsRoutes(runtime.exceptions));
   v1.use(
     workOrdersRoutes(
       createWorkOrdersService({
@@ -201,7 +212,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
     ),
   );
   v1.use(notificationsRoutes(db, config.mailCatcherUrl));
-  v1.use(flocksRoutes(createFlocksService(db, events)));
+  mount(v1, '/api/v1', flocksRoutes(createFlocksService(db, events)));
   v1.use(reportsRoutes(createReportsService(db, runtime.evaluation)));
   v1.use(
     importsRoutes(createImportsService(db, runtime.imports), {
@@ -210,6 +221,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
     }),
   );
   app.use('/api/v1', v1);
+  openApi = buildOpenApiDocument(API_VERSION, declared);
   app.use('/api', (_req, _res, next) => {
     next(new AppError('not_found', 'No such API route'));
   });

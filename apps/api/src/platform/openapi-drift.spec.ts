@@ -1,7 +1,8 @@
 import { createTestDatabase } from '@tierscope/db/testing';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createTestApp } from '../testing/test-app';
-import { buildOpenApiDocument } from './openapi';
+import type { Express } from 'express';
+import request from 'supertest';
 
 /**
  * The OpenAPI document and the Express router list the same routes, both ways: a route mounted but not
@@ -39,12 +40,13 @@ afterAll(async () => {
 });
 
 describe('the OpenAPI document against the mounted routes', () => {
-  it('lists every mounted route and nothing else', () => {
+  it('lists every mounted route and nothing else', async () => {
     const app = createTestApp(database.db) as unknown as { router: { stack: RouterLayer[] } };
     const mounted = new Set(
       mountedRoutes(app.router.stack).map((r) => r.replace(/:(\w+)/g, '{$1}')),
     );
-    const document = buildOpenApiDocument('test') as { paths: Record<string, object> };
+    const document = (await request(app as unknown as Express).get('/api/v1/openapi.json'))
+      .body as { paths: Record<string, object> };
     const documented = new Set(
       Object.entries(document.paths).flatMap(([path, methods]) =>
         Object.keys(methods).map((method) => `${method.toUpperCase()} ${path}`),
@@ -58,5 +60,33 @@ describe('the OpenAPI document against the mounted routes', () => {
       [...documented].filter((r) => !mounted.has(r)).sort(),
       'documented, not mounted',
     ).toEqual([]);
+  });
+});
+
+describe('a declared route in the OpenAPI document', () => {
+  it('types each path parameter and lists its query parameters from the schemas it parses with', async () => {
+    const app = createTestApp(database.db);
+    const document = (await request(app).get('/api/v1/openapi.json')).body as {
+      paths: Record<
+        string,
+        Record<
+          string,
+          {
+            parameters?: { name: string; in: string; schema: { format?: string; type?: string } }[];
+          }
+        >
+      >;
+    };
+    const mortality = document.paths['/api/v1/flocks/{flockId}/mortality/{day}']?.['put'];
+    const param = (name: string) => mortality?.parameters?.find((p) => p.name === name);
+    expect(param('flockId')?.schema.type).toBe('integer');
+    expect(param('day')?.schema.format).toBe('date');
+    const map = document.paths['/api/v1/houses/{houseId}/map']?.['get'];
+    expect(
+      map?.parameters
+        ?.filter((p) => p.in === 'query')
+        .map((p) => p.name)
+        .sort(),
+    ).toEqual(['from', 'to', 'window']);
   });
 });

@@ -1,43 +1,68 @@
 import {
-  flockCreateSchema,
-  flockUpdateSchema,
   calendarDay,
+  flockCreateSchema,
+  flockProductionSchema,
+  flockSchema,
+  flockUpdateSchema,
   idParam,
   mortalityEntrySchema,
 } from '@tierscope/contracts';
-import { Router } from 'express';
+import { z } from 'zod';
 import { contextOf } from '../../platform/auth';
-import { parseInput } from '../../platform/errors';
+import { declareRoutes, route } from '../../platform/route';
 import type { FlocksService } from './flocks.service';
 
-const dayParam = calendarDay('A date such as 2026-11-01');
+const houseParams = z.object({ houseId: idParam });
+const flockParams = z.object({ flockId: idParam });
 
-export function flocksRoutes(service: FlocksService): Router {
-  const router = Router();
-  router.get('/houses/:houseId/flocks', async (req, res) => {
-    const houseId = parseInput(idParam, req.params.houseId, 'path');
-    res.json(await service.list(contextOf(req), houseId));
-  });
-  router.post('/houses/:houseId/flocks', async (req, res) => {
-    const houseId = parseInput(idParam, req.params.houseId, 'path');
-    res
-      .status(201)
-      .json(await service.place(contextOf(req), houseId, parseInput(flockCreateSchema, req.body)));
-  });
-  router.patch('/flocks/:flockId', async (req, res) => {
-    const id = parseInput(idParam, req.params.flockId, 'path');
-    res.json(await service.update(contextOf(req), id, parseInput(flockUpdateSchema, req.body)));
-  });
-  router.put('/flocks/:flockId/mortality/:day', async (req, res) => {
-    const id = parseInput(idParam, req.params.flockId, 'path');
-    const day = parseInput(dayParam, req.params.day, 'path');
-    res.json(
-      await service.recordLoss(contextOf(req), id, day, parseInput(mortalityEntrySchema, req.body)),
-    );
-  });
-  router.get('/flocks/:flockId/production', async (req, res) => {
-    const id = parseInput(idParam, req.params.flockId, 'path');
-    res.json(await service.production(contextOf(req), id));
-  });
-  return router;
+export function flocksRoutes(service: FlocksService) {
+  return declareRoutes([
+    route({
+      method: 'get',
+      path: '/houses/:houseId/flocks',
+      summary: "A house's flocks, newest first",
+      params: houseParams,
+      answer: z.array(flockSchema),
+      handle: ({ req, params }) => service.list(contextOf(req), params.houseId),
+    }),
+    route({
+      method: 'post',
+      path: '/houses/:houseId/flocks',
+      summary: 'Place a flock (managers and admins; one flock in a house at a time)',
+      params: houseParams,
+      body: flockCreateSchema,
+      status: 201,
+      answer: flockSchema,
+      errors: { 409: 'The house has a flock' },
+      handle: ({ req, params, body }) => service.place(contextOf(req), params.houseId, body),
+    }),
+    route({
+      method: 'patch',
+      path: '/flocks/:flockId',
+      summary: 'Correct a flock or end it (endedOn)',
+      params: flockParams,
+      body: flockUpdateSchema,
+      answer: flockSchema,
+      handle: ({ req, params, body }) => service.update(contextOf(req), params.flockId, body),
+    }),
+    route({
+      method: 'put',
+      path: '/flocks/:flockId/mortality/:day',
+      summary: "The morning walk: a day's dead and culled hens (replaces that day's entry)",
+      params: flockParams.extend({ day: calendarDay('A date such as 2026-11-01') }),
+      body: mortalityEntrySchema,
+      answer: flockSchema,
+      handle: ({ req, params, body }) =>
+        service.recordLoss(contextOf(req), params.flockId, params.day, body),
+    }),
+    route({
+      method: 'get',
+      path: '/flocks/:flockId/production',
+      summary:
+        'Hen-day production by day and by week of age, hen-housed production, eggs per hen housed, mortality, livability and the fitted lay curve',
+      params: flockParams,
+      answer: flockProductionSchema,
+      handle: ({ req, params }) => service.production(contextOf(req), params.flockId),
+    }),
+  ]);
 }

@@ -1,5 +1,6 @@
-import type { Health } from '@tierscope/contracts';
-import { Router, type RequestHandler } from 'express';
+import { healthSchema, type Health } from '@tierscope/contracts';
+import { z } from 'zod';
+import { declareRoutes, route } from '../../platform/route';
 
 /**
  * For load balancers, orchestrators and `npm start`; no sign-in needed.
@@ -13,9 +14,8 @@ export function healthRoutes(
   version: string,
   isReady: () => boolean = () => true,
   processId?: string,
-): Router {
-  const router = Router();
-  const ready: RequestHandler = async (_req, res) => {
+) {
+  const ready = async ({ res }: { res: import('express').Response }) => {
     const isUp = await pingDatabase();
     const isTakingWork = isUp && isReady();
     const body: Health = {
@@ -25,11 +25,35 @@ export function healthRoutes(
     };
     res.status(isTakingWork ? 200 : 503).json(body);
   };
-  router.get('/health', ready);
-  router.get('/health/ready', ready);
-  router.get('/health/live', (_req, res) => {
-    // Which process answered (behind a balancer), as its leases name it.
-    res.json({ status: 'ok', version, ...(processId ? { process: processId } : {}) });
-  });
-  return router;
+  const readiness = {
+    method: 'get',
+    access: 'public',
+    answer: healthSchema,
+    errors: { 503: 'Database down, or stopping' },
+    handle: ready,
+  } as const;
+  return declareRoutes([
+    route({
+      ...readiness,
+      path: '/health',
+      summary: 'Takes work: the database answers and the process is not stopping',
+    }),
+    route({
+      ...readiness,
+      path: '/health/ready',
+      summary: 'Readiness (as /api/health): 503 while the database is down or the process stops',
+    }),
+    route({
+      method: 'get',
+      path: '/health/live',
+      access: 'public',
+      summary: 'Liveness: the process is up, and which process answered (behind a balancer)',
+      answer: z.object({
+        status: z.literal('ok'),
+        version: z.string(),
+        process: z.string().optional(),
+      }),
+      handle: () => ({ status: 'ok', version, ...(processId ? { process: processId } : {}) }),
+    }),
+  ]);
 }

@@ -1,0 +1,139 @@
+import { Router, type Request, type RequestHandler, type Response } from 'express';
+import { z } from 'zod';
+import type { ZodOpenApiOperationObject, ZodOpenApiPathsObject } from 'zod-openapi';
+import { apiErrorSchema } from '@tierscope/contracts';
+import { parseInput } from './errors';
+
+/**
+ * A route declared once (docs/adr/0006): method, path, who may call it, its path parameters, query, body and
+ * answer as zod schemas, and its handler. From the one declaration come the Express registration, the parsing
+ * of every input (a bad one is a 400 naming its field, before the handler runs) and the route's OpenAPI
+ * operation (zod-openapi). Farm and role checks stay in the services, which know the resource's farm.
+ */
+export interface RouteDeclaration {
+  method: 'get' | 'post' | 'put' | 'patch' | 'delete';
+  /** Express path below the router's mount point (`/houses/:houseId/flocks`) */
+  path: string;
+  summary: string;
+  /** who may call it: anyone, a signed-in person (the default), or a farm's gateway key */
+  access?: 'public' | 'user' | 'gateway';
+  params?: z.ZodObject;
+  query?: z.ZodType;
+  body?: z.ZodType;
+  /** the success status (200 unless given) and what it answers */
+  status?: 200 | 201 | 202 | 204;
+  answer?: z.ZodType;
+  /** the error answers it gives besides the usual 400, 401, 403 and 404 (e.g. `{ 409: 'Already closed' }`) */
+  errors?: Record<number, string>;
+  /** middleware that runs before the inputs are parsed (uploads) */
+  before?: RequestHandler[];
+  handle(input: { params: never; query: never; body: never; req: Request; res: Response }): unknown;
+}
+
+type Input<S> = S extends z.ZodType ? z.output<S> : undefined;
+
+/**
+ * Declares a route; the handler's `params`, `query` and `body` are typed by the schemas given. What the
+ * handler returns is sent as JSON with the declared status — unless it answered itself through `res`.
+ */
+export function route<
+  P extends z.ZodObject | undefined = undefined,
+  Q extends z.ZodType | undefined = undefined,
+  B extends z.ZodType | undefined = undefined,
+>(
+  declaration: Omit<RouteDeclaration, 'params' | 'query' | 'body' | 'handle'> & {
+    params?: P;
+    query?: Q;
+    body?: B;
+    handle(input: {
+      params: Input<P>;
+      query: Input<Q>;
+      body: Input<B>;
+      req: Request;
+      res: Response;
+    }): unknown;
+  },
+): RouteDeclaration {
+  return declaration;
+}
+
+/** A feature's routes: mounted on one router, and kept for the OpenAPI document. */
+export interface DeclaredRoutes {
+  router: Router;
+  routes: readonly RouteDeclaration[];
+}
+
+export function declareRoutes(routes: readonly RouteDeclaration[]): DeclaredRoutes {
+  const router = Router();
+  for (const declaration of routes) {
+    const handler: RequestHandler = async (req, res) => {
+      const input = {
+        params: declaration.params ? parseInput(declaration.params, req.params, 'path') : undefined,
+        query: declaration.query ? parseInput(declaration.query, req.query, 'query') : undefined,
+        body: declaration.body ? parseInput(declaration.body, req.body) : undefined,
+        req,
+        res,
+      };
+      const answer = await declaration.handle(input as never);
+      if (res.headersSent) return;
+      const status = declaration.status ?? 200;
+      if (status === 204) res.status(204).end();
+      else res.status(status).json(answer);
+    };
+    router[declaration.method](declaration.path, ...(declaration.before ?? []), handler);
+  }
+  return { router, routes };
+}
+
+const STANDARD_ERRORS: Record<number, string> = {
+  400: 'Invalid input, with field-level errors',
+  401: 'Missing, invalid or expired token',
+  403: 'Your role on this farm does not allow it',
+  404: 'Not found, or not on a farm of yours',
+};
+
+/** The OpenAPI operations of declared routes mounted at `prefix` (e.g. `/api/v1`). */
+export function routeOperations(
+  prefix: string,
+  routes: readonly RouteDeclaration[],
+): ZodOpenApiPathsObject {
+  const paths: ZodOpenApiPathsObject = {};
+  const json = (schema: z.ZodType) => ({ content: { 'application/json': { schema } } });
+  for (const r of routes) {
+    const access = r.access ?? 'user';
+    const errors = {
+      ...(access === 'public' ? { 400: STANDARD_ERRORS[400] ?? '' } : STANDARD_ERRORS),
+      ...r.errors,
+    };
+    const operation: ZodOpenApiOperationObject = {
+      summary: r.summary,
+      ...(r.params || r.query
+        ? {
+            requestParams: {
+              ...(r.params ? { path: r.params } : {}),
+              ...(r.query instanceof z.ZodObject ? { query: r.query } : {}),
+            },
+          }
+        : {}),
+      ...(access === 'public'
+        ? {}
+        : { security: [access === 'gateway' ? { gatewayKey: [] } : { bearer: [] }] }),
+      ...(r.body ? { requestBody: { required: true, ...json(r.body) } } : {}),
+      responses: {
+        [r.status ?? 200]: {
+          description: r.status === 201 ? 'Created' : r.status === 204 ? 'Done' : 'OK',
+          ...(r.answer ? json(r.answer) : {}),
+        },
+        ...Object.fromEntries(
+          Object.entries(errors).map(([status, description]) => [
+            status,
+            { description, ...json(apiErrorSchema) },
+          ]),
+        ),
+      },
+    };
+    const path = `${prefix}${r.path}`.replace(/:(\w+)/g, '{$1}');
+    paths[path] = { ...paths[path], [r.method]: operation };
+  }
+  return paths;
+}
