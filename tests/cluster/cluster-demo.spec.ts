@@ -20,10 +20,14 @@ import { startApiProcess, type ApiProcess } from '../../scripts/processes';
  * readings through the balancer, so every house's batches land on every process, and each process replays
  * the days it was sent. The three planted faults are found once each, each house's people get one mail,
  * and no two processes ever evaluated one house at the same time — from the processes' own evaluation
- * lines (LOG_EVALUATIONS), checked here interval by interval. The start is fixed (as in the single-process
- * demo-scenario test) so the run is the same every time.
+ * lines (LOG_EVALUATIONS), checked here interval by interval. The start is 16:00 UTC three weeks ago: the
+ * processes replay up to today, and a backfill's replay reaches back at most MAX_HISTORY_DAYS (62), so a
+ * fixed date would fall out of reach; the simulator's noise is keyed by the day's index from the start, so
+ * the same days come out on any date (the single-process demo-scenario test keeps a fixed date).
  */
-const START = new Date('2026-11-10T16:00:00Z');
+const START = new Date(
+  `${new Date(Date.now() - 21 * 86_400_000).toISOString().slice(0, 10)}T16:00:00Z`,
+);
 const DAYS = 14;
 const PROCESSES = 3;
 
