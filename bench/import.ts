@@ -26,6 +26,7 @@ import { insertHouseWithLayout, openDatabase, runMigrations, schema } from '@tie
 import { ensurePostgres, startCluster } from '../scripts/postgres';
 import { copyBaselineSeconds } from './copy-baseline';
 import { freePort, signInThroughApi, startApiProcess } from '../scripts/processes';
+import { importForm, longMapping } from '../apps/api/src/testing/imports';
 
 const { values } = parseArgs({ options: { lines: { type: 'string', default: '1000000' } } });
 const LINES = Number(values.lines);
@@ -121,20 +122,10 @@ async function main(): Promise<void> {
     const peakBefore = memoryMb(pid, 'VmHWM');
 
     const started = performance.now();
-    const form = new FormData();
-    form.set(
-      'mapping',
-      JSON.stringify({
-        layout: 'long',
-        timestamp: 'timestamp',
-        timezone: 'America/Chicago',
-        row: 'row',
-        tier: 'tier',
-        eggs: 'eggs',
-        mode: 'interval',
-      }),
-    );
-    form.set('file', await openAsBlob(exportFile, { type: 'text/csv' }), 'export.csv');
+    const form = importForm(await openAsBlob(exportFile, { type: 'text/csv' }), {
+      ...longMapping('America/Chicago'),
+      mode: 'interval',
+    });
     const accepted = await fetch(`${server.baseUrl}/api/v1/houses/${house.id}/imports`, {
       method: 'POST',
       headers: auth,

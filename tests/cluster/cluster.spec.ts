@@ -18,6 +18,7 @@ import {
 import { startBalancer } from '../../scripts/balancer';
 import { solidPng } from '../fixtures/images';
 import { withLease } from '../../apps/api/src/platform/leases';
+import { importForm } from '../../apps/api/src/testing/imports';
 
 /**
  * Three real API processes on one PostgreSQL, as behind a load balancer: what one process learns, the
@@ -157,6 +158,16 @@ function startGateway(
   };
 }
 
+/** The three processes behind a balancer, the admin signed in through it and a gateway key made. */
+async function behindBalancer(gatewayName: string) {
+  const ports = processes.map((p) => Number(new URL(p.baseUrl).port));
+  const balancer = await startBalancer({ port: 0, targets: processes.map((p) => p.baseUrl) });
+  const url = `http://127.0.0.1:${balancer.port}`;
+  const { token } = await signInThroughApi(url, 'admin@cluster.test', PASSWORD);
+  const key = await makeGatewayKey(url, token, farmId, gatewayName);
+  return { balancer, url, ports, token, key };
+}
+
 describe('three API processes on one database', () => {
   it('sends every browser the frames for readings another process stored', async () => {
     const [a, b, c] = processes as [ApiProcess, ApiProcess, ApiProcess];
@@ -277,12 +288,8 @@ describe('three API processes on one database', () => {
   });
 
   it('goes through a rolling restart behind the balancer losing no reading, and browsers reconnect', async () => {
-    const ports = processes.map((p) => Number(new URL(p.baseUrl).port));
-    const balancer = await startBalancer({ port: 0, targets: processes.map((p) => p.baseUrl) });
-    const url = `http://127.0.0.1:${balancer.port}`;
+    const { balancer, url, ports, token, key } = await behindBalancer('rolling gateway');
     try {
-      const { token } = await signInThroughApi(url, 'admin@cluster.test', PASSWORD);
-      const key = await makeGatewayKey(url, token, farmId, 'rolling gateway');
       // A browser: on a close it connects again after a moment (as the web app does) and watches again.
       let socketsOpened = 0;
       let snapshotsSinceLastOpen = 0;
@@ -342,12 +349,8 @@ describe('three API processes on one database', () => {
   }, 120_000);
 
   it('loses no reading and counts none twice when a process is killed (SIGKILL) during ingest', async () => {
-    const ports = processes.map((p) => Number(new URL(p.baseUrl).port));
-    const balancer = await startBalancer({ port: 0, targets: processes.map((p) => p.baseUrl) });
-    const url = `http://127.0.0.1:${balancer.port}`;
+    const { balancer, url, ports, key } = await behindBalancer('killed gateway');
     try {
-      const { token } = await signInThroughApi(url, 'admin@cluster.test', PASSWORD);
-      const key = await makeGatewayKey(url, token, farmId, 'killed gateway');
       const base = Date.now() - 2 * 3_600_000;
       // Sent again until taken: a batch whose answer was lost with its process may already be stored.
       const gateway = startGateway(url, key, { tier: 2, eggs: 2, base, pauseMs: 20 });
@@ -394,19 +397,7 @@ describe('three API processes on one database', () => {
       const ts = new Date(start + Math.floor(i / 4) * 300_000).toISOString();
       lines.push(`${ts},${Math.floor(section / 2) + 1},${(section % 2) + 1},${i % 13}`);
     }
-    const form = new FormData();
-    form.set(
-      'mapping',
-      JSON.stringify({
-        layout: 'long',
-        timestamp: 'timestamp',
-        timezone: 'UTC',
-        row: 'row',
-        tier: 'tier',
-        eggs: 'eggs',
-      }),
-    );
-    form.set('file', new Blob([lines.join('\n') + '\n'], { type: 'text/csv' }), 'export.csv');
+    const form = importForm(lines.join('\n') + '\n');
     const started = await fetch(`${a.baseUrl}/api/v1/houses/${houseId}/imports`, {
       method: 'POST',
       headers: { authorization: `Bearer ${token}` },

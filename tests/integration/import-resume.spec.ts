@@ -7,6 +7,7 @@ import { createTestDatabase } from '@tierscope/db/testing';
 import { sql } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { signInThroughApi, startApiProcess, type ApiProcess } from '../../scripts/processes';
+import { importForm } from '../../apps/api/src/testing/imports';
 
 /**
  * A large import, the API process killed (SIGKILL) half-way, the API started again: the import is picked
@@ -68,19 +69,7 @@ describe('an import interrupted by a killed API', () => {
   it('finishes after a restart and counts every reading once', async () => {
     api = await startApiProcess(env());
     const login = await signInThroughApi(api.baseUrl, 'int@resume.test', 'resume-pass');
-    const form = new FormData();
-    form.set(
-      'mapping',
-      JSON.stringify({
-        layout: 'long',
-        timestamp: 'timestamp',
-        timezone: 'UTC',
-        row: 'row',
-        tier: 'tier',
-        eggs: 'eggs',
-      }),
-    );
-    form.set('file', await openAsBlob(join(dir, 'export.csv')), 'export.csv');
+    const form = importForm(await openAsBlob(join(dir, 'export.csv')));
     const started = await fetch(`${api.baseUrl}/api/v1/houses/${houseId}/imports`, {
       method: 'POST',
       headers: { authorization: `Bearer ${login.token}` },

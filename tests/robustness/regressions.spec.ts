@@ -14,6 +14,7 @@ import { bearerFor } from '../../apps/api/src/testing/sign-in';
 import { createTestApp, createTestRuntime } from '../../apps/api/src/testing/test-app';
 import { solidPng } from '../fixtures/images';
 import { seedFarmObjects, type FarmObjects } from './seed';
+import { longMapping } from '../../apps/api/src/testing/imports';
 
 /**
  * One regression test per defect the hardening issue found (items 2–9; item 1 is live-socket.spec.ts and
@@ -232,14 +233,7 @@ describe('5: a gateway cannot block making a house', () => {
 });
 
 describe('6: an import never hangs on what a file holds', () => {
-  const mapping = JSON.stringify({
-    layout: 'long',
-    timestamp: 'ts',
-    timezone: 'UTC',
-    row: 'row',
-    tier: 'tier',
-    eggs: 'eggs',
-  });
+  const mapping = JSON.stringify(longMapping('UTC', 'ts'));
 
   async function upload(content: Buffer, name = 'export.csv') {
     return request(app)

@@ -3,15 +3,9 @@ import { sql } from 'drizzle-orm';
 import { insertGateway } from '../../apps/api/src/features/gateways/gateways.repository';
 import { newGatewayKey } from '../../apps/api/src/platform/gateway-keys';
 import { insertTestException, type Fixture } from '../../apps/api/src/testing/fixtures';
+import { longMapping } from '../../apps/api/src/testing/imports';
 
-const IMPORT_MAPPING = {
-  layout: 'long',
-  timestamp: 'ts',
-  timezone: 'UTC',
-  row: 'row',
-  tier: 'tier',
-  eggs: 'eggs',
-};
+const IMPORT_MAPPING = longMapping('UTC', 'ts');
 
 /** One object of every kind a route's path names, on one farm. */
 export interface FarmObjects {

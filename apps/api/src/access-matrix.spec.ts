@@ -7,6 +7,7 @@ import { insertGateway } from './features/gateways/gateways.repository';
 import { seedFixture, type Fixture } from './testing/fixtures';
 import { bearerFor } from './testing/sign-in';
 import { createTestApp } from './testing/test-app';
+import { longMapping } from './testing/imports';
 
 /**
  * Every route × every role, on the user's own farm and on a farm they do not belong to.
@@ -52,14 +53,7 @@ async function spareGateway(farmId: number): Promise<number> {
 }
 
 /** A small long-layout mapping for the import routes. */
-const IMPORT_MAPPING = JSON.stringify({
-  layout: 'long',
-  timestamp: 'ts',
-  timezone: 'UTC',
-  row: 'row',
-  tier: 'tier',
-  eggs: 'eggs',
-});
+const IMPORT_MAPPING = JSON.stringify(longMapping('UTC', 'ts'));
 
 /** A fresh work order on a farm, assigned to that farm's crew member when `isForCrew`. */
 async function spareWorkOrder(farmId: number, houseId: number, isForCrew = true): Promise<number> {

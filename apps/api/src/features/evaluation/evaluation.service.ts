@@ -302,6 +302,8 @@ export function createEvaluationService(
     openAt: readonly ExceptionRow[],
     recent: readonly ExceptionRow[],
     isLive: boolean,
+    /** a replay's newest reading of each section, read once for all its days */
+    newest?: ReadonlyMap<number, Date>,
   ): Promise<Candidate[]> {
     const { house } = layout;
     const day = productionDayOf(at, house.timezone, house.lightsOn);
@@ -356,6 +358,15 @@ export function createEvaluationService(
         house.id,
         productionDayStart(yesterday, house.timezone, house.lightsOn),
       ));
+    // A replay: the whole house's data stopping before `by` with nothing after it (the gateway went quiet and
+    // has not come back) is data late, not a short day or checkpoint; it is left for the replay that comes
+    // with the rest of its data.
+    const isQuietBefore = (by: Date) =>
+      newest !== undefined &&
+      layout.sections.every((sec) => {
+        const horizon = newest.get(sec.id);
+        return !horizon || horizon.getTime() < by.getTime() - DATA_LATE_SLACK_MS;
+      });
     const dayLate = new Set<string>();
     let isDayReady = isDayDue;
     if (isDayDue && isLive) {
@@ -379,23 +390,15 @@ export function createEvaluationService(
         engine.completeDayEggs = undefined;
       }
     } else if (isDayDue) {
-      // A replay judges the days as stored; but a day on which the whole house's data stops before its
-      // lights-off, with nothing after it (the gateway went quiet and has not come back), is data late, not
-      // a short day: it is left for the replay that comes with the rest of its data.
       const lightsOff = new Date(
         productionDayStart(yesterday, house.timezone, house.lightsOn).getTime() +
           house.photoperiodHours * 3_600_000,
       );
-      const horizons = await horizonsOf();
-      const isHouseLate = layout.sections.every((sec) => {
-        const horizon = horizons.get(sec.id);
-        return !horizon || horizon.getTime() < lightsOff.getTime() - DATA_LATE_SLACK_MS;
-      });
-      if (isHouseLate) {
+      if (isQuietBefore(lightsOff)) {
         isDayReady = false;
         engine.completeDay = yesterday;
         engine.completeDayEggs = undefined;
-        if (horizons.size > 0) engine.lateDay = yesterday;
+        if (newest && newest.size > 0) engine.lateDay = yesterday;
       }
     }
     if (isDayReady) {
@@ -477,18 +480,9 @@ export function createEvaluationService(
         const isStillWaiting =
           at.getTime() - checkpoint.getTime() < DATA_LATE_WAIT_HOURS * 3_600_000;
         if (late.size > 0 && isStillWaiting) continue;
-      } else {
-        // A replay: the whole house's data stopping before the checkpoint, with nothing after it, is data
-        // late (the gateway went quiet), as on a complete day above.
-        const horizons = await horizonsOf();
-        const isHouseLate = layout.sections.every((sec) => {
-          const horizon = horizons.get(sec.id);
-          return !horizon || horizon.getTime() < checkpoint.getTime() - DATA_LATE_SLACK_MS;
-        });
-        if (isHouseLate) {
-          engine.checkpoints = [...(engine.checkpoints ?? []), stage];
-          continue;
-        }
+      } else if (isQuietBefore(checkpoint)) {
+        engine.checkpoints = [...(engine.checkpoints ?? []), stage];
+        continue;
       }
       const eggs = await sectionEggsBetween(db, house.farmId, house.id, dayStart, checkpoint);
       // Nothing counted by then (no gateway, or the house is empty): nothing to judge live; a replay judges
@@ -525,6 +519,8 @@ export function createEvaluationService(
     at: Date,
     isLive: boolean,
     engine: EngineState,
+    /** a replay's newest reading of each section (see judgeDue) */
+    newest?: ReadonlyMap<number, Date>,
   ): Promise<{
     day: string;
     candidates: Candidate[];
@@ -613,7 +609,9 @@ export function createEvaluationService(
       new Date(at.getTime() - NORM_DAYS * 86_400_000),
       at,
     );
-    candidates.push(...(await judgeDue(layout, at, engine, silent, openAt, recent, isLive)));
+    candidates.push(
+      ...(await judgeDue(layout, at, engine, silent, openAt, recent, isLive, newest)),
+    );
 
     if (isLive) {
       // Hen-day production of the last complete day against the seven before it: read again when the day
@@ -834,6 +832,9 @@ export function createEvaluationService(
       const { house } = layout;
       const streaks: Record<string, Streak> = {};
       const changed: ExceptionRow[] = [];
+      // Each section's newest reading, read once: a day or checkpoint after which the house has no data at
+      // all is data late (judgeDue).
+      const newest = await beltHorizons(db, house.farmId, house.id, new Date(0));
       // A replay that continues where the engine's last judged day ends carries its CUSUM on (a backfill that
       // arrives in several pieces finds a slow slide like one that arrives at once); otherwise the replayed
       // days are judged with their own CUSUM run, from before the first of them.
@@ -851,7 +852,7 @@ export function createEvaluationService(
         ).concat(end);
         // Today's checkpoints that have passed are replayed too; the live evaluation carries on from there.
         for (const at of checkpoints.filter((checkpoint) => checkpoint.getTime() <= Date.now())) {
-          const { candidates, openAt, recent } = await measure(layout, at, false, engine);
+          const { candidates, openAt, recent } = await measure(layout, at, false, engine, newest);
           changed.push(...(await apply(layout, at, day, candidates, streaks, openAt, recent)));
         }
       }

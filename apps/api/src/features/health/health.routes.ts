@@ -1,4 +1,5 @@
 import { healthSchema, type Health } from '@tierscope/contracts';
+import type { Response } from 'express';
 import { z } from 'zod';
 import { declareRoutes, route } from '../../platform/route';
 
@@ -15,7 +16,7 @@ export function healthRoutes(
   isReady: () => boolean = () => true,
   processId?: string,
 ) {
-  const ready = async ({ res }: { res: import('express').Response }) => {
+  const ready = async ({ res }: { res: Response }) => {
     const isUp = await pingDatabase();
     const isTakingWork = isUp && isReady();
     const body: Health = {

@@ -9,6 +9,7 @@ import { seedFixture, type Fixture } from '../../testing/fixtures';
 import { bearerFor } from '../../testing/sign-in';
 import { createTestApp, createTestRuntime } from '../../testing/test-app';
 import { ImportRunner } from './import-runner';
+import { longMapping } from '../../testing/imports';
 
 let database: Awaited<ReturnType<typeof createTestDatabase>>;
 let fixture: Fixture;
@@ -49,17 +50,7 @@ describe('cancelling a running import', () => {
     const started = await request(app)
       .post(`/api/v1/houses/${fixture.houseA}/imports`)
       .set('Authorization', integrator)
-      .field(
-        'mapping',
-        JSON.stringify({
-          layout: 'long',
-          timestamp: 'timestamp',
-          timezone: 'UTC',
-          row: 'row',
-          tier: 'tier',
-          eggs: 'eggs',
-        }),
-      )
+      .field('mapping', JSON.stringify(longMapping()))
       .attach('file', Buffer.from(lines.join('\n')), 'big.csv');
     const id = started.body.id as number;
     // Wait until it is running and has read some lines.

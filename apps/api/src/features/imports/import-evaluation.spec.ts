@@ -9,6 +9,7 @@ import type { Runtime } from '../../app';
 import { seedFixture, type Fixture } from '../../testing/fixtures';
 import { bearerFor } from '../../testing/sign-in';
 import { createTestApp, createTestRuntime } from '../../testing/test-app';
+import { longMapping } from '../../testing/imports';
 
 /**
  * An import of a house's past, older than the two months live catch-up looks back: its days are replayed
@@ -59,17 +60,7 @@ describe('after importing old history', () => {
     const started = await request(app)
       .post(`/api/v1/houses/${fixture.houseA}/imports`)
       .set('Authorization', integrator)
-      .field(
-        'mapping',
-        JSON.stringify({
-          layout: 'long',
-          timestamp: 'timestamp',
-          timezone: 'America/Chicago',
-          row: 'row',
-          tier: 'tier',
-          eggs: 'eggs',
-        }),
-      )
+      .field('mapping', JSON.stringify(longMapping('America/Chicago')))
       .attach('file', Buffer.from(lines.join('\n')), 'history.csv');
     expect(started.status).toBe(202);
     await runtime.imports.idle();

@@ -11,6 +11,7 @@ import { createEventBus, type DomainEvents } from '../../platform/events';
 import { seedFixture, type Fixture } from '../../testing/fixtures';
 import { bearerFor } from '../../testing/sign-in';
 import { createTestApp, createTestRuntime } from '../../testing/test-app';
+import { longMapping } from '../../testing/imports';
 
 let database: Awaited<ReturnType<typeof createTestDatabase>>;
 let fixture: Fixture;
@@ -86,15 +87,7 @@ async function storedEggs(houseId: number) {
   return { eggs: raw.rows[0]!.eggs, readings: raw.rows[0]!.n, rolledUp: rolled.rows[0]!.eggs };
 }
 
-const longIso = {
-  layout: 'long',
-  timestamp: 'timestamp',
-  timezone: 'America/Chicago',
-  row: 'row',
-  tier: 'tier',
-  eggs: 'eggs',
-  mode: 'interval',
-};
+const longIso = { ...longMapping('America/Chicago'), mode: 'interval' };
 
 describe('importing a long export (one reading per line)', () => {
   it('lands every reading once, with its rollups, and asks for the days to be evaluated', async () => {
