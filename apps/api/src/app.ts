@@ -195,10 +195,10 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
     ),
   );
   v1.use(authenticate);
-  v1.use(farmsRoutes(createFarmsService(db)));
-  v1.use(housesRoutes(createHousesService(db)));
-  v1.use(usersRoutes(createUsersService(db, runtime.notifier, events)));
-  v1.use(gatewaysRoutes(createGatewaysService(db)));
+  mount(v1, '/api/v1', farmsRoutes(createFarmsService(db)));
+  mount(v1, '/api/v1', housesRoutes(createHousesService(db)));
+  mount(v1, '/api/v1', usersRoutes(createUsersService(db, runtime.notifier, events)));
+  mount(v1, '/api/v1', gatewaysRoutes(createGatewaysService(db)));
   mount(v1, '/api/v1', exceptionsRoutes(runtime.exceptions));
   v1.use(
     workOrdersRoutes(
@@ -213,7 +213,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
   );
   v1.use(notificationsRoutes(db, config.mailCatcherUrl));
   mount(v1, '/api/v1', flocksRoutes(createFlocksService(db, events)));
-  v1.use(reportsRoutes(createReportsService(db, runtime.evaluation)));
+  mount(v1, '/api/v1', reportsRoutes(createReportsService(db, runtime.evaluation)));
   v1.use(
     importsRoutes(createImportsService(db, runtime.imports), {
       importsDir: join(config.dataDir, 'imports'),

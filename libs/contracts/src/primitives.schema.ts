@@ -26,6 +26,10 @@ export const idParam = z.coerce
   .positive('An id is positive')
   .max(MAX_DB_ID, 'No such id');
 
+/** The path parameters most routes name: a farm, a house. */
+export const farmPath = z.object({ farmId: idParam });
+export const housePath = z.object({ houseId: idParam });
+
 const LONE_SURROGATE = /[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/;
 
 /** Why a text cannot be stored as it is, or null when it can. */

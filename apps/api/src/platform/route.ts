@@ -22,7 +22,8 @@ export interface RouteDeclaration {
   body?: z.ZodType;
   /** the success status (200 unless given) and what it answers */
   status?: 200 | 201 | 202 | 204;
-  answer?: z.ZodType;
+  /** a JSON answer's schema, or `'text/csv'` for a file the handler sends itself through `res` */
+  answer?: z.ZodType | 'text/csv';
   /** the error answers it gives besides the usual 400, 401, 403 and 404 (e.g. `{ 409: 'Already closed' }`) */
   errors?: Record<number, string>;
   /** middleware that runs before the inputs are parsed (uploads) */
@@ -122,7 +123,11 @@ export function routeOperations(
       responses: {
         [r.status ?? 200]: {
           description: r.status === 201 ? 'Created' : r.status === 204 ? 'Done' : 'OK',
-          ...(r.answer ? json(r.answer) : {}),
+          ...(r.answer === 'text/csv'
+            ? { content: { 'text/csv': { schema: z.string() } } }
+            : r.answer
+              ? json(r.answer)
+              : {}),
         },
         ...Object.fromEntries(
           Object.entries(errors).map(([status, description]) => [

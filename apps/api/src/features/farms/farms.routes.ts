@@ -1,25 +1,43 @@
-import { farmCreateSchema, farmUpdateSchema, idParam } from '@tierscope/contracts';
-import { Router } from 'express';
+import { farmCreateSchema, farmPath, farmSchema, farmUpdateSchema } from '@tierscope/contracts';
+import { z } from 'zod';
 import { contextOf } from '../../platform/auth';
-import { parseInput } from '../../platform/errors';
+import { declareRoutes, route } from '../../platform/route';
 import type { FarmsService } from './farms.service';
 
-export function farmsRoutes(service: FarmsService): Router {
-  const router = Router();
-  router.get('/farms', async (req, res) => {
-    res.json(await service.list(contextOf(req)));
-  });
-  router.post('/farms', async (req, res) => {
-    res
-      .status(201)
-      .json(await service.create(contextOf(req), parseInput(farmCreateSchema, req.body)));
-  });
-  router.get('/farms/:farmId', async (req, res) => {
-    res.json(await service.get(contextOf(req), parseInput(idParam, req.params.farmId, 'path')));
-  });
-  router.patch('/farms/:farmId', async (req, res) => {
-    const farmId = parseInput(idParam, req.params.farmId, 'path');
-    res.json(await service.update(contextOf(req), farmId, parseInput(farmUpdateSchema, req.body)));
-  });
-  return router;
+export function farmsRoutes(service: FarmsService) {
+  return declareRoutes([
+    route({
+      method: 'get',
+      path: '/farms',
+      summary: 'Farms you belong to',
+      answer: z.array(farmSchema),
+      handle: ({ req }) => service.list(contextOf(req)),
+    }),
+    route({
+      method: 'post',
+      path: '/farms',
+      summary: 'Add a farm (administrators)',
+      body: farmCreateSchema,
+      status: 201,
+      answer: farmSchema,
+      handle: ({ req, body }) => service.create(contextOf(req), body),
+    }),
+    route({
+      method: 'get',
+      path: '/farms/:farmId',
+      summary: 'One farm',
+      params: farmPath,
+      answer: farmSchema,
+      handle: ({ req, params }) => service.get(contextOf(req), params.farmId),
+    }),
+    route({
+      method: 'patch',
+      path: '/farms/:farmId',
+      summary: 'Rename a farm',
+      params: farmPath,
+      body: farmUpdateSchema,
+      answer: farmSchema,
+      handle: ({ req, params, body }) => service.update(contextOf(req), params.farmId, body),
+    }),
+  ]);
 }

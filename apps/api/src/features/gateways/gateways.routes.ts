@@ -1,23 +1,42 @@
-import { gatewayCreateSchema, idParam } from '@tierscope/contracts';
-import { Router } from 'express';
+import {
+  farmPath,
+  gatewayCreateSchema,
+  gatewayCreatedSchema,
+  gatewaySchema,
+  idParam,
+} from '@tierscope/contracts';
+import { z } from 'zod';
 import { contextOf } from '../../platform/auth';
-import { parseInput } from '../../platform/errors';
+import { declareRoutes, route } from '../../platform/route';
 import type { GatewaysService } from './gateways.service';
 
-export function gatewaysRoutes(service: GatewaysService): Router {
-  const router = Router();
-  router.get('/farms/:farmId/gateways', async (req, res) => {
-    const farmId = parseInput(idParam, req.params.farmId, 'path');
-    res.json(await service.list(contextOf(req), farmId));
-  });
-  router.post('/farms/:farmId/gateways', async (req, res) => {
-    const farmId = parseInput(idParam, req.params.farmId, 'path');
-    const input = parseInput(gatewayCreateSchema, req.body);
-    res.status(201).json(await service.create(contextOf(req), farmId, input));
-  });
-  router.post('/gateways/:gatewayId/revoke', async (req, res) => {
-    const gatewayId = parseInput(idParam, req.params.gatewayId, 'path');
-    res.json(await service.revoke(contextOf(req), gatewayId));
-  });
-  return router;
+export function gatewaysRoutes(service: GatewaysService) {
+  return declareRoutes([
+    route({
+      method: 'get',
+      path: '/farms/:farmId/gateways',
+      summary: "A farm's gateways (administrators and integrators)",
+      params: farmPath,
+      answer: z.array(gatewaySchema),
+      handle: ({ req, params }) => service.list(contextOf(req), params.farmId),
+    }),
+    route({
+      method: 'post',
+      path: '/farms/:farmId/gateways',
+      summary: 'Add a gateway; the answer holds its key, shown this once',
+      params: farmPath,
+      body: gatewayCreateSchema,
+      status: 201,
+      answer: gatewayCreatedSchema,
+      handle: ({ req, params, body }) => service.create(contextOf(req), params.farmId, body),
+    }),
+    route({
+      method: 'post',
+      path: '/gateways/:gatewayId/revoke',
+      summary: "Revoke a gateway's key",
+      params: z.object({ gatewayId: idParam }),
+      answer: gatewaySchema,
+      handle: ({ req, params }) => service.revoke(contextOf(req), params.gatewayId),
+    }),
+  ]);
 }

@@ -1,37 +1,72 @@
-import { houseCreateSchema, houseUpdateSchema, idParam } from '@tierscope/contracts';
-import { Router } from 'express';
+import {
+  counterSchema,
+  farmPath,
+  houseCreateSchema,
+  housePath,
+  houseSchema,
+  houseUpdateSchema,
+  houseWithCountersSchema,
+} from '@tierscope/contracts';
+import { z } from 'zod';
 import { contextOf } from '../../platform/auth';
-import { parseInput } from '../../platform/errors';
+import { declareRoutes, route } from '../../platform/route';
 import type { HousesService } from './houses.service';
 
-export function housesRoutes(service: HousesService): Router {
-  const router = Router();
-  router.get('/farms/:farmId/houses', async (req, res) => {
-    const farmId = parseInput(idParam, req.params.farmId, 'path');
-    res.json(await service.listByFarm(contextOf(req), farmId));
-  });
-  router.post('/farms/:farmId/houses', async (req, res) => {
-    const farmId = parseInput(idParam, req.params.farmId, 'path');
-    const input = parseInput(houseCreateSchema, req.body);
-    res.status(201).json(await service.create(contextOf(req), farmId, input));
-  });
-  router.get('/houses/:houseId', async (req, res) => {
-    res.json(await service.get(contextOf(req), parseInput(idParam, req.params.houseId, 'path')));
-  });
-  router.get('/houses/:houseId/counters', async (req, res) => {
-    res.json(
-      await service.counters(contextOf(req), parseInput(idParam, req.params.houseId, 'path')),
-    );
-  });
-  router.patch('/houses/:houseId', async (req, res) => {
-    const houseId = parseInput(idParam, req.params.houseId, 'path');
-    res.json(
-      await service.update(contextOf(req), houseId, parseInput(houseUpdateSchema, req.body)),
-    );
-  });
-  router.delete('/houses/:houseId', async (req, res) => {
-    await service.remove(contextOf(req), parseInput(idParam, req.params.houseId, 'path'));
-    res.status(204).end();
-  });
-  return router;
+export function housesRoutes(service: HousesService) {
+  return declareRoutes([
+    route({
+      method: 'get',
+      path: '/farms/:farmId/houses',
+      summary: 'Houses of a farm',
+      params: farmPath,
+      answer: z.array(houseSchema),
+      handle: ({ req, params }) => service.listByFarm(contextOf(req), params.farmId),
+    }),
+    route({
+      method: 'post',
+      path: '/farms/:farmId/houses',
+      summary: 'Add a house with its sections and counters',
+      params: farmPath,
+      body: houseCreateSchema,
+      status: 201,
+      answer: houseWithCountersSchema,
+      errors: { 409: 'Name already used' },
+      handle: ({ req, params, body }) => service.create(contextOf(req), params.farmId, body),
+    }),
+    route({
+      method: 'get',
+      path: '/houses/:houseId',
+      summary: 'One house with its counters',
+      params: housePath,
+      answer: houseWithCountersSchema,
+      handle: ({ req, params }) => service.get(contextOf(req), params.houseId),
+    }),
+    route({
+      method: 'get',
+      path: '/houses/:houseId/counters',
+      summary: "A house's counters",
+      params: housePath,
+      answer: z.array(counterSchema),
+      handle: ({ req, params }) => service.counters(contextOf(req), params.houseId),
+    }),
+    route({
+      method: 'patch',
+      path: '/houses/:houseId',
+      summary: 'Change house settings',
+      params: housePath,
+      body: houseUpdateSchema,
+      answer: houseWithCountersSchema,
+      errors: { 409: 'Layout locked by readings, or name used' },
+      handle: ({ req, params, body }) => service.update(contextOf(req), params.houseId, body),
+    }),
+    route({
+      method: 'delete',
+      path: '/houses/:houseId',
+      summary: 'Delete a house that has no readings',
+      params: housePath,
+      status: 204,
+      errors: { 409: 'The house has readings' },
+      handle: ({ req, params }) => service.remove(contextOf(req), params.houseId),
+    }),
+  ]);
 }

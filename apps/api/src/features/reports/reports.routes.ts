@@ -1,27 +1,42 @@
-import { dailyReportQuerySchema, farmSummaryQuerySchema } from '@tierscope/contracts';
-import { Router } from 'express';
+import {
+  dailyReportQuerySchema,
+  dailyReportSchema,
+  farmSummaryQuerySchema,
+  farmSummarySchema,
+} from '@tierscope/contracts';
 import { contextOf } from '../../platform/auth';
-import { parseInput } from '../../platform/errors';
+import { declareRoutes, route } from '../../platform/route';
 import type { ReportsService } from './reports.service';
 
-export function reportsRoutes(service: ReportsService): Router {
-  const router = Router();
-  router.get('/reports/daily', async (req, res) => {
-    res.json(
-      await service.daily(contextOf(req), parseInput(dailyReportQuerySchema, req.query, 'query')),
-    );
-  });
-  router.get('/reports/daily.csv', async (req, res) => {
-    const { name, csv } = await service.dailyCsv(
-      contextOf(req),
-      parseInput(dailyReportQuerySchema, req.query, 'query'),
-    );
-    res.type('text/csv; charset=utf-8').attachment(name).send(csv);
-  });
-  router.get('/reports/farm', async (req, res) => {
-    res.json(
-      await service.farm(contextOf(req), parseInput(farmSummaryQuerySchema, req.query, 'query')),
-    );
-  });
-  return router;
+export function reportsRoutes(service: ReportsService) {
+  return declareRoutes([
+    route({
+      method: 'get',
+      path: '/reports/daily',
+      summary:
+        "One production day of a house: each section's eggs against expected, totals, hen-day, collector gap",
+      query: dailyReportQuerySchema,
+      answer: dailyReportSchema,
+      handle: ({ req, query }) => service.daily(contextOf(req), query),
+    }),
+    route({
+      method: 'get',
+      path: '/reports/daily.csv',
+      summary: 'The daily house report as CSV',
+      query: dailyReportQuerySchema,
+      answer: 'text/csv',
+      handle: async ({ req, res, query }) => {
+        const { name, csv } = await service.dailyCsv(contextOf(req), query);
+        res.type('text/csv; charset=utf-8').attachment(name).send(csv);
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/reports/farm',
+      summary: 'Farm summary across houses for a date range, with eggs lost to exceptions',
+      query: farmSummaryQuerySchema,
+      answer: farmSummarySchema,
+      handle: ({ req, query }) => service.farm(contextOf(req), query),
+    }),
+  ]);
 }

@@ -1,22 +1,36 @@
-import { idParam, userCreateSchema, userUpdateSchema } from '@tierscope/contracts';
-import { Router } from 'express';
+import { idParam, userCreateSchema, userSchema, userUpdateSchema } from '@tierscope/contracts';
+import { z } from 'zod';
 import { contextOf } from '../../platform/auth';
-import { parseInput } from '../../platform/errors';
+import { declareRoutes, route } from '../../platform/route';
 import type { UsersService } from './users.service';
 
-export function usersRoutes(service: UsersService): Router {
-  const router = Router();
-  router.get('/users', async (req, res) => {
-    res.json(await service.list(contextOf(req)));
-  });
-  router.post('/users', async (req, res) => {
-    res
-      .status(201)
-      .json(await service.create(contextOf(req), parseInput(userCreateSchema, req.body)));
-  });
-  router.patch('/users/:userId', async (req, res) => {
-    const id = parseInput(idParam, req.params.userId, 'path');
-    res.json(await service.update(contextOf(req), id, parseInput(userUpdateSchema, req.body)));
-  });
-  return router;
+export function usersRoutes(service: UsersService) {
+  return declareRoutes([
+    route({
+      method: 'get',
+      path: '/users',
+      summary: 'Users of the farms you administer',
+      answer: z.array(userSchema),
+      handle: ({ req }) => service.list(contextOf(req)),
+    }),
+    route({
+      method: 'post',
+      path: '/users',
+      summary: 'Create a user with farm roles',
+      body: userCreateSchema,
+      status: 201,
+      answer: userSchema,
+      errors: { 409: 'E-mail in use' },
+      handle: ({ req, body }) => service.create(contextOf(req), body),
+    }),
+    route({
+      method: 'patch',
+      path: '/users/:userId',
+      summary: "Rename, disable or change a user's roles",
+      params: z.object({ userId: idParam }),
+      body: userUpdateSchema,
+      answer: userSchema,
+      handle: ({ req, params, body }) => service.update(contextOf(req), params.userId, body),
+    }),
+  ]);
 }
