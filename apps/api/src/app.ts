@@ -200,7 +200,9 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
   mount(v1, '/api/v1', usersRoutes(createUsersService(db, runtime.notifier, events)));
   mount(v1, '/api/v1', gatewaysRoutes(createGatewaysService(db)));
   mount(v1, '/api/v1', exceptionsRoutes(runtime.exceptions));
-  v1.use(
+  mount(
+    v1,
+    '/api/v1',
     workOrdersRoutes(
       createWorkOrdersService({
         db,
@@ -211,7 +213,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
       config.photoMaxBytes,
     ),
   );
-  v1.use(notificationsRoutes(db, config.mailCatcherUrl));
+  mount(v1, '/api/v1', notificationsRoutes(db, config.mailCatcherUrl));
   mount(v1, '/api/v1', flocksRoutes(createFlocksService(db, events)));
   mount(v1, '/api/v1', reportsRoutes(createReportsService(db, runtime.evaluation)));
   v1.use(

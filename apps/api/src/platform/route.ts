@@ -22,8 +22,10 @@ export interface RouteDeclaration {
   body?: z.ZodType;
   /** the success status (200 unless given) and what it answers */
   status?: 200 | 201 | 202 | 204;
-  /** a JSON answer's schema, or `'text/csv'` for a file the handler sends itself through `res` */
-  answer?: z.ZodType | 'text/csv';
+  /** a JSON answer's schema, or the media type of a file the handler sends itself through `res` */
+  answer?: z.ZodType | 'text/csv' | 'image/*';
+  /** a multipart upload's fields (files as `z.file()`), taken apart by a `before` middleware */
+  upload?: z.ZodObject;
   /** the error answers it gives besides the usual 400, 401, 403 and 404 (e.g. `{ 409: 'Already closed' }`) */
   errors?: Record<number, string>;
   /** middleware that runs before the inputs are parsed (uploads) */
@@ -120,11 +122,23 @@ export function routeOperations(
         ? {}
         : { security: [access === 'gateway' ? { gatewayKey: [] } : { bearer: [] }] }),
       ...(r.body ? { requestBody: { required: true, ...json(r.body) } } : {}),
+      ...(r.upload
+        ? {
+            requestBody: {
+              required: true,
+              content: { 'multipart/form-data': { schema: r.upload } },
+            },
+          }
+        : {}),
       responses: {
         [r.status ?? 200]: {
           description: r.status === 201 ? 'Created' : r.status === 204 ? 'Done' : 'OK',
-          ...(r.answer === 'text/csv'
-            ? { content: { 'text/csv': { schema: z.string() } } }
+          ...(typeof r.answer === 'string'
+            ? {
+                content: {
+                  [r.answer]: { schema: r.answer === 'text/csv' ? z.string() : z.file() },
+                },
+              }
             : r.answer
               ? json(r.answer)
               : {}),

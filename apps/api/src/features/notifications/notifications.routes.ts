@@ -1,42 +1,61 @@
 import {
   caughtMailSchema,
+  notificationSettingsSchema,
   notificationSettingsUpdateSchema,
   type CaughtMail,
 } from '@tierscope/contracts';
-import { Router } from 'express';
 import { z } from 'zod';
 import { farmsWith } from '../../platform/access';
 import { contextOf } from '../../platform/auth';
-import { AppError, forbidden, parseInput } from '../../platform/errors';
+import { AppError, forbidden } from '../../platform/errors';
+import { declareRoutes, route } from '../../platform/route';
 import type { Database } from '@tierscope/db';
 import { saveSettings, settingsOf } from './notifications.repository';
 
 /** Each user's own mail choices, and the admin-only view of the local mail catcher. */
-export function notificationsRoutes(db: Database, mailCatcherUrl: string | undefined): Router {
-  const router = Router();
-  router.get('/me/notifications', async (req, res) => {
-    res.json(await settingsOf(db, contextOf(req).user.id));
-  });
-  router.put('/me/notifications', async (req, res) => {
-    const ctx = contextOf(req);
-    const patch = parseInput(notificationSettingsUpdateSchema, req.body);
-    const next = { ...(await settingsOf(db, ctx.user.id)), ...patch };
-    await saveSettings(db, ctx.user.id, next);
-    res.json(next);
-  });
-  router.get('/dev/mailbox', async (req, res) => {
-    if (farmsWith(contextOf(req), 'users.manage').length === 0) {
-      throw forbidden('Only administrators read the mailbox');
-    }
-    if (!mailCatcherUrl) {
-      throw new AppError(
-        'not_found',
-        'The mailbox exists only while the local mail catcher is the configured transport',
-      );
-    }
-    res.json(await readCatcher(mailCatcherUrl));
-  });
-  return router;
+export function notificationsRoutes(db: Database, mailCatcherUrl: string | undefined) {
+  return declareRoutes([
+    route({
+      method: 'get',
+      path: '/me/notifications',
+      summary: 'Which mails I get',
+      answer: notificationSettingsSchema,
+      handle: ({ req }) => settingsOf(db, contextOf(req).user.id),
+    }),
+    route({
+      method: 'put',
+      path: '/me/notifications',
+      summary: 'Choose which mails I get',
+      body: notificationSettingsUpdateSchema,
+      answer: notificationSettingsSchema,
+      handle: async ({ req, body }) => {
+        const ctx = contextOf(req);
+        const next = { ...(await settingsOf(db, ctx.user.id)), ...body };
+        await saveSettings(db, ctx.user.id, next);
+        return next;
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/dev/mailbox',
+      summary:
+        'What the local mail catcher caught (admins; only while it is the configured transport)',
+      answer: z.array(caughtMailSchema),
+      errors: { 503: 'The local mail catcher is not answering' },
+      handle: ({ req }) => {
+        if (farmsWith(contextOf(req), 'users.manage').length === 0) {
+          throw forbidden('Only administrators read the mailbox');
+        }
+        if (!mailCatcherUrl) {
+          throw new AppError(
+            'not_found',
+            'The mailbox exists only while the local mail catcher is the configured transport',
+          );
+        }
+        return readCatcher(mailCatcherUrl);
+      },
+    }),
+  ]);
 }
 
 async function readCatcher(base: string): Promise<CaughtMail[]> {

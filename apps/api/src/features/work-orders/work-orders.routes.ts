@@ -1,5 +1,10 @@
 import {
+  assigneeSchema,
   checklistToggleSchema,
+  farmPath,
+  workOrderReportSchema,
+  workOrderSchema,
+  workOrderSummarySchema,
   cleanText,
   idParam,
   MAX_FILE_NAME_LENGTH,
@@ -8,11 +13,12 @@ import {
   workOrdersQuerySchema,
   workOrderUpdateSchema,
 } from '@tierscope/contracts';
-import { Router, type RequestHandler } from 'express';
+import type { RequestHandler } from 'express';
+import { z } from 'zod';
 import { handleUpload } from '../../platform/uploads';
 import multer from 'multer';
 import { contextOf } from '../../platform/auth';
-import { parseInput } from '../../platform/errors';
+import { declareRoutes, route } from '../../platform/route';
 import type { WorkOrdersService } from './work-orders.service';
 
 export const MAX_PHOTOS_PER_UPLOAD = 6;
@@ -30,68 +36,117 @@ function photoUpload(maxBytes: number): RequestHandler {
   });
 }
 
-export function workOrdersRoutes(service: WorkOrdersService, photoMaxBytes: number): Router {
-  const router = Router();
-  router.get('/work-orders', async (req, res) => {
-    res.json(
-      await service.list(contextOf(req), parseInput(workOrdersQuerySchema, req.query, 'query')),
-    );
-  });
-  router.get('/work-orders/export.csv', async (req, res) => {
-    const csv = await service.exportCsv(
-      contextOf(req),
-      parseInput(workOrdersQuerySchema, req.query, 'query'),
-    );
-    res.type('text/csv; charset=utf-8').attachment('work-orders.csv').send(csv);
-  });
-  router.post('/work-orders', async (req, res) => {
-    res
-      .status(201)
-      .json(await service.create(contextOf(req), parseInput(workOrderCreateSchema, req.body)));
-  });
-  router.get('/work-orders/:workOrderId', async (req, res) => {
-    const id = parseInput(idParam, req.params.workOrderId, 'path');
-    res.json(await service.get(contextOf(req), id));
-  });
-  router.patch('/work-orders/:workOrderId', async (req, res) => {
-    const id = parseInput(idParam, req.params.workOrderId, 'path');
-    res.json(await service.update(contextOf(req), id, parseInput(workOrderUpdateSchema, req.body)));
-  });
-  router.patch('/work-orders/:workOrderId/checklist/:itemId', async (req, res) => {
-    const id = parseInput(idParam, req.params.workOrderId, 'path');
-    const itemId = parseInput(idParam, req.params.itemId, 'path');
-    const { isChecked } = parseInput(checklistToggleSchema, req.body);
-    res.json(await service.setChecklist(contextOf(req), id, itemId, isChecked));
-  });
-  router.post('/work-orders/:workOrderId/photos', photoUpload(photoMaxBytes), async (req, res) => {
-    const id = parseInput(idParam, req.params['workOrderId'], 'path');
-    const files = (Array.isArray(req.files) ? req.files : []).map((f) => ({
-      originalName: cleanText(f.originalname, MAX_FILE_NAME_LENGTH),
-      buffer: f.buffer,
-    }));
-    res.status(201).json(await service.addPhotos(contextOf(req), id, files));
-  });
-  router.get('/work-orders/:workOrderId/photos/:photoId', async (req, res) => {
-    const id = parseInput(idParam, req.params.workOrderId, 'path');
-    const photoId = parseInput(idParam, req.params.photoId, 'path');
-    const photo = await service.photo(contextOf(req), id, photoId);
-    res
-      .type(photo.contentType)
-      .set('Cache-Control', 'private, max-age=3600')
-      .set('Content-Disposition', `inline; filename="photo-${photoId}"`)
-      .send(photo.body);
-  });
-  router.get('/farms/:farmId/assignees', async (req, res) => {
-    const farmId = parseInput(idParam, req.params.farmId, 'path');
-    res.json(await service.assignees(contextOf(req), farmId));
-  });
-  router.get('/reports/work-orders', async (req, res) => {
-    res.json(
-      await service.report(
-        contextOf(req),
-        parseInput(workOrderReportQuerySchema, req.query, 'query'),
-      ),
-    );
-  });
-  return router;
+const orderPath = z.object({ workOrderId: idParam });
+
+export function workOrdersRoutes(service: WorkOrdersService, photoMaxBytes: number) {
+  return declareRoutes([
+    route({
+      method: 'get',
+      path: '/work-orders',
+      summary:
+        'Work orders: all of a farm for managers and admins, their own for crew (filters: farm, house, state or "active", assignee, mine, overdue, exception)',
+      query: workOrdersQuerySchema,
+      answer: z.array(workOrderSummarySchema),
+      handle: ({ req, query }) => service.list(contextOf(req), query),
+    }),
+    route({
+      method: 'get',
+      path: '/work-orders/export.csv',
+      summary: 'The same list as CSV (cells starting with = + - @ are escaped)',
+      query: workOrdersQuerySchema,
+      answer: 'text/csv',
+      handle: async ({ req, res, query }) => {
+        const csv = await service.exportCsv(contextOf(req), query);
+        res.type('text/csv; charset=utf-8').attachment('work-orders.csv').send(csv);
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/work-orders',
+      summary: 'Open a work order by hand or from an exception (exceptionId)',
+      body: workOrderCreateSchema,
+      status: 201,
+      answer: workOrderSchema,
+      handle: ({ req, body }) => service.create(contextOf(req), body),
+    }),
+    route({
+      method: 'get',
+      path: '/work-orders/:workOrderId',
+      summary: 'One work order with its checklist, photos and what the caller may do',
+      params: orderPath,
+      answer: workOrderSchema,
+      handle: ({ req, params }) => service.get(contextOf(req), params.workOrderId),
+    }),
+    route({
+      method: 'patch',
+      path: '/work-orders/:workOrderId',
+      summary:
+        'Change a work order: fields (managers), state (open → in progress → done with findings, or cancelled with a reason; reopen by managers), findings',
+      params: orderPath,
+      body: workOrderUpdateSchema,
+      answer: workOrderSchema,
+      errors: { 409: 'Not possible from its state' },
+      handle: ({ req, params, body }) => service.update(contextOf(req), params.workOrderId, body),
+    }),
+    route({
+      method: 'patch',
+      path: '/work-orders/:workOrderId/checklist/:itemId',
+      summary: 'Tick or untick a checklist item',
+      params: orderPath.extend({ itemId: idParam }),
+      body: checklistToggleSchema,
+      answer: workOrderSchema,
+      handle: ({ req, params, body }) =>
+        service.setChecklist(contextOf(req), params.workOrderId, params.itemId, body.isChecked),
+    }),
+    route({
+      method: 'post',
+      path: '/work-orders/:workOrderId/photos',
+      summary:
+        'Attach photos (multipart field "photos", up to 6; JPEG, PNG or WebP judged by content; size limit PHOTO_MAX_BYTES)',
+      params: orderPath,
+      upload: z.object({ photos: z.array(z.file()).max(MAX_PHOTOS_PER_UPLOAD) }),
+      before: [photoUpload(photoMaxBytes)],
+      status: 201,
+      answer: workOrderSchema,
+      errors: { 413: 'A photo over the size limit' },
+      handle: ({ req, params }) => {
+        const files = (Array.isArray(req.files) ? req.files : []).map((f) => ({
+          originalName: cleanText(f.originalname, MAX_FILE_NAME_LENGTH),
+          buffer: f.buffer,
+        }));
+        return service.addPhotos(contextOf(req), params.workOrderId, files);
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/work-orders/:workOrderId/photos/:photoId',
+      summary: 'A photo, to people who may see its work order',
+      params: orderPath.extend({ photoId: idParam }),
+      answer: 'image/*',
+      handle: async ({ req, res, params }) => {
+        const photo = await service.photo(contextOf(req), params.workOrderId, params.photoId);
+        res
+          .type(photo.contentType)
+          .set('Cache-Control', 'private, max-age=3600')
+          .set('Content-Disposition', `inline; filename="photo-${params.photoId}"`)
+          .send(photo.body);
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/farms/:farmId/assignees',
+      summary: 'People of a farm a work order can be assigned to',
+      params: farmPath,
+      answer: z.array(assigneeSchema),
+      handle: ({ req, params }) => service.assignees(contextOf(req), params.farmId),
+    }),
+    route({
+      method: 'get',
+      path: '/reports/work-orders',
+      summary: 'Done work orders per house: time from exception to done, findings by cause',
+      query: workOrderReportQuerySchema,
+      answer: workOrderReportSchema,
+      handle: ({ req, query }) => service.report(contextOf(req), query),
+    }),
+  ]);
 }
