@@ -216,7 +216,9 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
   mount(v1, '/api/v1', notificationsRoutes(db, config.mailCatcherUrl));
   mount(v1, '/api/v1', flocksRoutes(createFlocksService(db, events)));
   mount(v1, '/api/v1', reportsRoutes(createReportsService(db, runtime.evaluation)));
-  v1.use(
+  mount(
+    v1,
+    '/api/v1',
     importsRoutes(createImportsService(db, runtime.imports), {
       importsDir: join(config.dataDir, 'imports'),
       maxBytes: config.importMaxBytes,

@@ -8,10 +8,6 @@ import {
   sessionSchema,
   forgotPasswordSchema,
   setPasswordSchema,
-  importMappingSchema,
-  importStatusSchema,
-  savedMappingCreateSchema,
-  savedMappingSchema,
 } from '@tierscope/contracts';
 import { z } from 'zod';
 import { createDocument, type ZodOpenApiPathsObject } from 'zod-openapi';
@@ -116,67 +112,6 @@ function listedPaths(): Record<string, Record<string, unknown>> {
       summary: 'Choose a password with a mailed link (invitation or reset); single use, expiring',
       body: setPasswordSchema,
       responses: { 200: ok(loginResponseSchema), 400: errors[400] },
-    },
-    {
-      method: 'post',
-      path: '/api/v1/houses/{houseId}/imports',
-      summary:
-        'Import a historical counter export (multipart: "file", and "mapping" as JSON text — the mapping schema is this body). Answers 202 with the queued import; it runs in the background',
-      body: importMappingSchema,
-      responses: {
-        202: ok(importStatusSchema, 'Queued'),
-        ...errors,
-        413: error('A file over IMPORT_MAX_BYTES'),
-      },
-    },
-    {
-      method: 'get',
-      path: '/api/v1/imports',
-      summary: 'Recent imports of my farms (integrators and admins). Query: farmId',
-      responses: { 200: ok(z.array(importStatusSchema)), ...errors },
-    },
-    {
-      method: 'get',
-      path: '/api/v1/imports/{importId}',
-      summary: 'An import: state, progress, counts and its first line errors',
-      responses: { 200: ok(importStatusSchema), ...errors },
-    },
-    {
-      method: 'post',
-      path: '/api/v1/imports/{importId}/cancel',
-      summary: 'Cancel an import; readings already loaded are kept',
-      responses: { 200: ok(importStatusSchema), ...errors, 409: error('Already ended') },
-    },
-    {
-      method: 'post',
-      path: '/api/v1/imports/{importId}/retry',
-      summary: 'Run a failed import again from the start (its file is kept when it fails)',
-      responses: { 200: ok(importStatusSchema), ...errors, 409: error('Not a failed import') },
-    },
-    {
-      method: 'get',
-      path: '/api/v1/imports/{importId}/errors.csv',
-      summary: "An import's line errors as CSV (line, column, message)",
-      responses: { 200: { description: 'text/csv' }, ...errors },
-    },
-    {
-      method: 'get',
-      path: '/api/v1/farms/{farmId}/import-mappings',
-      summary: 'Saved column mappings of a farm',
-      responses: { 200: ok(z.array(savedMappingSchema)), ...errors },
-    },
-    {
-      method: 'post',
-      path: '/api/v1/farms/{farmId}/import-mappings',
-      summary: 'Save a mapping by name (the same name replaces it)',
-      body: savedMappingCreateSchema,
-      responses: { 201: ok(savedMappingSchema, 'Saved'), ...errors },
-    },
-    {
-      method: 'delete',
-      path: '/api/v1/import-mappings/{mappingId}',
-      summary: 'Delete a saved mapping',
-      responses: { 204: { description: 'Deleted' }, ...errors },
     },
   ];
   const jsonSchema = (schema: z.ZodType, io: 'input' | 'output') =>

@@ -30,6 +30,8 @@ export interface RouteDeclaration {
   errors?: Record<number, string>;
   /** middleware that runs before the inputs are parsed (uploads) */
   before?: RequestHandler[];
+  /** undoes what `before` left when the request is refused (an upload's file on disk) */
+  release?: (req: Request) => void;
   handle(input: { params: never; query: never; body: never; req: Request; res: Response }): unknown;
 }
 
@@ -69,7 +71,7 @@ export interface DeclaredRoutes {
 export function declareRoutes(routes: readonly RouteDeclaration[]): DeclaredRoutes {
   const router = Router();
   for (const declaration of routes) {
-    const handler: RequestHandler = async (req, res) => {
+    const run = (req: Request, res: Response) => {
       const input = {
         params: declaration.params ? parseInput(declaration.params, req.params, 'path') : undefined,
         query: declaration.query ? parseInput(declaration.query, req.query, 'query') : undefined,
@@ -77,7 +79,16 @@ export function declareRoutes(routes: readonly RouteDeclaration[]): DeclaredRout
         req,
         res,
       };
-      const answer = await declaration.handle(input as never);
+      return declaration.handle(input as never);
+    };
+    const handler: RequestHandler = async (req, res) => {
+      let answer: unknown;
+      try {
+        answer = await run(req, res);
+      } catch (error) {
+        if (!res.headersSent) declaration.release?.(req);
+        throw error;
+      }
       if (res.headersSent) return;
       const status = declaration.status ?? 200;
       if (status === 204) res.status(204).end();

@@ -3,18 +3,23 @@ import { mkdirSync, rmSync } from 'node:fs';
 import { open } from 'node:fs/promises';
 import {
   cleanText,
+  farmPath,
+  housePath,
+  importStatusSchema,
+  savedMappingSchema,
   findUnsafeInput,
   idParam,
   importMappingSchema,
   MAX_FILE_NAME_LENGTH,
   savedMappingCreateSchema,
 } from '@tierscope/contracts';
-import { Router, type RequestHandler } from 'express';
+import type { RequestHandler } from 'express';
 import { handleUpload } from '../../platform/uploads';
 import multer from 'multer';
 import { z } from 'zod';
 import { contextOf } from '../../platform/auth';
 import { AppError, parseInput } from '../../platform/errors';
+import { declareRoutes, route } from '../../platform/route';
 import type { ImportsService } from './imports.service';
 
 /**
@@ -67,19 +72,53 @@ async function looksLikeText(path: string): Promise<boolean> {
 }
 
 const listQuery = z.object({ farmId: idParam.optional() });
+const importPath = z.object({ importId: idParam });
+
+/** The mapping sent as JSON text beside the file, parsed and checked like any body. */
+function parseMapping(text: unknown) {
+  let raw: unknown;
+  try {
+    raw = typeof text === 'string' ? JSON.parse(text) : text;
+  } catch {
+    // Bad JSON is the caller's input error, said in the one error shape.
+    throw new AppError('validation_failed', 'The mapping is not valid JSON', [
+      { path: 'mapping', message: 'Malformed JSON' },
+    ]);
+  }
+  const unsafe = findUnsafeInput(raw);
+  if (unsafe) {
+    throw new AppError('validation_failed', 'The mapping is not valid', [
+      { path: `mapping.${unsafe.path}`, message: unsafe.message },
+    ]);
+  }
+  return parseInput(importMappingSchema, raw, 'mapping');
+}
 
 export function importsRoutes(
   service: ImportsService,
   options: { importsDir: string; maxBytes: number },
-): Router {
-  const router = Router();
-  router.post(
-    '/houses/:houseId/imports',
-    fileUpload(options.importsDir, options.maxBytes),
-    async (req, res) => {
-      const file = req.file;
-      try {
-        const houseId = parseInput(idParam, req.params['houseId'], 'path');
+) {
+  return declareRoutes([
+    route({
+      method: 'post',
+      path: '/houses/:houseId/imports',
+      summary:
+        'Import a historical counter export (multipart: "file", and "mapping" as JSON text). Answers 202 with the queued import; it runs in the background',
+      params: housePath,
+      upload: z.object({
+        file: z.file(),
+        mapping: z.string().meta({ description: 'The column mapping as JSON text' }),
+      }),
+      before: [fileUpload(options.importsDir, options.maxBytes)],
+      // Anything refused before the import row exists leaves no file behind.
+      release: (req) => {
+        if (req.file) rmSync(req.file.path, { force: true });
+      },
+      status: 202,
+      answer: importStatusSchema,
+      errors: { 413: 'A file over IMPORT_MAX_BYTES', 415: 'Not a text (CSV) export' },
+      handle: async ({ req, params }) => {
+        const file = req.file;
         if (!file) {
           throw new AppError('validation_failed', 'Attach the CSV export as the field "file"', [
             { path: 'file', message: 'No file received' },
@@ -91,77 +130,91 @@ export function importsRoutes(
             'This file is not a text (CSV) export: save it as CSV in UTF-8 and try again',
           );
         }
-        const body = req.body as { mapping?: unknown };
-        let raw: unknown;
-        try {
-          raw = typeof body.mapping === 'string' ? JSON.parse(body.mapping) : body.mapping;
-        } catch {
-          // Bad JSON is the caller's input error, said in the one error shape.
-          throw new AppError('validation_failed', 'The mapping is not valid JSON', [
-            { path: 'mapping', message: 'Malformed JSON' },
-          ]);
-        }
-        const unsafe = findUnsafeInput(raw);
-        if (unsafe) {
-          throw new AppError('validation_failed', 'The mapping is not valid', [
-            { path: `mapping.${unsafe.path}`, message: unsafe.message },
-          ]);
-        }
-        const mapping = parseInput(importMappingSchema, raw, 'mapping');
-        res.status(202).json(
-          await service.start(
-            contextOf(req),
-            houseId,
-            {
-              storedName: file.filename,
-              path: file.path,
-              fileName: cleanText(file.originalname, MAX_FILE_NAME_LENGTH),
-              bytes: file.size,
-            },
-            mapping,
-          ),
+        const mapping = parseMapping((req.body as { mapping?: unknown }).mapping);
+        return service.start(
+          contextOf(req),
+          params.houseId,
+          {
+            storedName: file.filename,
+            path: file.path,
+            fileName: cleanText(file.originalname, MAX_FILE_NAME_LENGTH),
+            bytes: file.size,
+          },
+          mapping,
         );
-      } catch (error) {
-        // Anything refused before the import row exists leaves no file behind.
-        if (file && !res.headersSent) rmSync(file.path, { force: true });
-        throw error;
-      }
-    },
-  );
-  router.get('/imports', async (req, res) => {
-    const { farmId } = parseInput(listQuery, req.query, 'query');
-    res.json(await service.list(contextOf(req), farmId));
-  });
-  router.get('/imports/:importId', async (req, res) => {
-    const id = parseInput(idParam, req.params.importId, 'path');
-    res.json(await service.get(contextOf(req), id));
-  });
-  router.post('/imports/:importId/cancel', async (req, res) => {
-    const id = parseInput(idParam, req.params.importId, 'path');
-    res.json(await service.cancel(contextOf(req), id));
-  });
-  router.post('/imports/:importId/retry', async (req, res) => {
-    const id = parseInput(idParam, req.params.importId, 'path');
-    res.json(await service.retry(contextOf(req), id));
-  });
-  router.get('/imports/:importId/errors.csv', async (req, res) => {
-    const id = parseInput(idParam, req.params.importId, 'path');
-    const { name, csv } = await service.errorsCsv(contextOf(req), id);
-    res.type('text/csv; charset=utf-8').attachment(name).send(csv);
-  });
-  router.get('/farms/:farmId/import-mappings', async (req, res) => {
-    const farmId = parseInput(idParam, req.params.farmId, 'path');
-    res.json(await service.mappings(contextOf(req), farmId));
-  });
-  router.post('/farms/:farmId/import-mappings', async (req, res) => {
-    const farmId = parseInput(idParam, req.params.farmId, 'path');
-    const { name, mapping } = parseInput(savedMappingCreateSchema, req.body);
-    res.status(201).json(await service.saveMapping(contextOf(req), farmId, name, mapping));
-  });
-  router.delete('/import-mappings/:mappingId', async (req, res) => {
-    const id = parseInput(idParam, req.params.mappingId, 'path');
-    await service.deleteMapping(contextOf(req), id);
-    res.status(204).end();
-  });
-  return router;
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/imports',
+      summary: 'Recent imports of my farms (integrators and admins)',
+      query: listQuery,
+      answer: z.array(importStatusSchema),
+      handle: ({ req, query }) => service.list(contextOf(req), query.farmId),
+    }),
+    route({
+      method: 'get',
+      path: '/imports/:importId',
+      summary: 'An import: state, progress, counts and its first line errors',
+      params: importPath,
+      answer: importStatusSchema,
+      handle: ({ req, params }) => service.get(contextOf(req), params.importId),
+    }),
+    route({
+      method: 'post',
+      path: '/imports/:importId/cancel',
+      summary: 'Cancel an import; readings already loaded are kept',
+      params: importPath,
+      answer: importStatusSchema,
+      errors: { 409: 'Already ended' },
+      handle: ({ req, params }) => service.cancel(contextOf(req), params.importId),
+    }),
+    route({
+      method: 'post',
+      path: '/imports/:importId/retry',
+      summary: 'Run a failed import again from the start (its file is kept when it fails)',
+      params: importPath,
+      answer: importStatusSchema,
+      errors: { 409: 'Not a failed import' },
+      handle: ({ req, params }) => service.retry(contextOf(req), params.importId),
+    }),
+    route({
+      method: 'get',
+      path: '/imports/:importId/errors.csv',
+      summary: "An import's line errors as CSV (line, column, message)",
+      params: importPath,
+      answer: 'text/csv',
+      handle: async ({ req, res, params }) => {
+        const { name, csv } = await service.errorsCsv(contextOf(req), params.importId);
+        res.type('text/csv; charset=utf-8').attachment(name).send(csv);
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/farms/:farmId/import-mappings',
+      summary: 'Saved column mappings of a farm',
+      params: farmPath,
+      answer: z.array(savedMappingSchema),
+      handle: ({ req, params }) => service.mappings(contextOf(req), params.farmId),
+    }),
+    route({
+      method: 'post',
+      path: '/farms/:farmId/import-mappings',
+      summary: 'Save a mapping by name (the same name replaces it)',
+      params: farmPath,
+      body: savedMappingCreateSchema,
+      status: 201,
+      answer: savedMappingSchema,
+      handle: ({ req, params, body }) =>
+        service.saveMapping(contextOf(req), params.farmId, body.name, body.mapping),
+    }),
+    route({
+      method: 'delete',
+      path: '/import-mappings/:mappingId',
+      summary: 'Delete a saved mapping',
+      params: z.object({ mappingId: idParam }),
+      status: 204,
+      handle: ({ req, params }) => service.deleteMapping(contextOf(req), params.mappingId),
+    }),
+  ]);
 }
