@@ -26,8 +26,9 @@ import { createEventBus, type EventBus } from './platform/events';
 import { inputGuard } from './platform/input-guard';
 import { PostgresRateLimitStore } from './platform/rate-limit-store';
 import { buildOpenApiDocument } from './platform/openapi';
-import { routeOperations, type DeclaredRoutes } from './platform/route';
+import { declareRoutes, route, routeOperations, type DeclaredRoutes } from './platform/route';
 import type { ZodOpenApiPathsObject } from 'zod-openapi';
+import { z } from 'zod';
 import { createTokenService, type TokenService } from './platform/tokens';
 import {
   EVALUATION_INTERVAL_MS,
@@ -154,19 +155,20 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
       },
     }),
   );
-  // The ingest route parses its own, larger bodies, after checking the gateway key.
-  const ingest = ingestRoutes(db, createIngestService(db, events), info);
-  app.use('/api/v1', ingest);
-  app.use(express.json({ limit: '1mb' }));
-  app.use(inputGuard());
-
-  const authenticate = createAuthenticator(tokens, (id) => loadActiveUser(db, id));
   // The routes declared once (platform/route.ts): mounted here, and listed in the OpenAPI document.
   const declared: ZodOpenApiPathsObject = {};
   const mount = (router: express.Router, prefix: string, feature: DeclaredRoutes) => {
     router.use(feature.router);
     Object.assign(declared, routeOperations(prefix, feature.routes));
   };
+  // The ingest route parses its own, larger bodies, after checking the gateway key.
+  const ingest = express.Router();
+  mount(ingest, '/api/v1', ingestRoutes(db, createIngestService(db, events), info));
+  app.use('/api/v1', ingest);
+  app.use(express.json({ limit: '1mb' }));
+  app.use(inputGuard());
+
+  const authenticate = createAuthenticator(tokens, (id) => loadActiveUser(db, id));
 
   const health = express.Router();
   mount(
@@ -178,11 +180,24 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
 
   const v1 = express.Router();
   let openApi: object = {};
-  v1.get('/openapi.json', (_req, res) => {
-    res.json(openApi);
-  });
-  v1.use(
-    '/auth',
+  mount(
+    v1,
+    '/api/v1',
+    declareRoutes([
+      route({
+        method: 'get',
+        path: '/openapi.json',
+        summary: 'This document (OpenAPI 3.1)',
+        access: 'public',
+        answer: z.record(z.string(), z.unknown()),
+        handle: () => openApi,
+      }),
+    ]),
+  );
+  const auth = express.Router();
+  mount(
+    auth,
+    '/api/v1/auth',
     authRoutes(
       createAuthService(db, tokens, runtime.notifier, events),
       authenticate,
@@ -194,6 +209,8 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
       log,
     ),
   );
+  v1.use('/auth', auth);
+
   v1.use(authenticate);
   mount(v1, '/api/v1', farmsRoutes(createFarmsService(db)));
   mount(v1, '/api/v1', housesRoutes(createHousesService(db)));

@@ -31,9 +31,19 @@ export const readingInputSchema = z
   });
 export type ReadingInput = z.infer<typeof readingInputSchema>;
 
-/** The batch envelope; each reading is checked on its own so that good readings land beside bad ones. */
+/** A reading's JSON Schema (without its dialect line), shown for each item of a batch in the API document. */
+const readingJsonSchema = Object.fromEntries(
+  Object.entries(z.toJSONSchema(readingInputSchema, { io: 'input' })).filter(
+    ([k]) => k !== '$schema',
+  ),
+);
+
+/**
+ * The batch envelope. Each reading is checked on its own (readingInputSchema, by the ingest service) so
+ * that good readings land beside bad ones; the document shows each item as that reading.
+ */
 export const readingsBatchSchema = z.object({
-  readings: z.array(z.unknown(), 'readings must be a list'),
+  readings: z.array(z.unknown().meta(readingJsonSchema), 'readings must be a list'),
 });
 
 export const ingestResultSchema = z.object({

@@ -1,8 +1,16 @@
-import { forgotPasswordSchema, loginRequestSchema, setPasswordSchema } from '@tierscope/contracts';
-import { Router, type RequestHandler } from 'express';
+import {
+  forgotPasswordSchema,
+  loginRequestSchema,
+  loginResponseSchema,
+  sessionSchema,
+  setPasswordSchema,
+} from '@tierscope/contracts';
+import type { RequestHandler } from 'express';
 import { ipKeyGenerator, rateLimit, type Store } from 'express-rate-limit';
 import { contextOf } from '../../platform/auth';
-import { AppError, errorBody, parseInput } from '../../platform/errors';
+import { z } from 'zod';
+import { AppError, errorBody } from '../../platform/errors';
+import { declareRoutes, route } from '../../platform/route';
 import type { AuthService } from './auth.service';
 
 /**
@@ -53,39 +61,66 @@ export function authRoutes(
     storeFor: (prefix: string) => Store;
   },
   log: (message: string, error?: unknown) => void,
-): Router {
-  const router = Router();
-  router.post(
-    '/login',
-    loginLimiter(limits.storeFor('login'), limits.maxFailures, limits.windowSeconds),
-    async (req, res) => {
-      res.json(await service.login(parseInput(loginRequestSchema, req.body)));
-    },
-  );
-  // The same answer, in the same time, whether or not the address has an account: the look-up and the
-  // mail happen after the answer has gone, so neither its words nor its timing can find accounts.
-  router.post(
-    '/forgot',
-    loginLimiter(limits.storeFor('forgot'), limits.maxFailures, limits.windowSeconds, false),
-    (req, res) => {
-      const input = parseInput(forgotPasswordSchema, req.body);
-      res.status(202).json({ message: 'If that address has an account, a link is on its way.' });
-      setImmediate(() => {
-        service.forgot(input).catch((error: unknown) => {
-          log('password reset mail failed', error);
+) {
+  const limited = (prefix: string, isOnlyFailures = true) => [
+    loginLimiter(limits.storeFor(prefix), limits.maxFailures, limits.windowSeconds, isOnlyFailures),
+  ];
+  return declareRoutes([
+    route({
+      method: 'post',
+      path: '/login',
+      summary: 'Sign in',
+      access: 'public',
+      before: limited('login'),
+      body: loginRequestSchema,
+      answer: loginResponseSchema,
+      errors: {
+        401: 'Wrong e-mail or password',
+        403: 'Account disabled',
+        429: 'Too many failed sign-ins',
+      },
+      handle: ({ body }) => service.login(body),
+    }),
+    // The same answer, in the same time, whether or not the address has an account: the look-up and the
+    // mail happen after the answer has gone, so neither its words nor its timing can find accounts.
+    route({
+      method: 'post',
+      path: '/forgot',
+      summary:
+        'Mail a password-reset link; the same answer whether or not the address has an account',
+      access: 'public',
+      before: limited('forgot', false),
+      body: forgotPasswordSchema,
+      status: 202,
+      answer: z.object({ message: z.string() }),
+      errors: { 429: 'Too many requests' },
+      handle: ({ body }) => {
+        setImmediate(() => {
+          service.forgot(body).catch((error: unknown) => {
+            log('password reset mail failed', error);
+          });
         });
-      });
-    },
-  );
-  router.post(
-    '/set-password',
-    loginLimiter(limits.storeFor('set-password'), limits.maxFailures, limits.windowSeconds),
-    async (req, res) => {
-      res.json(await service.setPassword(parseInput(setPasswordSchema, req.body)));
-    },
-  );
-  router.get('/me', authenticate, async (req, res) => {
-    res.json(await service.session(contextOf(req)));
-  });
-  return router;
+        return { message: 'If that address has an account, a link is on its way.' };
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/set-password',
+      summary: 'Choose a password with a mailed link (invitation or reset); single use, expiring',
+      access: 'public',
+      before: limited('set-password'),
+      body: setPasswordSchema,
+      answer: loginResponseSchema,
+      errors: { 429: 'Too many failed attempts' },
+      handle: ({ body }) => service.setPassword(body),
+    }),
+    route({
+      method: 'get',
+      path: '/me',
+      summary: 'The signed-in user and their farm roles',
+      before: [authenticate],
+      answer: sessionSchema,
+      handle: ({ req }) => service.session(contextOf(req)),
+    }),
+  ]);
 }

@@ -1,7 +1,8 @@
-import { readingsBatchSchema } from '@tierscope/contracts';
+import { ingestResultSchema, readingsBatchSchema } from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
-import express, { Router, type RequestHandler } from 'express';
-import { AppError, parseInput } from '../../platform/errors';
+import express, { type RequestHandler } from 'express';
+import { AppError } from '../../platform/errors';
+import { declareRoutes, route } from '../../platform/route';
 import { hashGatewayKey, looksLikeGatewayKey } from '../../platform/gateway-keys';
 import { findActiveGatewayByHash, touchGateway } from '../gateways/gateways.repository';
 import type { GatewayContext, IngestService } from './ingest.service';
@@ -45,24 +46,33 @@ export function ingestRoutes(
   db: Database,
   service: IngestService,
   info: (message: string) => void,
-): Router {
-  const router = Router();
-  router.post(
-    '/ingest/readings',
-    gatewayAuth(db),
-    express.json({ limit: INGEST_BODY_LIMIT }),
-    async (req, res) => {
-      const gateway = req.gateway;
-      if (!gateway) throw new AppError('unauthenticated', 'Send a gateway key');
-      const batch = parseInput(readingsBatchSchema, req.body);
-      const result = await service.ingest(gateway, batch.readings);
-      if (batch.readings.length > 0) {
-        info(
-          `ingest: farm ${gateway.farmId} gateway ${gateway.gatewayId}: ${result.accepted} new, ${result.duplicates} duplicates, ${result.rejected.length} rejected`,
-        );
-      }
-      res.json(result);
-    },
-  );
-  return router;
+) {
+  return declareRoutes([
+    route({
+      method: 'post',
+      path: '/ingest/readings',
+      summary:
+        'Post up to 10,000 counter readings with a gateway key. Each reading carries eggs (since the previous reading) or total (running total). Re-sending never counts twice.',
+      access: 'gateway',
+      before: [gatewayAuth(db), express.json({ limit: INGEST_BODY_LIMIT })],
+      body: readingsBatchSchema,
+      answer: ingestResultSchema,
+      errors: {
+        401: 'Missing, unknown or revoked gateway key',
+        413: 'More than 10,000 readings, or a body over 4 MB',
+        503: 'Database unreachable: retry',
+      },
+      handle: async ({ req, body }) => {
+        const gateway = req.gateway;
+        if (!gateway) throw new AppError('unauthenticated', 'Send a gateway key');
+        const result = await service.ingest(gateway, body.readings);
+        if (body.readings.length > 0) {
+          info(
+            `ingest: farm ${gateway.farmId} gateway ${gateway.gatewayId}: ${result.accepted} new, ${result.duplicates} duplicates, ${result.rejected.length} rejected`,
+          );
+        }
+        return result;
+      },
+    }),
+  ]);
 }
