@@ -133,3 +133,29 @@ describe('on a phone', () => {
     await page.close();
   });
 });
+
+describe('the API document in the browser', () => {
+  it('renders every route at /api/docs from files the app serves itself', async () => {
+    const page = await harness.browser.newPage({ viewport: { width: 1280, height: 900 } });
+    const refused: string[] = [];
+    page.on('console', (message) => {
+      if (message.type() === 'error') refused.push(message.text());
+    });
+    const elsewhere: string[] = [];
+    page.on('request', (request) => {
+      if (!request.url().startsWith(harness.baseUrl) && !request.url().startsWith('data:'))
+        elsewhere.push(request.url());
+    });
+    await page.goto(`${harness.baseUrl}/api/docs`);
+    await page.getByRole('heading', { name: /Tierscope API/ }).waitFor();
+    // Routes of every kind: a gateway's, a public one, one with a date in its path.
+    await page.getByText('/api/v1/ingest/readings', { exact: true }).waitFor();
+    await page.getByText('/api/v1/auth/login', { exact: true }).waitFor();
+    await page.getByText('/api/v1/flocks/{flockId}/mortality/{day}', { exact: true }).waitFor();
+    expect(await page.locator('.opblock').count()).toBeGreaterThan(50);
+    expect(elsewhere).toEqual([]);
+    expect(refused).toEqual([]);
+    await screenshot(page, 'api-docs');
+    await page.close();
+  });
+});

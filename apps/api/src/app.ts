@@ -25,6 +25,7 @@ import { AppError, errorMiddleware } from './platform/errors';
 import { createEventBus, type EventBus } from './platform/events';
 import { inputGuard } from './platform/input-guard';
 import { PostgresRateLimitStore } from './platform/rate-limit-store';
+import { apiDocsRoutes } from './platform/api-docs';
 import { buildOpenApiDocument } from './platform/openapi';
 import { declareRoutes, route, routeOperations, type DeclaredRoutes } from './platform/route';
 import type { ZodOpenApiPathsObject } from 'zod-openapi';
@@ -159,7 +160,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
   const declared: ZodOpenApiPathsObject = {};
   const mount = (router: express.Router, prefix: string, feature: DeclaredRoutes) => {
     router.use(feature.router);
-    Object.assign(declared, routeOperations(prefix, feature.routes));
+    Object.assign(declared, routeOperations(prefix, feature));
   };
   // The ingest route parses its own, larger bodies, after checking the gateway key.
   const ingest = express.Router();
@@ -177,13 +178,18 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
     healthRoutes(() => pingDatabase(db), API_VERSION, deps.isReady ?? (() => true), deps.holder),
   );
   app.use('/api', health);
+  const docs = apiDocsRoutes();
+  const docsRouter = express.Router();
+  mount(docsRouter, '/api', docs);
+  docsRouter.use('/docs', docs.files);
+  app.use('/api', docsRouter);
 
   const v1 = express.Router();
   let openApi: object = {};
   mount(
     v1,
     '/api/v1',
-    declareRoutes([
+    declareRoutes('API document', [
       route({
         method: 'get',
         path: '/openapi.json',

@@ -23,7 +23,7 @@ export interface RouteDeclaration {
   /** the success status (200 unless given) and what it answers */
   status?: 200 | 201 | 202 | 204;
   /** a JSON answer's schema, or the media type of a file the handler sends itself through `res` */
-  answer?: z.ZodType | 'text/csv' | 'image/*';
+  answer?: z.ZodType | 'text/csv' | 'text/html' | 'text/javascript' | 'image/*';
   /** a multipart upload's fields (files as `z.file()`), taken apart by a `before` middleware */
   upload?: z.ZodObject;
   /** the error answers it gives besides the usual 400, 401, 403 and 404 (e.g. `{ 409: 'Already closed' }`) */
@@ -66,9 +66,11 @@ export function route<
 export interface DeclaredRoutes {
   router: Router;
   routes: readonly RouteDeclaration[];
+  /** the heading the document lists them under */
+  tag: string;
 }
 
-export function declareRoutes(routes: readonly RouteDeclaration[]): DeclaredRoutes {
+export function declareRoutes(tag: string, routes: readonly RouteDeclaration[]): DeclaredRoutes {
   const router = Router();
   for (const declaration of routes) {
     const run = (req: Request, res: Response) => {
@@ -96,7 +98,7 @@ export function declareRoutes(routes: readonly RouteDeclaration[]): DeclaredRout
     };
     router[declaration.method](declaration.path, ...(declaration.before ?? []), handler);
   }
-  return { router, routes };
+  return { router, routes, tag };
 }
 
 const STANDARD_ERRORS: Record<number, string> = {
@@ -107,19 +109,17 @@ const STANDARD_ERRORS: Record<number, string> = {
 };
 
 /** The OpenAPI operations of declared routes mounted at `prefix` (e.g. `/api/v1`). */
-export function routeOperations(
-  prefix: string,
-  routes: readonly RouteDeclaration[],
-): ZodOpenApiPathsObject {
+export function routeOperations(prefix: string, feature: DeclaredRoutes): ZodOpenApiPathsObject {
   const paths: ZodOpenApiPathsObject = {};
   const json = (schema: z.ZodType) => ({ content: { 'application/json': { schema } } });
-  for (const r of routes) {
+  for (const r of feature.routes) {
     const access = r.access ?? 'user';
     const errors = {
       ...(access === 'public' ? { 400: STANDARD_ERRORS[400] ?? '' } : STANDARD_ERRORS),
       ...r.errors,
     };
     const operation: ZodOpenApiOperationObject = {
+      tags: [feature.tag],
       summary: r.summary,
       ...(r.params || r.query
         ? {

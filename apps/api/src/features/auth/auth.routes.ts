@@ -65,7 +65,7 @@ export function authRoutes(
   const limited = (prefix: string, isOnlyFailures = true) => [
     loginLimiter(limits.storeFor(prefix), limits.maxFailures, limits.windowSeconds, isOnlyFailures),
   ];
-  return declareRoutes([
+  return declareRoutes('Sign-in', [
     route({
       method: 'post',
       path: '/login',

@@ -15,7 +15,7 @@ import type { ExceptionsService } from './exceptions.service';
 const exceptionParams = z.object({ exceptionId: idParam });
 
 export function exceptionsRoutes(service: ExceptionsService) {
-  return declareRoutes([
+  return declareRoutes('Map and exceptions', [
     route({
       method: 'get',
       path: '/houses/:houseId/map',

@@ -5,7 +5,7 @@ import { declareRoutes, route } from '../../platform/route';
 import type { FarmsService } from './farms.service';
 
 export function farmsRoutes(service: FarmsService) {
-  return declareRoutes([
+  return declareRoutes('Farms', [
     route({
       method: 'get',
       path: '/farms',

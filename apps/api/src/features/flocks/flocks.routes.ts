@@ -16,7 +16,7 @@ const houseParams = z.object({ houseId: idParam });
 const flockParams = z.object({ flockId: idParam });
 
 export function flocksRoutes(service: FlocksService) {
-  return declareRoutes([
+  return declareRoutes('Flocks', [
     route({
       method: 'get',
       path: '/houses/:houseId/flocks',

@@ -11,7 +11,7 @@ import { declareRoutes, route } from '../../platform/route';
 import type { GatewaysService } from './gateways.service';
 
 export function gatewaysRoutes(service: GatewaysService) {
-  return declareRoutes([
+  return declareRoutes('Gateways', [
     route({
       method: 'get',
       path: '/farms/:farmId/gateways',

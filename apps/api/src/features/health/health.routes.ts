@@ -33,7 +33,7 @@ export function healthRoutes(
     errors: { 503: 'Database down, or stopping' },
     handle: ready,
   } as const;
-  return declareRoutes([
+  return declareRoutes('Health', [
     route({
       ...readiness,
       path: '/health',

@@ -13,7 +13,7 @@ import { declareRoutes, route } from '../../platform/route';
 import type { HousesService } from './houses.service';
 
 export function housesRoutes(service: HousesService) {
-  return declareRoutes([
+  return declareRoutes('Houses', [
     route({
       method: 'get',
       path: '/farms/:farmId/houses',

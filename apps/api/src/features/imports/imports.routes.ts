@@ -98,7 +98,7 @@ export function importsRoutes(
   service: ImportsService,
   options: { importsDir: string; maxBytes: number },
 ) {
-  return declareRoutes([
+  return declareRoutes('Imports', [
     route({
       method: 'post',
       path: '/houses/:houseId/imports',

@@ -47,7 +47,7 @@ export function ingestRoutes(
   service: IngestService,
   info: (message: string) => void,
 ) {
-  return declareRoutes([
+  return declareRoutes('Ingest', [
     route({
       method: 'post',
       path: '/ingest/readings',

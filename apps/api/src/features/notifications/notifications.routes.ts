@@ -14,7 +14,7 @@ import { saveSettings, settingsOf } from './notifications.repository';
 
 /** Each user's own mail choices, and the admin-only view of the local mail catcher. */
 export function notificationsRoutes(db: Database, mailCatcherUrl: string | undefined) {
-  return declareRoutes([
+  return declareRoutes('Mail', [
     route({
       method: 'get',
       path: '/me/notifications',

@@ -9,7 +9,7 @@ import { declareRoutes, route } from '../../platform/route';
 import type { ReportsService } from './reports.service';
 
 export function reportsRoutes(service: ReportsService) {
-  return declareRoutes([
+  return declareRoutes('Reports', [
     route({
       method: 'get',
       path: '/reports/daily',

@@ -5,7 +5,7 @@ import { declareRoutes, route } from '../../platform/route';
 import type { UsersService } from './users.service';
 
 export function usersRoutes(service: UsersService) {
-  return declareRoutes([
+  return declareRoutes('Users', [
     route({
       method: 'get',
       path: '/users',

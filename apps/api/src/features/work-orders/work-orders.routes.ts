@@ -39,7 +39,7 @@ function photoUpload(maxBytes: number): RequestHandler {
 const orderPath = z.object({ workOrderId: idParam });
 
 export function workOrdersRoutes(service: WorkOrdersService, photoMaxBytes: number) {
-  return declareRoutes([
+  return declareRoutes('Work orders', [
     route({
       method: 'get',
       path: '/work-orders',
