@@ -238,7 +238,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
   );
   mount(v1, '/api/v1', notificationsRoutes(db, config.mailCatcherUrl));
   mount(v1, '/api/v1', flocksRoutes(createFlocksService(db, events)));
-  mount(v1, '/api/v1', reportsRoutes(createReportsService(db, runtime.evaluation)));
+  mount(v1, '/api/v1', reportsRoutes(createReportsService(db, runtime.evaluation), db));
   mount(
     v1,
     '/api/v1',

@@ -3,12 +3,16 @@ import {
   dailyReportSchema,
   farmSummaryQuerySchema,
   farmSummarySchema,
+  workOrderReportQuerySchema,
+  workOrderReportSchema,
 } from '@tierscope/contracts';
+import type { Database } from '@tierscope/db';
 import { contextOf } from '../../platform/auth';
 import { declareRoutes, route } from '../../platform/route';
 import type { ReportsService } from './reports.service';
+import { workOrderReport } from './work-order-report';
 
-export function reportsRoutes(service: ReportsService) {
+export function reportsRoutes(service: ReportsService, db: Database) {
   return declareRoutes('Reports', [
     route({
       method: 'get',
@@ -37,6 +41,14 @@ export function reportsRoutes(service: ReportsService) {
       query: farmSummaryQuerySchema,
       answer: farmSummarySchema,
       handle: ({ req, query }) => service.farm(contextOf(req), query),
+    }),
+    route({
+      method: 'get',
+      path: '/reports/work-orders',
+      summary: 'Done work orders per house: time from exception to done, findings by cause',
+      query: workOrderReportQuerySchema,
+      answer: workOrderReportSchema,
+      handle: ({ req, query }) => workOrderReport(db, contextOf(req), query),
     }),
   ]);
 }

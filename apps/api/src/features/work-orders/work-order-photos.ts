@@ -1,6 +1,12 @@
+import { randomBytes } from 'node:crypto';
+import { readFile } from 'node:fs/promises';
+import { join } from 'node:path';
+import type { Database } from '@tierscope/db';
 import { fileTypeFromBuffer } from 'file-type';
 import sharp from 'sharp';
-import { AppError } from '../../platform/errors';
+import { AppError, notFound } from '../../platform/errors';
+import { recordAudit } from '../audit/audit.repository';
+import { findPhotoContent, insertPhoto, insertPhotoContent } from './work-orders.repository';
 
 /** Photo types accepted, judged by the file's content (its magic bytes), never by its name. */
 const PHOTO_TYPES: Record<string, string> = {
@@ -87,4 +93,56 @@ export async function readPhotos(files: UploadedPhoto[]): Promise<ReadPhoto[]> {
     );
   }
   return read.flatMap((r) => (r.image ? [{ ...r, image: r.image }] : []));
+}
+
+/**
+ * Keeps checked photos of a work order, bytes and record together in one transaction (so any API process
+ * serves them), with one audit entry.
+ */
+export async function storePhotos(
+  db: Database,
+  order: { id: number; farmId: number },
+  userId: number,
+  photos: readonly ReadPhoto[],
+): Promise<void> {
+  await db.transaction(async (tx) => {
+    for (const { file, mime, extension, image } of photos) {
+      const photo = await insertPhoto(tx, {
+        workOrderId: order.id,
+        farmId: order.farmId,
+        storedName: `${randomBytes(16).toString('hex')}.${extension}`,
+        originalName: file.originalName,
+        contentType: mime,
+        bytes: image.length,
+        uploadedBy: userId,
+      });
+      await insertPhotoContent(tx, photo.id, image);
+    }
+    await recordAudit(tx, {
+      farmId: order.farmId,
+      actorUserId: userId,
+      action: 'workOrder.photos',
+      entity: 'work_order',
+      entityId: order.id,
+      after: { added: photos.length },
+    });
+  });
+}
+
+/**
+ * A kept photo's bytes: from the database, or — for photos from before their bytes were kept there — from
+ * the data folder.
+ */
+export async function photoBytes(
+  db: Database,
+  photosDir: string,
+  photo: { id: number; farmId: number; storedName: string },
+): Promise<Buffer> {
+  return (
+    (await findPhotoContent(db, photo.id)) ??
+    (await readFile(join(photosDir, String(photo.farmId), photo.storedName)).catch(() => {
+      // The record outlived its file (a restored database, a cleaned folder): say so plainly.
+      throw notFound('Photo file');
+    }))
+  );
 }

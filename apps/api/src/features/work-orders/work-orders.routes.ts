@@ -2,14 +2,12 @@ import {
   assigneeSchema,
   checklistToggleSchema,
   farmPath,
-  workOrderReportSchema,
   workOrderSchema,
   workOrderSummarySchema,
   cleanText,
   idParam,
   MAX_FILE_NAME_LENGTH,
   workOrderCreateSchema,
-  workOrderReportQuerySchema,
   workOrdersQuerySchema,
   workOrderUpdateSchema,
 } from '@tierscope/contracts';
@@ -139,14 +137,6 @@ export function workOrdersRoutes(service: WorkOrdersService, photoMaxBytes: numb
       params: farmPath,
       answer: z.array(assigneeSchema),
       handle: ({ req, params }) => service.assignees(contextOf(req), params.farmId),
-    }),
-    route({
-      method: 'get',
-      path: '/reports/work-orders',
-      summary: 'Done work orders per house: time from exception to done, findings by cause',
-      query: workOrderReportQuerySchema,
-      answer: workOrderReportSchema,
-      handle: ({ req, query }) => service.report(contextOf(req), query),
     }),
   ]);
 }

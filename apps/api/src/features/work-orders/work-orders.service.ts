@@ -1,31 +1,23 @@
-import { randomBytes } from 'node:crypto';
-import { readFile } from 'node:fs/promises';
-import { join, resolve } from 'node:path';
+import { resolve } from 'node:path';
 import type {
   Assignee,
   WorkOrder,
   WorkOrderCreateParsed,
-  WorkOrderReport,
-  WorkOrderReportQuery,
   WorkOrdersQuery,
   WorkOrderSummary,
   WorkOrderUpdate,
 } from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
 import {
-  addDays,
   allowedTransitions,
   calendarDayOf,
   can,
-  FINDING_CAUSES,
-  hoursToDone,
   isOverdue,
   likelyChecks,
   measuredWords,
   toCsv,
   FINDING_CAUSE_LABELS,
   WORK_ORDER_STATE_LABELS,
-  type FindingCause,
   type Role,
 } from '@tierscope/domain';
 import { farmsWith, requireFarmPermission } from '../../platform/access';
@@ -40,14 +32,10 @@ import type { Notifier } from '../notifications/notifier';
 import {
   addChecklistItems,
   checklistOf,
-  doneOrdersBetween,
   exceptionStatusOf,
   farmAssignees,
   findPhoto,
   findWorkOrder,
-  insertPhoto,
-  insertPhotoContent,
-  findPhotoContent,
   insertWorkOrder,
   listWorkOrders,
   photosOf,
@@ -55,7 +43,7 @@ import {
   updateWorkOrder,
   type NewWorkOrder,
 } from './work-orders.repository';
-import { readPhotos, type UploadedPhoto } from './work-order-photos';
+import { photoBytes, readPhotos, storePhotos, type UploadedPhoto } from './work-order-photos';
 
 export interface WorkOrdersService {
   list(ctx: RequestContext, query: WorkOrdersQuery): Promise<WorkOrderSummary[]>;
@@ -76,7 +64,6 @@ export interface WorkOrdersService {
     photoId: number,
   ): Promise<{ contentType: string; body: Buffer; name: string }>;
   assignees(ctx: RequestContext, farmId: number): Promise<Assignee[]>;
-  report(ctx: RequestContext, query: WorkOrderReportQuery): Promise<WorkOrderReport>;
 }
 
 type Found = NonNullable<Awaited<ReturnType<typeof findWorkOrder>>>;
@@ -510,30 +497,7 @@ export function createWorkOrdersService(options: {
           { path: 'photos', message: 'No file received' },
         ]);
       }
-      const decoded = await readPhotos(files);
-      await db.transaction(async (tx) => {
-        for (const { file, mime, extension, image } of decoded) {
-          const photo = await insertPhoto(tx, {
-            workOrderId: id,
-            farmId: row.order.farmId,
-            storedName: `${randomBytes(16).toString('hex')}.${extension}`,
-            originalName: file.originalName,
-            contentType: mime,
-            bytes: image.length,
-            uploadedBy: ctx.user.id,
-          });
-          // The bytes in the database, with their record: any API process serves them.
-          await insertPhotoContent(tx, photo.id, image);
-        }
-        await recordAudit(tx, {
-          farmId: row.order.farmId,
-          actorUserId: ctx.user.id,
-          action: 'workOrder.photos',
-          entity: 'work_order',
-          entityId: id,
-          after: { added: decoded.length },
-        });
-      });
+      await storePhotos(db, row.order, ctx.user.id, await readPhotos(files));
       return fresh(ctx, id, role);
     },
 
@@ -541,62 +505,13 @@ export function createWorkOrdersService(options: {
       const { row } = await visible(ctx, id);
       const found = await findPhoto(db, id, photoId);
       if (found?.farmId !== row.order.farmId) throw notFound('Photo');
-      // Photos from before their bytes were kept in the database are read from the data folder.
-      const body =
-        (await findPhotoContent(db, found.id)) ??
-        (await readFile(join(photosDir, String(found.farmId), found.storedName)).catch(() => {
-          // The record outlived its file (a restored database, a cleaned folder): say so plainly.
-          throw notFound('Photo file');
-        }));
+      const body = await photoBytes(db, photosDir, found);
       return { contentType: found.contentType, body, name: found.originalName };
     },
 
     async assignees(ctx, farmId) {
       requireFarmPermission(ctx, farmId, 'workOrders.manage');
       return farmAssignees(db, farmId);
-    },
-
-    async report(ctx, query) {
-      requireFarmPermission(ctx, query.farmId, 'workOrders.manage');
-      const to = query.to ?? calendarDayOf(new Date(), 'UTC');
-      const from = query.from ?? addDays(to, -29);
-      const rows = await doneOrdersBetween(
-        db,
-        query.farmId,
-        new Date(`${from}T00:00:00Z`),
-        new Date(`${addDays(to, 1)}T00:00:00Z`),
-      );
-      const byHouse = new Map<number, typeof rows>();
-      for (const r of rows) byHouse.set(r.houseId, [...(byHouse.get(r.houseId) ?? []), r]);
-      return {
-        farmId: query.farmId,
-        from,
-        to,
-        houses: [...byHouse.values()].map((list) => {
-          const first = list[0];
-          const timing = hoursToDone(
-            list.flatMap((r) =>
-              r.exceptionOpenedAt && r.doneAt
-                ? [{ exceptionOpenedAt: r.exceptionOpenedAt, doneAt: r.doneAt }]
-                : [],
-            ),
-          );
-          const byCause = Object.fromEntries(FINDING_CAUSES.map((c) => [c, 0])) as Record<
-            FindingCause,
-            number
-          >;
-          for (const r of list) if (r.findingCause) byCause[r.findingCause] += 1;
-          return {
-            houseId: first?.houseId ?? 0,
-            houseName: first?.houseName ?? '',
-            done: list.length,
-            fromExceptions: timing.count,
-            medianHoursToDone: timing.medianHours,
-            maxHoursToDone: timing.maxHours,
-            byCause,
-          };
-        }),
-      };
     },
   };
 }
