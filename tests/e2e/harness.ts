@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import { createTestDatabase } from '@tierscope/db/testing';
 import { seedDemo } from '@tierscope/db/seed';
 import { startMailCatcher, type MailCatcher } from '@tierscope/mail-catcher';
-import { chromium, type Browser, type Page } from 'playwright-core';
+import { chromium, type Browser, type Locator, type Page } from 'playwright-core';
 import { startApiProcess } from '../../scripts/processes';
 
 const ROOT = new URL('../..', import.meta.url).pathname;
@@ -89,4 +89,18 @@ export async function signIn(
 
 export async function screenshot(page: Page, name: string): Promise<void> {
   await page.screenshot({ path: join(ARTIFACTS, `${name}.png`), fullPage: true });
+}
+
+/**
+ * Waits for a dialog to close after its form was sent; if it shows an error instead, fails with
+ * the words it shows (a timeout alone says nothing about why the dialog stayed open).
+ */
+export async function dialogCloses(dialog: Locator): Promise<void> {
+  const complaint = dialog.locator('[role=alert], mat-error').first();
+  await Promise.race([
+    dialog.waitFor({ state: 'detached' }),
+    complaint.waitFor().then(async () => {
+      throw new Error(`the dialog stayed open: ${await complaint.innerText()}`);
+    }),
+  ]);
 }
