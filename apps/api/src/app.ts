@@ -203,7 +203,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
   const auth = express.Router();
   mount(
     auth,
-    '/api/v1/auth',
+    '/api/v1',
     authRoutes(
       createAuthService(db, tokens, runtime.notifier, events),
       authenticate,
@@ -215,7 +215,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
       log,
     ),
   );
-  v1.use('/auth', auth);
+  v1.use(auth);
 
   v1.use(authenticate);
   mount(v1, '/api/v1', farmsRoutes(createFarmsService(db)));

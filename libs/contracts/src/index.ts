@@ -14,3 +14,6 @@ export * from './notification.schema';
 export * from './import.schema';
 export * from './flock.schema';
 export * from './report.schema';
+export * from './endpoint';
+export * from './endpoints';
+export { MAX_PHOTOS_PER_UPLOAD } from './work-orders.endpoints';

@@ -1,33 +1,17 @@
 import { Router, type Request, type RequestHandler, type Response } from 'express';
 import { z } from 'zod';
 import type { ZodOpenApiOperationObject, ZodOpenApiPathsObject } from 'zod-openapi';
-import { apiErrorSchema } from '@tierscope/contracts';
+import { apiErrorSchema, type Endpoint } from '@tierscope/contracts';
 import { parseInput } from './errors';
 
 /**
- * A route declared once (docs/adr/0006): method, path, who may call it, its path parameters, query, body and
- * answer as zod schemas, and its handler. From the one declaration come the Express registration, the parsing
+ * A route declared once (docs/adr/0006): its endpoint (method, path, who may call it, its path parameters,
+ * query, body and answer as zod schemas — from `endpoints` in @tierscope/contracts for `/api/v1`, which the
+ * web app's client calls too) and its handler. From the one declaration come the Express registration, the parsing
  * of every input (a bad one is a 400 naming its field, before the handler runs) and the route's OpenAPI
  * operation (zod-openapi). Farm and role checks stay in the services, which know the resource's farm.
  */
-export interface RouteDeclaration {
-  method: 'get' | 'post' | 'put' | 'patch' | 'delete';
-  /** Express path below the router's mount point (`/houses/:houseId/flocks`) */
-  path: string;
-  summary: string;
-  /** who may call it: anyone, a signed-in person (the default), or a farm's gateway key */
-  access?: 'public' | 'user' | 'gateway';
-  params?: z.ZodObject;
-  query?: z.ZodType;
-  body?: z.ZodType;
-  /** the success status (200 unless given) and what it answers */
-  status?: 200 | 201 | 202 | 204;
-  /** a JSON answer's schema, or the media type of a file the handler sends itself through `res` */
-  answer?: z.ZodType | 'text/csv' | 'text/html' | 'text/javascript' | 'image/*';
-  /** a multipart upload's fields (files as `z.file()`), taken apart by a `before` middleware */
-  upload?: z.ZodObject;
-  /** the error answers it gives besides the usual 400, 401, 403 and 404 (e.g. `{ 409: 'Already closed' }`) */
-  errors?: Record<number, string>;
+export interface RouteDeclaration extends Endpoint {
   /** middleware that runs before the inputs are parsed (uploads) */
   before?: RequestHandler[];
   /** undoes what `before` left when the request is refused (an upload's file on disk) */

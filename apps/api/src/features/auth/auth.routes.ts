@@ -1,14 +1,7 @@
-import {
-  forgotPasswordSchema,
-  loginRequestSchema,
-  loginResponseSchema,
-  sessionSchema,
-  setPasswordSchema,
-} from '@tierscope/contracts';
+import { endpoints } from '@tierscope/contracts';
 import type { RequestHandler } from 'express';
 import { ipKeyGenerator, rateLimit, type Store } from 'express-rate-limit';
 import { contextOf } from '../../platform/auth';
-import { z } from 'zod';
 import { AppError, errorBody } from '../../platform/errors';
 import { declareRoutes, route } from '../../platform/route';
 import type { AuthService } from './auth.service';
@@ -67,33 +60,15 @@ export function authRoutes(
   ];
   return declareRoutes('Sign-in', [
     route({
-      method: 'post',
-      path: '/login',
-      summary: 'Sign in',
-      access: 'public',
+      ...endpoints.auth.login,
       before: limited('login'),
-      body: loginRequestSchema,
-      answer: loginResponseSchema,
-      errors: {
-        401: 'Wrong e-mail or password',
-        403: 'Account disabled',
-        429: 'Too many failed sign-ins',
-      },
       handle: ({ body }) => service.login(body),
     }),
     // The same answer, in the same time, whether or not the address has an account: the look-up and the
     // mail happen after the answer has gone, so neither its words nor its timing can find accounts.
     route({
-      method: 'post',
-      path: '/forgot',
-      summary:
-        'Mail a password-reset link; the same answer whether or not the address has an account',
-      access: 'public',
+      ...endpoints.auth.forgotPassword,
       before: limited('forgot', false),
-      body: forgotPasswordSchema,
-      status: 202,
-      answer: z.object({ message: z.string() }),
-      errors: { 429: 'Too many requests' },
       handle: ({ body }) => {
         setImmediate(() => {
           service.forgot(body).catch((error: unknown) => {
@@ -104,22 +79,13 @@ export function authRoutes(
       },
     }),
     route({
-      method: 'post',
-      path: '/set-password',
-      summary: 'Choose a password with a mailed link (invitation or reset); single use, expiring',
-      access: 'public',
+      ...endpoints.auth.setPassword,
       before: limited('set-password'),
-      body: setPasswordSchema,
-      answer: loginResponseSchema,
-      errors: { 429: 'Too many failed attempts' },
       handle: ({ body }) => service.setPassword(body),
     }),
     route({
-      method: 'get',
-      path: '/me',
-      summary: 'The signed-in user and their farm roles',
+      ...endpoints.auth.session,
       before: [authenticate],
-      answer: sessionSchema,
       handle: ({ req }) => service.session(contextOf(req)),
     }),
   ]);

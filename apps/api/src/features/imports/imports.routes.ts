@@ -3,20 +3,14 @@ import { mkdirSync, rmSync } from 'node:fs';
 import { open } from 'node:fs/promises';
 import {
   cleanText,
-  farmPath,
-  housePath,
-  importStatusSchema,
-  savedMappingSchema,
   findUnsafeInput,
-  idParam,
   importMappingSchema,
   MAX_FILE_NAME_LENGTH,
-  savedMappingCreateSchema,
 } from '@tierscope/contracts';
+import { endpoints } from '@tierscope/contracts';
 import type { RequestHandler } from 'express';
 import { handleUpload } from '../../platform/uploads';
 import multer from 'multer';
-import { z } from 'zod';
 import { contextOf } from '../../platform/auth';
 import { AppError, parseInput } from '../../platform/errors';
 import { declareRoutes, route } from '../../platform/route';
@@ -71,9 +65,6 @@ async function looksLikeText(path: string): Promise<boolean> {
   }
 }
 
-const listQuery = z.object({ farmId: idParam.optional() });
-const importPath = z.object({ importId: idParam });
-
 /** The mapping sent as JSON text beside the file, parsed and checked like any body. */
 function parseMapping(text: unknown) {
   let raw: unknown;
@@ -100,23 +91,12 @@ export function importsRoutes(
 ) {
   return declareRoutes('Imports', [
     route({
-      method: 'post',
-      path: '/houses/:houseId/imports',
-      summary:
-        'Import a historical counter export (multipart: "file", and "mapping" as JSON text). Answers 202 with the queued import; it runs in the background',
-      params: housePath,
-      upload: z.object({
-        file: z.file(),
-        mapping: z.string().meta({ description: 'The column mapping as JSON text' }),
-      }),
+      ...endpoints.imports.start,
       before: [fileUpload(options.importsDir, options.maxBytes)],
       // Anything refused before the import row exists leaves no file behind.
       release: (req) => {
         if (req.file) rmSync(req.file.path, { force: true });
       },
-      status: 202,
-      answer: importStatusSchema,
-      errors: { 413: 'A file over IMPORT_MAX_BYTES', 415: 'Not a text (CSV) export' },
       handle: async ({ req, params }) => {
         const file = req.file;
         if (!file) {
@@ -145,75 +125,39 @@ export function importsRoutes(
       },
     }),
     route({
-      method: 'get',
-      path: '/imports',
-      summary: 'Recent imports of my farms (integrators and admins)',
-      query: listQuery,
-      answer: z.array(importStatusSchema),
+      ...endpoints.imports.list,
       handle: ({ req, query }) => service.list(contextOf(req), query.farmId),
     }),
     route({
-      method: 'get',
-      path: '/imports/:importId',
-      summary: 'An import: state, progress, counts and its first line errors',
-      params: importPath,
-      answer: importStatusSchema,
+      ...endpoints.imports.get,
       handle: ({ req, params }) => service.get(contextOf(req), params.importId),
     }),
     route({
-      method: 'post',
-      path: '/imports/:importId/cancel',
-      summary: 'Cancel an import; readings already loaded are kept',
-      params: importPath,
-      answer: importStatusSchema,
-      errors: { 409: 'Already ended' },
+      ...endpoints.imports.cancel,
       handle: ({ req, params }) => service.cancel(contextOf(req), params.importId),
     }),
     route({
-      method: 'post',
-      path: '/imports/:importId/retry',
-      summary: 'Run a failed import again from the start (its file is kept when it fails)',
-      params: importPath,
-      answer: importStatusSchema,
-      errors: { 409: 'Not a failed import' },
+      ...endpoints.imports.retry,
       handle: ({ req, params }) => service.retry(contextOf(req), params.importId),
     }),
     route({
-      method: 'get',
-      path: '/imports/:importId/errors.csv',
-      summary: "An import's line errors as CSV (line, column, message)",
-      params: importPath,
-      answer: 'text/csv',
+      ...endpoints.imports.errorsCsv,
       handle: async ({ req, res, params }) => {
         const { name, csv } = await service.errorsCsv(contextOf(req), params.importId);
         res.type('text/csv; charset=utf-8').attachment(name).send(csv);
       },
     }),
     route({
-      method: 'get',
-      path: '/farms/:farmId/import-mappings',
-      summary: 'Saved column mappings of a farm',
-      params: farmPath,
-      answer: z.array(savedMappingSchema),
+      ...endpoints.imports.mappings,
       handle: ({ req, params }) => service.mappings(contextOf(req), params.farmId),
     }),
     route({
-      method: 'post',
-      path: '/farms/:farmId/import-mappings',
-      summary: 'Save a mapping by name (the same name replaces it)',
-      params: farmPath,
-      body: savedMappingCreateSchema,
-      status: 201,
-      answer: savedMappingSchema,
+      ...endpoints.imports.saveMapping,
       handle: ({ req, params, body }) =>
         service.saveMapping(contextOf(req), params.farmId, body.name, body.mapping),
     }),
     route({
-      method: 'delete',
-      path: '/import-mappings/:mappingId',
-      summary: 'Delete a saved mapping',
-      params: z.object({ mappingId: idParam }),
-      status: 204,
+      ...endpoints.imports.deleteMapping,
       handle: ({ req, params }) => service.deleteMapping(contextOf(req), params.mappingId),
     }),
   ]);

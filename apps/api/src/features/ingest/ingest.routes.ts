@@ -1,4 +1,4 @@
-import { ingestResultSchema, readingsBatchSchema } from '@tierscope/contracts';
+import { endpoints } from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
 import express, { type RequestHandler } from 'express';
 import { AppError } from '../../platform/errors';
@@ -49,19 +49,8 @@ export function ingestRoutes(
 ) {
   return declareRoutes('Ingest', [
     route({
-      method: 'post',
-      path: '/ingest/readings',
-      summary:
-        'Post up to 10,000 counter readings with a gateway key. Each reading carries eggs (since the previous reading) or total (running total). Re-sending never counts twice.',
-      access: 'gateway',
+      ...endpoints.ingest.readings,
       before: [gatewayAuth(db), express.json({ limit: INGEST_BODY_LIMIT })],
-      body: readingsBatchSchema,
-      answer: ingestResultSchema,
-      errors: {
-        401: 'Missing, unknown or revoked gateway key',
-        413: 'More than 10,000 readings, or a body over 4 MB',
-        503: 'Database unreachable: retry',
-      },
       handle: async ({ req, body }) => {
         const gateway = req.gateway;
         if (!gateway) throw new AppError('unauthenticated', 'Send a gateway key');

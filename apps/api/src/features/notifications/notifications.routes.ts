@@ -1,9 +1,5 @@
-import {
-  caughtMailSchema,
-  notificationSettingsSchema,
-  notificationSettingsUpdateSchema,
-  type CaughtMail,
-} from '@tierscope/contracts';
+import { caughtMailSchema, type CaughtMail } from '@tierscope/contracts';
+import { endpoints } from '@tierscope/contracts';
 import { z } from 'zod';
 import { farmsWith } from '../../platform/access';
 import { contextOf } from '../../platform/auth';
@@ -16,18 +12,11 @@ import { saveSettings, settingsOf } from './notifications.repository';
 export function notificationsRoutes(db: Database, mailCatcherUrl: string | undefined) {
   return declareRoutes('Mail', [
     route({
-      method: 'get',
-      path: '/me/notifications',
-      summary: 'Which mails I get',
-      answer: notificationSettingsSchema,
+      ...endpoints.notifications.settings,
       handle: ({ req }) => settingsOf(db, contextOf(req).user.id),
     }),
     route({
-      method: 'put',
-      path: '/me/notifications',
-      summary: 'Choose which mails I get',
-      body: notificationSettingsUpdateSchema,
-      answer: notificationSettingsSchema,
+      ...endpoints.notifications.saveSettings,
       handle: async ({ req, body }) => {
         const ctx = contextOf(req);
         const next = { ...(await settingsOf(db, ctx.user.id)), ...body };
@@ -36,12 +25,7 @@ export function notificationsRoutes(db: Database, mailCatcherUrl: string | undef
       },
     }),
     route({
-      method: 'get',
-      path: '/dev/mailbox',
-      summary:
-        'What the local mail catcher caught (admins; only while it is the configured transport)',
-      answer: z.array(caughtMailSchema),
-      errors: { 503: 'The local mail catcher is not answering' },
+      ...endpoints.notifications.mailbox,
       handle: ({ req }) => {
         if (farmsWith(contextOf(req), 'users.manage').length === 0) {
           throw forbidden('Only administrators read the mailbox');
