@@ -1,3 +1,4 @@
+import { endpoints, type Endpoint } from '@tierscope/contracts';
 import { createTestDatabase } from '@tierscope/db/testing';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createTestApp } from '../testing/test-app';
@@ -60,6 +61,32 @@ describe('the OpenAPI document against the mounted routes', () => {
       [...documented].filter((r) => !mounted.has(r)).sort(),
       'documented, not mounted',
     ).toEqual([]);
+  });
+});
+
+describe('the shared endpoint declarations', () => {
+  it('are what /api/v1 mounts: every mounted route there is an endpoint the web client can call, and back', () => {
+    const app = createTestApp(database.db) as unknown as { router: { stack: RouterLayer[] } };
+    const mounted = new Set(
+      mountedRoutes(app.router.stack).filter(
+        (r) => r.includes(' /api/v1/') && r !== 'GET /api/v1/openapi.json',
+      ),
+    );
+    const declared = new Set(
+      Object.values(endpoints).flatMap((feature) =>
+        Object.values(feature).map((e: Endpoint) => `${e.method.toUpperCase()} /api/v1${e.path}`),
+      ),
+    );
+    expect(
+      [...mounted].filter((r) => !declared.has(r)).sort(),
+      'mounted, not in contracts',
+    ).toEqual([]);
+    expect(
+      [...declared].filter((r) => !mounted.has(r)).sort(),
+      'in contracts, not mounted',
+    ).toEqual([]);
+    // Both lists were found at all (two empty lists would agree).
+    expect(declared.size).toBeGreaterThan(50);
   });
 });
 

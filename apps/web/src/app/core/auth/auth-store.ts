@@ -1,4 +1,3 @@
-import { HttpClient } from '@angular/common/http';
 import { computed, inject, Injectable, signal } from '@angular/core';
 import {
   loginResponseSchema,
@@ -6,9 +5,10 @@ import {
   type Membership,
   type Session,
   type SetPassword,
+  endpoints,
 } from '@tierscope/contracts';
 import { can, type Permission } from '@tierscope/domain';
-import { firstValueFrom } from 'rxjs';
+import { ApiClient } from '../http/api-client';
 
 const STORAGE_KEY = 'tierscope.session';
 
@@ -20,7 +20,7 @@ interface StoredSession extends Session {
 /** Who is signed in, their token and their farm roles; the one source the app asks "may I show this?". */
 @Injectable({ providedIn: 'root' })
 export class AuthStore {
-  private readonly http = inject(HttpClient);
+  private readonly api = inject(ApiClient);
   private readonly stored = signal<StoredSession | null>(readStored());
 
   readonly session = this.stored.asReadonly();
@@ -40,9 +40,7 @@ export class AuthStore {
   }
 
   async signIn(credentials: LoginRequest): Promise<void> {
-    const response = loginResponseSchema.parse(
-      await firstValueFrom(this.http.post('/api/v1/auth/login', credentials)),
-    );
+    const response = await this.api.call(endpoints.auth.login, { body: credentials });
     const session: StoredSession = response;
     localStorage.setItem(STORAGE_KEY, JSON.stringify(session));
     this.stored.set(session);
@@ -50,9 +48,7 @@ export class AuthStore {
 
   /** Chooses a password through a mailed link (invitation or reset); the answer signs the user in. */
   async setPassword(input: SetPassword): Promise<void> {
-    const response = loginResponseSchema.parse(
-      await firstValueFrom(this.http.post('/api/v1/auth/set-password', input)),
-    );
+    const response = await this.api.call(endpoints.auth.setPassword, { body: input });
     localStorage.setItem(STORAGE_KEY, JSON.stringify(response));
     this.stored.set(response);
   }

@@ -1,5 +1,4 @@
 import { DatePipe, DecimalPipe } from '@angular/common';
-import { HttpClient, httpResource } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -18,20 +17,19 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
 import { Router, RouterLink } from '@angular/router';
 import {
-  exceptionSchema,
-  workOrderSummarySchema,
   type CloseException,
   type ExceptionView,
+  type WorkOrder,
+  endpoints,
 } from '@tierscope/contracts';
 import { firstValueFrom } from 'rxjs';
-import { EXCEPTION_KIND_LABELS } from '@tierscope/domain';
-import { z } from 'zod';
+import { EXCEPTION_KIND_LABELS, type ExceptionKind } from '@tierscope/domain';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { listState, LoadState } from '../../shared/ui/load-state';
 import { CloseDialog } from './close-dialog';
 import { WorkOrderDialog, type WorkOrderDialogData } from '../work-orders/work-order-dialog';
-import type { WorkOrder } from '@tierscope/contracts';
+import { ApiClient } from '../../core/http/api-client';
 
 type StatusFilter = 'live' | 'closed' | '';
 
@@ -55,34 +53,29 @@ type StatusFilter = 'live' | 'closed' | '';
 })
 export class ExceptionsPage {
   private readonly auth = inject(AuthStore);
-  private readonly http = inject(HttpClient);
+  private readonly api = inject(ApiClient);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
   private readonly router = inject(Router);
 
   protected readonly status = signal<StatusFilter>('live');
-  protected readonly kind = signal<string>('');
+  protected readonly kind = signal<ExceptionKind | ''>('');
   /** `?houseId=` from a mailed link, bound by the router. */
   readonly houseId = input<string>();
   protected readonly houseFilter = linkedSignal<number | null>(() => {
     const id = Number(this.houseId());
     return Number.isInteger(id) && id > 0 ? id : null;
   });
-  protected readonly exceptions = httpResource(
-    () => {
-      const params = new URLSearchParams();
-      if (this.status()) params.set('status', this.status());
-      if (this.kind()) params.set('kind', this.kind());
-      const house = this.houseFilter();
-      if (house !== null) params.set('houseId', String(house));
-      return `/api/v1/exceptions?${params.toString()}`;
+  protected readonly exceptions = this.api.resource(endpoints.exceptions.list, () => ({
+    query: {
+      status: this.status() || undefined,
+      kind: this.kind() || undefined,
+      houseId: this.houseFilter() ?? undefined,
     },
-    { parse: (v) => z.array(exceptionSchema).parse(v) },
-  );
+  }));
   /** Work orders already opened from exceptions (managers), so nobody opens a second one unawares. */
-  private readonly workOrders = httpResource(
-    () => (this.auth.hasPermission('workOrders.manage') ? '/api/v1/work-orders' : undefined),
-    { parse: (v) => z.array(workOrderSummarySchema).parse(v) },
+  private readonly workOrders = this.api.resource(endpoints.workOrders.list, () =>
+    this.auth.hasPermission('workOrders.manage') ? {} : undefined,
   );
   protected readonly ordersByException = computed(() => {
     const byException = new Map<number, number[]>();
@@ -136,7 +129,7 @@ export class ExceptionsPage {
 
   protected async acknowledge(e: ExceptionView): Promise<void> {
     try {
-      await firstValueFrom(this.http.post(`/api/v1/exceptions/${e.id}/acknowledge`, {}));
+      await this.api.call(endpoints.exceptions.acknowledge, { params: { exceptionId: e.id } });
       this.snackBar.open('Acknowledged', undefined, { duration: 2500 });
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
@@ -154,7 +147,10 @@ export class ExceptionsPage {
     );
     if (!input) return;
     try {
-      await firstValueFrom(this.http.post(`/api/v1/exceptions/${e.id}/close`, input));
+      await this.api.call(endpoints.exceptions.close, {
+        params: { exceptionId: e.id },
+        body: input,
+      });
       this.snackBar.open('Closed', undefined, { duration: 2500 });
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');

@@ -1,15 +1,14 @@
-import { httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
-import { houseSchema } from '@tierscope/contracts';
-import { z } from 'zod';
+import { endpoints } from '@tierscope/contracts';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { listState, LoadState } from '../../shared/ui/load-state';
 import { HouseSummary } from './house-summary';
+import { ApiClient } from '../../core/http/api-client';
 
 /** The house cards of one farm. */
 @Component({
@@ -20,12 +19,13 @@ import { HouseSummary } from './house-summary';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class FarmHouses {
+  private readonly api = inject(ApiClient);
   private readonly auth = inject(AuthStore);
   readonly farmId = input.required<number>();
 
-  protected readonly houses = httpResource(() => `/api/v1/farms/${this.farmId()}/houses`, {
-    parse: z.array(houseSchema).parse,
-  });
+  protected readonly houses = this.api.resource(endpoints.houses.listByFarm, () => ({
+    params: { farmId: this.farmId() },
+  }));
   protected readonly state = computed(() => listState(this.houses));
   protected readonly errorText = computed(() => describeApiError(this.houses.error()));
   protected readonly canEdit = computed(() =>

@@ -1,11 +1,10 @@
-import { httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
-import { farmSchema } from '@tierscope/contracts';
-import { z } from 'zod';
+import { endpoints } from '@tierscope/contracts';
 import { describeApiError } from '../../core/http/api-error';
 import { listState, LoadState } from '../../shared/ui/load-state';
 import { FarmHouses } from './farm-houses';
+import { ApiClient } from '../../core/http/api-client';
 
 /** Every farm the user belongs to, each with its houses. */
 @Component({
@@ -16,9 +15,8 @@ import { FarmHouses } from './farm-houses';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class FarmsPage {
-  protected readonly farms = httpResource(() => '/api/v1/farms', {
-    parse: z.array(farmSchema).parse,
-  });
+  private readonly api = inject(ApiClient);
+  protected readonly farms = this.api.resource(endpoints.farms.list, () => ({}));
   protected readonly state = computed(() => listState(this.farms));
   protected readonly errorText = computed(() => describeApiError(this.farms.error()));
 }

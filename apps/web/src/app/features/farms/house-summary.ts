@@ -1,9 +1,9 @@
 import { DecimalPipe } from '@angular/common';
-import { httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, input, inject } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
-import { houseMapSchema } from '@tierscope/contracts';
+import { endpoints } from '@tierscope/contracts';
 import { ratioColor } from '../../shared/ui/ratio-colors';
+import { ApiClient } from '../../core/http/api-client';
 
 /** A house card's figures: today's eggs, yesterday's hen-day %, open exceptions and a small map. */
 @Component({
@@ -87,20 +87,17 @@ import { ratioColor } from '../../shared/ui/ratio-colors';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class HouseSummary {
+  private readonly api = inject(ApiClient);
   readonly houseId = input.required<number>();
 
-  protected readonly today = httpResource(
-    () => `/api/v1/houses/${this.houseId()}/map?window=today`,
-    {
-      parse: (v) => houseMapSchema.parse(v),
-    },
-  );
-  private readonly yesterday = httpResource(
-    () => `/api/v1/houses/${this.houseId()}/map?window=yesterday`,
-    {
-      parse: (v) => houseMapSchema.parse(v),
-    },
-  );
+  protected readonly today = this.api.resource(endpoints.exceptions.houseMap, () => ({
+    params: { houseId: this.houseId() },
+    query: { window: 'today' as const },
+  }));
+  private readonly yesterday = this.api.resource(endpoints.exceptions.houseMap, () => ({
+    params: { houseId: this.houseId() },
+    query: { window: 'yesterday' as const },
+  }));
   protected readonly henDay = computed(() => this.yesterday.value()?.henDayPct ?? null);
   /** Top tier first, as the house stands. */
   protected readonly cells = computed(() => {

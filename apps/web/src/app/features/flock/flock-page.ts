@@ -1,5 +1,4 @@
 import { DecimalPipe } from '@angular/common';
-import { HttpClient, httpResource } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -23,22 +22,19 @@ import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
 import {
   flockCreateSchema,
-  flockProductionSchema,
-  flockSchema,
-  houseSchema,
   mortalityEntrySchema,
   type FlockProduction,
+  endpoints,
 } from '@tierscope/contracts';
 import { calendarDayOf } from '@tierscope/domain';
 import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
-import { firstValueFrom } from 'rxjs';
-import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
 import { LoadState } from '../../shared/ui/load-state';
 import { localDay } from '../../shared/ui/local-dates';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
+import { ApiClient } from '../../core/http/api-client';
 
 /** A house's flock: placement, the morning walk, hen-day production by week of age against its fitted curve. */
 @Component({
@@ -63,25 +59,22 @@ import { firstError, zodValidator } from '../../shared/ui/zod-validator';
 export class FlockPage {
   readonly houseId = input.required({ transform: numberAttribute });
 
-  private readonly http = inject(HttpClient);
+  private readonly api = inject(ApiClient);
   private readonly auth = inject(AuthStore);
   private readonly snackBar = inject(MatSnackBar);
   private readonly fb = inject(NonNullableFormBuilder);
 
-  protected readonly house = httpResource(() => `/api/v1/houses/${this.houseId()}`, {
-    parse: (v) => houseSchema.parse(v),
-  });
-  protected readonly flocks = httpResource(() => `/api/v1/houses/${this.houseId()}/flocks`, {
-    parse: (v) => z.array(flockSchema).parse(v),
-  });
+  protected readonly house = this.api.resource(endpoints.houses.get, () => ({
+    params: { houseId: this.houseId() },
+  }));
+  protected readonly flocks = this.api.resource(endpoints.flocks.list, () => ({
+    params: { houseId: this.houseId() },
+  }));
   protected readonly flockId = linkedSignal(() => this.flocks.value()?.[0]?.id ?? null);
-  protected readonly production = httpResource(
-    () => {
-      const id = this.flockId();
-      return id === null ? undefined : `/api/v1/flocks/${id}/production`;
-    },
-    { parse: (v) => flockProductionSchema.parse(v) },
-  );
+  protected readonly production = this.api.resource(endpoints.flocks.production, () => {
+    const id = this.flockId();
+    return id === null ? undefined : { params: { flockId: id } };
+  });
   protected readonly canManage = computed(() => {
     const farmId = this.house.value()?.farmId;
     return farmId !== undefined && this.auth.hasPermission('flock.manage', farmId);
@@ -165,9 +158,10 @@ export class FlockPage {
     }
     await this.act(
       () =>
-        firstValueFrom(
-          this.http.post(`/api/v1/houses/${this.houseId()}/flocks`, this.placement.getRawValue()),
-        ),
+        this.api.call(endpoints.flocks.place, {
+          params: { houseId: this.houseId() },
+          body: this.placement.getRawValue(),
+        }),
       'Flock placed',
     );
   }
@@ -181,7 +175,10 @@ export class FlockPage {
     const { day, dead, culled } = this.walk.getRawValue();
     const isSaved = await this.act(
       () =>
-        firstValueFrom(this.http.put(`/api/v1/flocks/${id}/mortality/${day}`, { dead, culled })),
+        this.api.call(endpoints.flocks.recordLoss, {
+          params: { flockId: id, day },
+          body: { dead, culled },
+        }),
       `Saved for ${day}: ${dead} dead, ${culled} culled`,
     );
     if (isSaved) this.walk.patchValue({ dead: 0, culled: 0 });
@@ -191,7 +188,11 @@ export class FlockPage {
     const id = this.flockId();
     if (id === null) return;
     await this.act(
-      () => firstValueFrom(this.http.patch(`/api/v1/flocks/${id}`, { endedOn: this.endOn() })),
+      () =>
+        this.api.call(endpoints.flocks.update, {
+          params: { flockId: id },
+          body: { endedOn: this.endOn() },
+        }),
       'Flock ended',
     );
   }

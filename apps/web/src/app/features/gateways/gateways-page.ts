@@ -1,4 +1,3 @@
-import { HttpClient, httpResource } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -23,19 +22,17 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
 import {
-  gatewayCreatedSchema,
   gatewayCreateSchema,
-  gatewaySchema,
   type Gateway,
   type GatewayCreated,
+  endpoints,
 } from '@tierscope/contracts';
 import { can } from '@tierscope/domain';
-import { firstValueFrom } from 'rxjs';
-import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { listState, LoadState } from '../../shared/ui/load-state';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
+import { ApiClient } from '../../core/http/api-client';
 
 /** Integrators' and admins' gateways: a key per farm gateway, shown once, revocable. */
 @Component({
@@ -57,20 +54,17 @@ import { firstError, zodValidator } from '../../shared/ui/zod-validator';
 })
 export class GatewaysPage {
   private readonly auth = inject(AuthStore);
-  private readonly http = inject(HttpClient);
+  private readonly api = inject(ApiClient);
   private readonly snackBar = inject(MatSnackBar);
 
   protected readonly farms = computed(() =>
     this.auth.memberships().filter((m) => can(m.role, 'gateways.manage')),
   );
   protected readonly farmId = linkedSignal(() => this.farms()[0]?.farmId ?? null);
-  protected readonly gateways = httpResource(
-    () => {
-      const farmId = this.farmId();
-      return farmId === null ? undefined : `/api/v1/farms/${farmId}/gateways`;
-    },
-    { parse: (value) => z.array(gatewaySchema).parse(value) },
-  );
+  protected readonly gateways = this.api.resource(endpoints.gateways.list, () => {
+    const farmId = this.farmId();
+    return farmId === null ? undefined : { params: { farmId } };
+  });
   protected readonly state = computed(() => listState(this.gateways));
   protected readonly errorText = computed(() => describeApiError(this.gateways.error()));
   protected readonly columns = [
@@ -100,11 +94,10 @@ export class GatewaysPage {
     }
     this.isCreating.set(true);
     try {
-      const created = gatewayCreatedSchema.parse(
-        await firstValueFrom(
-          this.http.post(`/api/v1/farms/${farmId}/gateways`, this.form.getRawValue()),
-        ),
-      );
+      const created = await this.api.call(endpoints.gateways.create, {
+        params: { farmId },
+        body: this.form.getRawValue(),
+      });
       this.newKey.set(created);
       // Reset the submitted state too, so the emptied field does not show an error.
       this.formDirective().resetForm();
@@ -130,7 +123,7 @@ export class GatewaysPage {
     if (!confirm(`Revoke the key of "${gateway.name}"? Its gateway can no longer send counts.`))
       return;
     try {
-      await firstValueFrom(this.http.post(`/api/v1/gateways/${gateway.id}/revoke`, {}));
+      await this.api.call(endpoints.gateways.revoke, { params: { gatewayId: gateway.id } });
       this.snackBar.open(`${gateway.name}: key revoked`, undefined, { duration: 3000 });
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');

@@ -1,15 +1,15 @@
 import { DecimalPipe } from '@angular/common';
-import { httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, input, output, inject } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
-import { cellDetailSchema, type ExceptionView } from '@tierscope/contracts';
+import { type ExceptionView, endpoints } from '@tierscope/contracts';
 import { measuredWords } from '@tierscope/domain';
 import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
 import { describeApiError } from '../../core/http/api-error';
 import { LoadState } from '../../shared/ui/load-state';
 import { houseTime } from '../../shared/ui/local-dates';
+import { ApiClient } from '../../core/http/api-client';
 
 /** One section: today's cumulative curve against its peers' median, its last 14 days, and what to check. */
 @Component({
@@ -20,16 +20,16 @@ import { houseTime } from '../../shared/ui/local-dates';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class CellDetail {
+  private readonly api = inject(ApiClient);
   readonly houseId = input.required<number>();
   readonly row = input.required<number>();
   readonly tier = input.required<number>();
   readonly timezone = input.required<string>();
   readonly closed = output();
 
-  protected readonly detail = httpResource(
-    () => `/api/v1/houses/${this.houseId()}/cells/${this.row()}/${this.tier()}`,
-    { parse: (v) => cellDetailSchema.parse(v) },
-  );
+  protected readonly detail = this.api.resource(endpoints.exceptions.cell, () => ({
+    params: { houseId: this.houseId(), row: this.row(), tier: this.tier() },
+  }));
   protected readonly state = computed(() => {
     if (this.detail.error()) return 'error';
     return this.detail.hasValue() ? 'ready' : 'loading';

@@ -1,4 +1,3 @@
-import { httpResource } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -17,20 +16,15 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
-import {
-  exceptionSchema,
-  houseMapSchema,
-  type ExceptionView,
-  type HouseMap,
-} from '@tierscope/contracts';
+import { type ExceptionView, type HouseMap, endpoints } from '@tierscope/contracts';
 import { measuredWords, type WindowKind } from '@tierscope/domain';
-import { z } from 'zod';
 import { describeApiError } from '../../core/http/api-error';
 import { LiveSocket } from '../../core/live/live-socket';
 import { LoadState } from '../../shared/ui/load-state';
 import { houseTime } from '../../shared/ui/local-dates';
 import { CellDetail } from './cell-detail';
 import { HouseHeatMap } from './house-heat-map';
+import { ApiClient } from '../../core/http/api-client';
 
 /** A house live: the rows × tiers map over the live socket, a window picker, and a cell's detail. */
 @Component({
@@ -52,6 +46,7 @@ import { HouseHeatMap } from './house-heat-map';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class HouseLivePage {
+  private readonly api = inject(ApiClient);
   private readonly live = inject(LiveSocket);
 
   /** Route parameter. */
@@ -65,21 +60,17 @@ export class HouseLivePage {
   protected readonly lastMessageAt = this.live.lastMessageAt;
 
   private readonly liveMap = signal<HouseMap | null>(null);
-  protected readonly fetched = httpResource(
-    () => {
-      const kind = this.windowKind();
-      const base = `/api/v1/houses/${this.houseId()}/map?window=${kind}`;
-      if (kind !== 'custom') return base;
-      return this.from() && this.to() && this.from() <= this.to()
-        ? `${base}&from=${this.from()}&to=${this.to()}`
-        : undefined;
-    },
-    { parse: (v) => houseMapSchema.parse(v) },
-  );
-  protected readonly exceptions = httpResource(
-    () => `/api/v1/exceptions?houseId=${this.houseId()}&status=live`,
-    { parse: (v) => z.array(exceptionSchema).parse(v) },
-  );
+  protected readonly fetched = this.api.resource(endpoints.exceptions.houseMap, () => {
+    const kind = this.windowKind();
+    const params = { houseId: this.houseId() };
+    if (kind !== 'custom') return { params, query: { window: kind } };
+    return this.from() && this.to() && this.from() <= this.to()
+      ? { params, query: { window: kind, from: this.from(), to: this.to() } }
+      : undefined;
+  });
+  protected readonly exceptions = this.api.resource(endpoints.exceptions.list, () => ({
+    query: { houseId: this.houseId(), status: 'live' as const },
+  }));
 
   // A resource in error throws from value(): read it only when it has one, so a 404 shows its error state.
   private readonly fetchedMap = computed(() =>

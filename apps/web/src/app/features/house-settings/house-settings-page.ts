@@ -1,4 +1,3 @@
-import { httpResource, HttpClient } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -22,12 +21,12 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSnackBar, MatSnackBarModule } from '@angular/material/snack-bar';
 import { RouterLink } from '@angular/router';
-import { houseCreateSchema, houseWithCountersSchema, type HouseUpdate } from '@tierscope/contracts';
-import { firstValueFrom } from 'rxjs';
+import { houseCreateSchema, type HouseUpdate, endpoints } from '@tierscope/contracts';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
 import { LoadState } from '../../shared/ui/load-state';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
+import { ApiClient } from '../../core/http/api-client';
 
 const fields = houseCreateSchema.shape;
 const ALL_ZONES: readonly string[] = Intl.supportedValuesOf('timeZone');
@@ -51,15 +50,15 @@ const ALL_ZONES: readonly string[] = Intl.supportedValuesOf('timeZone');
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class HouseSettingsPage {
-  private readonly http = inject(HttpClient);
+  private readonly api = inject(ApiClient);
   private readonly snackBar = inject(MatSnackBar);
 
   /** Route parameter. */
   readonly houseId = input.required({ transform: numberAttribute });
 
-  protected readonly house = httpResource(() => `/api/v1/houses/${this.houseId()}`, {
-    parse: houseWithCountersSchema.parse,
-  });
+  protected readonly house = this.api.resource(endpoints.houses.get, () => ({
+    params: { houseId: this.houseId() },
+  }));
   protected readonly state = computed(() => {
     if (this.house.error()) return 'error';
     return this.house.hasValue() ? 'ready' : 'loading';
@@ -124,9 +123,10 @@ export class HouseSettingsPage {
     this.isSaving.set(true);
     this.saveError.set(null);
     try {
-      const saved = houseWithCountersSchema.parse(
-        await firstValueFrom(this.http.patch(`/api/v1/houses/${house.id}`, changes)),
-      );
+      const saved = await this.api.call(endpoints.houses.update, {
+        params: { houseId: house.id },
+        body: changes,
+      });
       this.house.set(saved);
       this.snackBar.open(`${saved.name} saved`, undefined, { duration: 3000 });
     } catch (error) {

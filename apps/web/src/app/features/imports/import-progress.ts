@@ -1,5 +1,4 @@
 import { DatePipe, DecimalPipe } from '@angular/common';
-import { HttpClient } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -18,11 +17,11 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
-import { importStatusSchema, type ImportStatus } from '@tierscope/contracts';
-import { firstValueFrom, interval, type Subscription } from 'rxjs';
+import { type ImportStatus, endpoints } from '@tierscope/contracts';
+import { interval, type Subscription } from 'rxjs';
 import { describeApiError } from '../../core/http/api-error';
-import { FileDownload } from '../../core/http/file-download';
 import { LiveSocket } from '../../core/live/live-socket';
+import { ApiClient } from '../../core/http/api-client';
 
 const ENDED = new Set(['done', 'failed', 'cancelled']);
 
@@ -46,10 +45,9 @@ export class ImportProgress {
   readonly status = input.required<ImportStatus>();
   readonly finished = output<ImportStatus>();
 
-  private readonly http = inject(HttpClient);
+  private readonly api = inject(ApiClient);
   private readonly live = inject(LiveSocket);
   private readonly snackBar = inject(MatSnackBar);
-  private readonly files = inject(FileDownload);
 
   /** The newest state: the input, then live messages and reads. */
   protected readonly now = linkedSignal(() => this.status());
@@ -133,9 +131,7 @@ export class ImportProgress {
 
   private async read(id: number): Promise<void> {
     try {
-      this.track(
-        importStatusSchema.parse(await firstValueFrom(this.http.get(`/api/v1/imports/${id}`))),
-      );
+      this.track(await this.api.call(endpoints.imports.get, { params: { importId: id } }));
     } catch {
       // A missed read is made up by the next one or by a live message.
     }
@@ -144,9 +140,7 @@ export class ImportProgress {
   protected async cancel(): Promise<void> {
     try {
       this.track(
-        importStatusSchema.parse(
-          await firstValueFrom(this.http.post(`/api/v1/imports/${this.now().id}/cancel`, {})),
-        ),
+        await this.api.call(endpoints.imports.cancel, { params: { importId: this.now().id } }),
       );
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
@@ -155,9 +149,9 @@ export class ImportProgress {
 
   protected async retry(): Promise<void> {
     try {
-      const status = importStatusSchema.parse(
-        await firstValueFrom(this.http.post(`/api/v1/imports/${this.now().id}/retry`, {})),
-      );
+      const status = await this.api.call(endpoints.imports.retry, {
+        params: { importId: this.now().id },
+      });
       this.firstSeen = null;
       this.now.set(status);
       void this.read(status.id);
@@ -172,7 +166,9 @@ export class ImportProgress {
   protected async downloadErrors(): Promise<void> {
     const id = this.now().id;
     try {
-      await this.files.save(`/api/v1/imports/${id}/errors.csv`, `import-${id}-errors.csv`);
+      await this.api.download(endpoints.imports.errorsCsv, `import-${id}-errors.csv`, {
+        params: { importId: id },
+      });
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
     }

@@ -1,5 +1,4 @@
 import { DatePipe, DecimalPipe } from '@angular/common';
-import { HttpClient, httpResource } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -27,25 +26,22 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
 import {
-  counterSchema,
-  houseSchema,
   importMappingSchema,
-  importStatusSchema,
-  savedMappingSchema,
   type ColumnRef,
   type ImportMappingInput,
   type ImportStatus,
   type SavedMapping,
+  endpoints,
 } from '@tierscope/contracts';
 import { can, type Delimiter } from '@tierscope/domain';
-import { firstValueFrom, startWith } from 'rxjs';
-import { z } from 'zod';
+import { startWith } from 'rxjs';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
 import { FarmSelect } from '../../shared/ui/farm-select';
 import { LoadState, listState } from '../../shared/ui/load-state';
 import { guessLongMapping, guessTimestampFormat, previewCsv, type CsvPreview } from './csv-preview';
 import { ImportProgress } from './import-progress';
+import { ApiClient } from '../../core/http/api-client';
 
 const SAMPLE_BYTES = 64 * 1024;
 
@@ -76,7 +72,7 @@ type WideColumn = Extract<ImportMappingInput, { layout: 'wide' }>['columns'][num
 })
 export class ImportsPage {
   private readonly auth = inject(AuthStore);
-  private readonly http = inject(HttpClient);
+  private readonly api = inject(ApiClient);
   private readonly snackBar = inject(MatSnackBar);
   private readonly fb = inject(NonNullableFormBuilder);
 
@@ -84,38 +80,26 @@ export class ImportsPage {
     this.auth.memberships().filter((m) => can(m.role, 'imports.run')),
   );
   protected readonly farmId = linkedSignal(() => this.farms()[0]?.farmId ?? null);
-  protected readonly houses = httpResource(
-    () => {
-      const farm = this.farmId();
-      return farm === null ? undefined : `/api/v1/farms/${farm}/houses`;
-    },
-    { parse: (v) => z.array(houseSchema).parse(v) },
-  );
+  protected readonly houses = this.api.resource(endpoints.houses.listByFarm, () => {
+    const farm = this.farmId();
+    return farm === null ? undefined : { params: { farmId: farm } };
+  });
   protected readonly houseId = linkedSignal(() => this.houses.value()?.[0]?.id ?? null);
   protected readonly house = computed(
     () => this.houses.value()?.find((h) => h.id === this.houseId()) ?? null,
   );
-  protected readonly counters = httpResource(
-    () => {
-      const house = this.houseId();
-      return house === null ? undefined : `/api/v1/houses/${house}/counters`;
-    },
-    { parse: (v) => z.array(counterSchema).parse(v) },
-  );
-  protected readonly saved = httpResource(
-    () => {
-      const farm = this.farmId();
-      return farm === null ? undefined : `/api/v1/farms/${farm}/import-mappings`;
-    },
-    { parse: (v) => z.array(savedMappingSchema).parse(v) },
-  );
-  protected readonly recent = httpResource(
-    () => {
-      const farm = this.farmId();
-      return farm === null ? undefined : `/api/v1/imports?farmId=${farm}`;
-    },
-    { parse: (v) => z.array(importStatusSchema).parse(v) },
-  );
+  protected readonly counters = this.api.resource(endpoints.houses.counters, () => {
+    const house = this.houseId();
+    return house === null ? undefined : { params: { houseId: house } };
+  });
+  protected readonly saved = this.api.resource(endpoints.imports.mappings, () => {
+    const farm = this.farmId();
+    return farm === null ? undefined : { params: { farmId: farm } };
+  });
+  protected readonly recent = this.api.resource(endpoints.imports.list, () => {
+    const farm = this.farmId();
+    return farm === null ? undefined : { query: { farmId: farm } };
+  });
   protected readonly recentState = computed(() => listState(this.recent));
 
   protected readonly file = signal<File | null>(null);
@@ -354,15 +338,16 @@ export class ImportsPage {
       );
       return;
     }
-    const body = new FormData();
-    body.append('mapping', JSON.stringify(this.mapping()));
-    body.append('file', file, file.name);
+    const form = new FormData();
+    form.append('mapping', JSON.stringify(this.mapping()));
+    form.append('file', file, file.name);
     this.isStarting.set(true);
     this.errorText.set(null);
     try {
-      const status = importStatusSchema.parse(
-        await firstValueFrom(this.http.post(`/api/v1/houses/${houseId}/imports`, body)),
-      );
+      const status = await this.api.call(endpoints.imports.start, {
+        params: { houseId },
+        form,
+      });
       this.current.set(status);
       this.recent.reload();
       // Bring the progress into view: on a phone it is below the long mapping form.
@@ -382,12 +367,10 @@ export class ImportsPage {
     const name = this.saveName().trim();
     if (farmId === null || name === '') return;
     try {
-      await firstValueFrom(
-        this.http.post(`/api/v1/farms/${farmId}/import-mappings`, {
-          name,
-          mapping: this.mapping(),
-        }),
-      );
+      await this.api.call(endpoints.imports.saveMapping, {
+        params: { farmId },
+        body: { name, mapping: this.mapping() },
+      });
       this.snackBar.open(`Mapping "${name}" saved`, undefined, { duration: 2000 });
       this.saved.reload();
     } catch (error) {
@@ -397,7 +380,7 @@ export class ImportsPage {
 
   protected async deleteSaved(mapping: SavedMapping): Promise<void> {
     try {
-      await firstValueFrom(this.http.delete(`/api/v1/import-mappings/${mapping.id}`));
+      await this.api.call(endpoints.imports.deleteMapping, { params: { mappingId: mapping.id } });
       this.snackBar.open(`Mapping "${mapping.name}" deleted`, undefined, { duration: 2000 });
       this.saved.reload();
     } catch (error) {

@@ -1,13 +1,12 @@
 import { DatePipe } from '@angular/common';
-import { httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, signal, inject } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatExpansionModule } from '@angular/material/expansion';
 import { MatIconModule } from '@angular/material/icon';
-import { caughtMailSchema } from '@tierscope/contracts';
-import { z } from 'zod';
+import { endpoints } from '@tierscope/contracts';
 import { describeApiError } from '../../core/http/api-error';
 import { listState, LoadState } from '../../shared/ui/load-state';
+import { ApiClient } from '../../core/http/api-client';
 
 /** What the local mail catcher caught: the demo's and development's stand-in for real inboxes. */
 @Component({
@@ -88,9 +87,8 @@ import { listState, LoadState } from '../../shared/ui/load-state';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class MailboxPage {
-  protected readonly mail = httpResource(() => '/api/v1/dev/mailbox', {
-    parse: (v) => z.array(caughtMailSchema).parse(v),
-  });
+  private readonly api = inject(ApiClient);
+  protected readonly mail = this.api.resource(endpoints.notifications.mailbox, () => ({}));
   protected readonly openId = signal<number | null>(null);
   protected readonly state = computed(() => listState(this.mail));
   protected readonly errorText = computed(() => describeApiError(this.mail.error()));

@@ -1,12 +1,11 @@
-import { HttpClient, httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import { notificationSettingsSchema, type NotificationSettings } from '@tierscope/contracts';
-import { firstValueFrom } from 'rxjs';
+import { type NotificationSettings, endpoints } from '@tierscope/contracts';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { LoadState } from '../../shared/ui/load-state';
+import { ApiClient } from '../../core/http/api-client';
 
 interface Choice {
   key: keyof NotificationSettings;
@@ -72,13 +71,11 @@ interface Choice {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class NotificationsPage {
-  private readonly http = inject(HttpClient);
+  private readonly api = inject(ApiClient);
   private readonly auth = inject(AuthStore);
   private readonly snackBar = inject(MatSnackBar);
 
-  protected readonly settings = httpResource(() => '/api/v1/me/notifications', {
-    parse: (v) => notificationSettingsSchema.parse(v),
-  });
+  protected readonly settings = this.api.resource(endpoints.notifications.settings, () => ({}));
   protected readonly state = computed(() => {
     if (this.settings.error()) return 'error';
     return this.settings.hasValue() ? 'ready' : 'loading';
@@ -111,9 +108,9 @@ export class NotificationsPage {
   protected async save(key: keyof NotificationSettings, value: boolean): Promise<void> {
     this.isSaving.set(true);
     try {
-      const saved = notificationSettingsSchema.parse(
-        await firstValueFrom(this.http.put('/api/v1/me/notifications', { [key]: value })),
-      );
+      const saved = await this.api.call(endpoints.notifications.saveSettings, {
+        body: { [key]: value },
+      });
       this.settings.set(saved);
       this.snackBar.open('Saved', undefined, { duration: 1500 });
     } catch (error) {

@@ -1,5 +1,4 @@
 import { DecimalPipe } from '@angular/common';
-import { httpResource } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -20,15 +19,14 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatSort, MatSortModule } from '@angular/material/sort';
 import { MatTableDataSource, MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
-import { dailyReportSchema, houseSchema, type DailyReport } from '@tierscope/contracts';
+import { type DailyReport, endpoints } from '@tierscope/contracts';
 import { EXCEPTION_KIND_LABELS, type ExceptionKind } from '@tierscope/domain';
-import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
-import { FileDownload } from '../../core/http/file-download';
 import { FarmSelect } from '../../shared/ui/farm-select';
 import { LoadState } from '../../shared/ui/load-state';
 import { localDay } from '../../shared/ui/local-dates';
+import { ApiClient } from '../../core/http/api-client';
 
 type SectionLine = DailyReport['sections'][number];
 
@@ -58,33 +56,25 @@ export class DailyReportView {
   readonly initialHouseId = input<number | null>(null);
 
   private readonly auth = inject(AuthStore);
-  private readonly files = inject(FileDownload);
+  private readonly api = inject(ApiClient);
   private readonly snackBar = inject(MatSnackBar);
 
   protected readonly farms = this.auth.memberships;
   protected readonly farmId = linkedSignal(() => this.farms()[0]?.farmId ?? null);
-  protected readonly houses = httpResource(
-    () => {
-      const farm = this.farmId();
-      return farm === null ? undefined : `/api/v1/farms/${farm}/houses`;
-    },
-    { parse: (v) => z.array(houseSchema).parse(v) },
-  );
+  protected readonly houses = this.api.resource(endpoints.houses.listByFarm, () => {
+    const farm = this.farmId();
+    return farm === null ? undefined : { params: { farmId: farm } };
+  });
   protected readonly houseId = linkedSignal<number | null>(() => {
     const wanted = this.initialHouseId();
     const list = this.houses.value() ?? [];
     return list.find((h) => h.id === wanted)?.id ?? list[0]?.id ?? null;
   });
   protected readonly day = linkedSignal(() => localDay(1));
-  protected readonly report = httpResource(
-    () => {
-      const house = this.houseId();
-      return house === null
-        ? undefined
-        : `/api/v1/reports/daily?houseId=${house}&day=${this.day()}`;
-    },
-    { parse: (v) => dailyReportSchema.parse(v) },
-  );
+  protected readonly report = this.api.resource(endpoints.reports.daily, () => {
+    const house = this.houseId();
+    return house === null ? undefined : { query: { houseId: house, day: this.day() } };
+  });
   protected readonly state = computed(() => {
     if (this.report.error()) return 'error';
     if (!this.report.hasValue()) return 'loading';
@@ -124,10 +114,9 @@ export class DailyReportView {
     const house = this.houseId();
     if (house === null) return;
     try {
-      await this.files.save(
-        `/api/v1/reports/daily.csv?houseId=${house}&day=${this.day()}`,
-        `daily-report-${this.day()}.csv`,
-      );
+      await this.api.download(endpoints.reports.dailyCsv, `daily-report-${this.day()}.csv`, {
+        query: { houseId: house, day: this.day() },
+      });
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
     }

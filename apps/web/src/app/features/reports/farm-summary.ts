@@ -1,5 +1,4 @@
 import { DecimalPipe } from '@angular/common';
-import { httpResource } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -11,7 +10,7 @@ import {
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatTableModule } from '@angular/material/table';
-import { farmSummarySchema, type FarmSummary } from '@tierscope/contracts';
+import { type FarmSummary, endpoints } from '@tierscope/contracts';
 import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
 import { AuthStore } from '../../core/auth/auth-store';
@@ -19,6 +18,7 @@ import { describeApiError } from '../../core/http/api-error';
 import { FarmSelect } from '../../shared/ui/farm-select';
 import { LoadState } from '../../shared/ui/load-state';
 import { localDay } from '../../shared/ui/local-dates';
+import { ApiClient } from '../../core/http/api-client';
 
 /** Okabe & Ito's colour-blind-safe palette ("Color Universal Design", 2002), one colour per house. */
 const HOUSE_COLOURS = [
@@ -50,19 +50,17 @@ const HOUSE_COLOURS = [
 })
 export class FarmSummaryView {
   private readonly auth = inject(AuthStore);
+  private readonly api = inject(ApiClient);
   protected readonly farms = this.auth.memberships;
   protected readonly farmId = linkedSignal(() => this.farms()[0]?.farmId ?? null);
   protected readonly from = signal(localDay(14));
   protected readonly to = signal(localDay(1));
-  protected readonly summary = httpResource(
-    () => {
-      const farm = this.farmId();
-      return farm === null
-        ? undefined
-        : `/api/v1/reports/farm?farmId=${farm}&from=${this.from()}&to=${this.to()}`;
-    },
-    { parse: (v) => farmSummarySchema.parse(v) },
-  );
+  protected readonly summary = this.api.resource(endpoints.reports.farm, () => {
+    const farm = this.farmId();
+    return farm === null
+      ? undefined
+      : { query: { farmId: farm, from: this.from(), to: this.to() } };
+  });
   protected readonly state = computed(() => {
     if (this.summary.error()) return 'error';
     if (!this.summary.hasValue()) return 'loading';

@@ -1,5 +1,4 @@
 import { DecimalPipe } from '@angular/common';
-import { httpResource } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -11,7 +10,7 @@ import {
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatTableModule } from '@angular/material/table';
-import { workOrderReportSchema, type WorkOrderReport } from '@tierscope/contracts';
+import { type WorkOrderReport, endpoints } from '@tierscope/contracts';
 import { can, FINDING_CAUSE_LABELS, FINDING_CAUSES } from '@tierscope/domain';
 import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
@@ -19,6 +18,7 @@ import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { FarmSelect } from '../../shared/ui/farm-select';
 import { LoadState } from '../../shared/ui/load-state';
+import { ApiClient } from '../../core/http/api-client';
 
 /** Colour-blind-safe categorical colours (Okabe & Ito, "Color Universal Design", 2002), one per cause. */
 const CAUSE_COLOURS = [
@@ -49,6 +49,7 @@ const CAUSE_COLOURS = [
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class WorkOrderReportView {
+  private readonly api = inject(ApiClient);
   private readonly auth = inject(AuthStore);
   protected readonly farms = computed(() =>
     this.auth.memberships().filter((m) => can(m.role, 'workOrders.manage')),
@@ -59,14 +60,11 @@ export class WorkOrderReportView {
     new Date(Date.now() - 29 * 86_400_000).toISOString().slice(0, 10),
   );
 
-  protected readonly report = httpResource(
-    () => {
-      const farm = this.farmId();
-      if (farm === null || !this.from() || !this.to()) return undefined;
-      return `/api/v1/reports/work-orders?farmId=${farm}&from=${this.from()}&to=${this.to()}`;
-    },
-    { parse: (v) => workOrderReportSchema.parse(v) },
-  );
+  protected readonly report = this.api.resource(endpoints.reports.workOrders, () => {
+    const farm = this.farmId();
+    if (farm === null || !this.from() || !this.to()) return undefined;
+    return { query: { farmId: farm, from: this.from(), to: this.to() } };
+  });
   protected readonly state = computed(() => {
     if (this.report.error()) return 'error';
     if (!this.report.hasValue()) return 'loading';

@@ -1,4 +1,3 @@
-import { HttpClient } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -7,10 +6,10 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
-import { forgotPasswordSchema } from '@tierscope/contracts';
-import { firstValueFrom } from 'rxjs';
+import { forgotPasswordSchema, endpoints } from '@tierscope/contracts';
 import { describeApiError } from '../../core/http/api-error';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
+import { ApiClient } from '../../core/http/api-client';
 
 /** Asks for a reset link; says the same whether or not the address has an account. */
 @Component({
@@ -60,7 +59,7 @@ import { firstError, zodValidator } from '../../shared/ui/zod-validator';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ForgotPasswordPage {
-  private readonly http = inject(HttpClient);
+  private readonly api = inject(ApiClient);
   protected readonly form = inject(NonNullableFormBuilder).group({
     email: ['', zodValidator(forgotPasswordSchema.shape.email)],
   });
@@ -77,9 +76,9 @@ export class ForgotPasswordPage {
     this.isBusy.set(true);
     this.error.set(null);
     try {
-      const answer = await firstValueFrom(
-        this.http.post<{ message: string }>('/api/v1/auth/forgot', this.form.getRawValue()),
-      );
+      const answer = await this.api.call(endpoints.auth.forgotPassword, {
+        body: this.form.getRawValue(),
+      });
       this.sentMessage.set(`${answer.message} Check your inbox; the link works for an hour.`);
     } catch (error) {
       this.error.set(describeApiError(error));

@@ -1,4 +1,3 @@
-import { HttpClient } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import {
   FormControl,
@@ -13,11 +12,11 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import { userCreateSchema, userSchema, type Membership, type User } from '@tierscope/contracts';
+import { userCreateSchema, type Membership, type User, endpoints } from '@tierscope/contracts';
 import { ROLES, type Role } from '@tierscope/domain';
-import { firstValueFrom } from 'rxjs';
 import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
+import { ApiClient } from '../../core/http/api-client';
 
 export interface UserDialogData {
   /** Absent when adding a user. */
@@ -66,7 +65,7 @@ function emptyOr(validator: ValidatorFn): ValidatorFn {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class UserDialog {
-  private readonly http = inject(HttpClient);
+  private readonly api = inject(ApiClient);
   private readonly dialogRef = inject(MatDialogRef<UserDialog, User>);
   protected readonly data = inject<UserDialogData>(MAT_DIALOG_DATA);
   protected readonly isEdit = this.data.user !== undefined;
@@ -105,15 +104,15 @@ export class UserDialog {
     this.error.set(null);
     try {
       const { email, name, password } = this.form.getRawValue();
-      const request = this.data.user
-        ? this.http.patch(`/api/v1/users/${this.data.user.id}`, { name, memberships })
-        : this.http.post('/api/v1/users', {
-            email,
-            name,
-            ...(password === '' ? {} : { password }),
-            memberships,
+      const saved = this.data.user
+        ? await this.api.call(endpoints.users.update, {
+            params: { userId: this.data.user.id },
+            body: { name, memberships },
+          })
+        : await this.api.call(endpoints.users.create, {
+            body: { email, name, ...(password === '' ? {} : { password }), memberships },
           });
-      this.dialogRef.close(userSchema.parse(await firstValueFrom(request)));
+      this.dialogRef.close(saved);
     } catch (error) {
       this.error.set(describeApiError(error));
       for (const [path, message] of Object.entries(fieldErrorsOf(error))) {

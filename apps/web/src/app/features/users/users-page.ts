@@ -1,4 +1,3 @@
-import { HttpClient, httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
@@ -6,14 +5,14 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
-import { userSchema, type User } from '@tierscope/contracts';
+import { type User, endpoints } from '@tierscope/contracts';
 import { can } from '@tierscope/domain';
 import { firstValueFrom } from 'rxjs';
-import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { listState, LoadState } from '../../shared/ui/load-state';
 import { UserDialog, type UserDialogData } from './user-dialog';
+import { ApiClient } from '../../core/http/api-client';
 
 /** Administrators' list of the people on their farms and their roles. */
 @Component({
@@ -25,13 +24,11 @@ import { UserDialog, type UserDialogData } from './user-dialog';
 })
 export class UsersPage {
   private readonly auth = inject(AuthStore);
-  private readonly http = inject(HttpClient);
+  private readonly api = inject(ApiClient);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
 
-  protected readonly users = httpResource(() => '/api/v1/users', {
-    parse: z.array(userSchema).parse,
-  });
+  protected readonly users = this.api.resource(endpoints.users.list, () => ({}));
   protected readonly state = computed(() => listState(this.users));
   protected readonly errorText = computed(() => describeApiError(this.users.error()));
   protected readonly columns = ['name', 'email', 'roles', 'active', 'actions'];
@@ -60,7 +57,10 @@ export class UsersPage {
 
   protected async setActive(user: User, isActive: boolean): Promise<void> {
     try {
-      await firstValueFrom(this.http.patch(`/api/v1/users/${user.id}`, { disabled: !isActive }));
+      await this.api.call(endpoints.users.update, {
+        params: { userId: user.id },
+        body: { disabled: !isActive },
+      });
       this.snackBar.open(
         `${user.name} ${isActive ? 'can sign in again' : 'can no longer sign in'}`,
         undefined,

@@ -1,14 +1,13 @@
-import { httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, signal, inject } from '@angular/core';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
-import { workOrderSummarySchema } from '@tierscope/contracts';
+import { endpoints } from '@tierscope/contracts';
 import { WORK_ORDER_STATE_LABELS } from '@tierscope/domain';
-import { z } from 'zod';
 import { describeApiError } from '../../core/http/api-error';
 import { listState, LoadState } from '../../shared/ui/load-state';
 import { PRIORITY_LABELS, spotOf } from './work-order-labels';
+import { ApiClient } from '../../core/http/api-client';
 
 /** The crew's own work, phone first: what is assigned to me, oldest first, one big card each. */
 @Component({
@@ -19,11 +18,11 @@ import { PRIORITY_LABELS, spotOf } from './work-order-labels';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class MyWorkPage {
+  private readonly api = inject(ApiClient);
   protected readonly show = signal<'active' | 'done'>('active');
-  protected readonly orders = httpResource(
-    () => `/api/v1/work-orders?mine=true&state=${this.show()}`,
-    { parse: (v) => z.array(workOrderSummarySchema).parse(v) },
-  );
+  protected readonly orders = this.api.resource(endpoints.workOrders.list, () => ({
+    query: { mine: true, state: this.show() },
+  }));
   protected readonly shown = computed(() => {
     const list = this.orders.value() ?? [];
     // Finished work: newest first; work to do: oldest first, as the server sends it.

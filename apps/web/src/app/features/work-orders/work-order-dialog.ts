@@ -1,4 +1,3 @@
-import { httpResource } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -17,19 +16,18 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import {
-  assigneeSchema,
-  houseSchema,
   workOrderCreateSchema,
   type ExceptionView,
   type WorkOrder,
+  endpoints,
 } from '@tierscope/contracts';
 import { can, WORK_ORDER_PRIORITIES, type WorkOrderPriority } from '@tierscope/domain';
-import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
 import { PRIORITY_LABELS } from './work-order-labels';
 import { WorkOrdersApi } from './work-orders-api';
+import { ApiClient } from '../../core/http/api-client';
 
 export interface WorkOrderDialogData {
   /** open it from this exception: its house and spot are taken, its likely checks become the checklist */
@@ -79,6 +77,7 @@ export class WorkOrderDialog {
   protected readonly data = inject<WorkOrderDialogData>(MAT_DIALOG_DATA);
   private readonly ref = inject(MatDialogRef<WorkOrderDialog, WorkOrder>);
   private readonly api = inject(WorkOrdersApi);
+  private readonly client = inject(ApiClient);
   private readonly auth = inject(AuthStore);
 
   protected readonly priorities = WORK_ORDER_PRIORITIES.map((p) => [p, PRIORITY_LABELS[p]]);
@@ -103,13 +102,12 @@ export class WorkOrderDialog {
   private readonly farmId = toSignal(this.form.controls.farmId.valueChanges, {
     initialValue: this.form.controls.farmId.value,
   });
-  protected readonly houses = httpResource(
-    () => (this.data.exception ? undefined : `/api/v1/farms/${this.farmId()}/houses`),
-    { parse: (v) => z.array(houseSchema).parse(v) },
+  protected readonly houses = this.client.resource(endpoints.houses.listByFarm, () =>
+    this.data.exception ? undefined : { params: { farmId: this.farmId() } },
   );
-  protected readonly assignees = httpResource(() => `/api/v1/farms/${this.farmId()}/assignees`, {
-    parse: (v) => z.array(assigneeSchema).parse(v),
-  });
+  protected readonly assignees = this.client.resource(endpoints.workOrders.assignees, () => ({
+    params: { farmId: this.farmId() },
+  }));
   private readonly houseId = toSignal(this.form.controls.houseId.valueChanges, {
     initialValue: this.form.controls.houseId.value,
   });

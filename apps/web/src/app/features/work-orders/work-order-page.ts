@@ -1,5 +1,4 @@
 import { DatePipe, DecimalPipe } from '@angular/common';
-import { httpResource } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -21,12 +20,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { RouterLink } from '@angular/router';
-import {
-  assigneeSchema,
-  workOrderSchema,
-  type WorkOrder,
-  type WorkOrderUpdate,
-} from '@tierscope/contracts';
+import { type WorkOrder, type WorkOrderUpdate, endpoints } from '@tierscope/contracts';
 import {
   FINDING_CAUSE_LABELS,
   FINDING_CAUSES,
@@ -38,12 +32,12 @@ import {
   type WorkOrderPriority,
   type WorkOrderState,
 } from '@tierscope/domain';
-import { z } from 'zod';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { LoadState } from '../../shared/ui/load-state';
 import { PRIORITY_LABELS, spotOf } from './work-order-labels';
 import { WorkOrdersApi } from './work-orders-api';
+import { ApiClient } from '../../core/http/api-client';
 
 /** One work order: where, why, the safety cautions, the checklist, findings, photos and its state. */
 @Component({
@@ -71,12 +65,13 @@ export class WorkOrderPage {
   readonly workOrderId = input.required<string>();
 
   private readonly api = inject(WorkOrdersApi);
+  private readonly client = inject(ApiClient);
   private readonly auth = inject(AuthStore);
   private readonly snackBar = inject(MatSnackBar);
 
-  private readonly resource = httpResource(() => `/api/v1/work-orders/${this.workOrderId()}`, {
-    parse: (v) => workOrderSchema.parse(v),
-  });
+  private readonly resource = this.client.resource(endpoints.workOrders.get, () => ({
+    params: { workOrderId: Number(this.workOrderId()) },
+  }));
   /** The order as last read or as the last change answered it. */
   protected readonly order = linkedSignal<WorkOrder | undefined>(() =>
     this.resource.hasValue() ? this.resource.value() : undefined,
@@ -87,13 +82,10 @@ export class WorkOrderPage {
     return 'loading';
   });
   protected readonly errorText = computed(() => describeApiError(this.resource.error()));
-  protected readonly assignees = httpResource(
-    () => {
-      const o = this.order();
-      return o?.canEdit ? `/api/v1/farms/${o.farmId}/assignees` : undefined;
-    },
-    { parse: (v) => z.array(assigneeSchema).parse(v) },
-  );
+  protected readonly assignees = this.client.resource(endpoints.workOrders.assignees, () => {
+    const o = this.order();
+    return o?.canEdit ? { params: { farmId: o.farmId } } : undefined;
+  });
   protected readonly cautions = computed(() => {
     const o = this.order();
     return o ? safetyCautions({ tier: o.tier, tiers: o.tiers }) : [];

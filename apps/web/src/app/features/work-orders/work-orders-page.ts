@@ -1,5 +1,4 @@
 import { DatePipe } from '@angular/common';
-import { httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
@@ -12,18 +11,19 @@ import { MatSortModule, type Sort } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
 import { Router, RouterLink } from '@angular/router';
 import {
-  workOrderSummarySchema,
   type WorkOrder,
   type WorkOrderSummary,
+  endpoints,
+  type WorkOrdersQuery,
 } from '@tierscope/contracts';
 import { WORK_ORDER_STATE_LABELS } from '@tierscope/domain';
 import { firstValueFrom } from 'rxjs';
-import { z } from 'zod';
 import { describeApiError } from '../../core/http/api-error';
 import { listState, LoadState } from '../../shared/ui/load-state';
 import { WorkOrderDialog, type WorkOrderDialogData } from './work-order-dialog';
 import { PRIORITY_LABELS, PRIORITY_RANK, spotOf } from './work-order-labels';
 import { WorkOrdersApi } from './work-orders-api';
+import { ApiClient } from '../../core/http/api-client';
 
 type StateFilter = 'active' | 'open' | 'in_progress' | 'done' | 'cancelled' | '';
 
@@ -48,6 +48,7 @@ type StateFilter = 'active' | 'open' | 'in_progress' | 'done' | 'cancelled' | ''
 })
 export class WorkOrdersPage {
   private readonly api = inject(WorkOrdersApi);
+  private readonly client = inject(ApiClient);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
   private readonly router = inject(Router);
@@ -58,23 +59,17 @@ export class WorkOrdersPage {
   protected readonly isOverdueOnly = signal(false);
   protected readonly sort = signal<Sort>({ active: 'created', direction: 'asc' });
 
-  private readonly query = computed(() => {
-    const params = new URLSearchParams();
-    if (this.state()) params.set('state', this.state());
-    const house = this.houseId();
-    if (house !== null) params.set('houseId', String(house));
-    const assignee = this.assigneeId();
-    if (assignee !== null) params.set('assigneeId', String(assignee));
-    if (this.isOverdueOnly()) params.set('overdue', 'true');
-    return params;
-  });
-  protected readonly orders = httpResource(() => `/api/v1/work-orders?${this.query().toString()}`, {
-    parse: (v) => z.array(workOrderSummarySchema).parse(v),
-  });
+  private readonly query = computed((): Partial<WorkOrdersQuery> => ({
+    state: this.state() || undefined,
+    houseId: this.houseId() ?? undefined,
+    assigneeId: this.assigneeId() ?? undefined,
+    overdue: this.isOverdueOnly() || undefined,
+  }));
+  protected readonly orders = this.client.resource(endpoints.workOrders.list, () => ({
+    query: this.query(),
+  }));
   /** Every order, unfiltered, only to fill the house and assignee pickers. */
-  private readonly everything = httpResource(() => '/api/v1/work-orders', {
-    parse: (v) => z.array(workOrderSummarySchema).parse(v),
-  });
+  private readonly everything = this.client.resource(endpoints.workOrders.list, () => ({}));
   protected readonly houses = computed(() => {
     const seen = new Map<number, string>();
     for (const o of this.everything.value() ?? [])
