@@ -12,3 +12,5 @@ export * from './csv-import';
 export * from './flock';
 export * from './detection';
 export * from './house-judgement';
+export * from './baseline';
+export * from './exception-plan';

@@ -1,43 +1,31 @@
-import type { CellDetail, HouseMap } from '@tierscope/contracts';
-import type { Database } from '@tierscope/db';
+import type { Database, Queryable } from '@tierscope/db';
 import {
   addDays,
   CHECKPOINT_HOURS,
-  CLEAR,
   COMPLETE_DAY,
   judgeStage,
+  planExceptionChanges,
+  type EvaluationFinding,
+  type KnownException,
   NORM_DAYS,
   normalUpperTail,
-  pastDayOf,
-  type PastDay,
   type StageJudgement,
-  type SectionCounts,
   daysOf,
-  eggsLost,
   findingKey,
   isSilent,
   SILENT_GRACE_HOURS,
   SILENT_MIN_SLOTS,
   spotKeyOf,
   judgeCollectorGap,
-  judgeHouse,
   judgeHouseDay,
   MIN_CLEAN_DAYS,
   judgeHouseDipAgainstCurve,
   minutesSinceLightsOn,
   productionDayOf,
   productionDayStart,
-  productionWindow,
   median,
   sectionKey,
-  stepStreak,
-  type ExceptionKind,
-  type ExceptionScope,
-  type HistoryDay,
-  type ProductionWindow,
-  type SectionCount,
   type Streak,
-  type Verdict,
 } from '@tierscope/domain';
 import type { EventBus } from '../../platform/events';
 import {
@@ -58,82 +46,29 @@ import {
   openException,
   sectionDays,
   sectionEggsBetween,
-  sectionHours,
-  sectionTotals,
   updateException,
   type ExceptionRow,
 } from './evaluation.repository';
 import { recordAudit } from '../audit/audit.repository';
-
-type Layout = NonNullable<Awaited<ReturnType<typeof houseLayout>>>;
+import { createHouseBaseline, type Layout } from './house-baseline';
+import { createHouseMap, type HouseMapReader } from './house-map.service';
 
 /** One thing the engine measured this evaluation, for the consecutive-evaluation rule. */
-interface Candidate extends Verdict {
-  kind: ExceptionKind;
-  scope: ExceptionScope;
-  row: number | null;
-  tier: number | null;
-  isLearning: boolean;
-  /** a judgement of a complete day or a fixed checkpoint: opens at once, never re-tested */
-  isFinal?: boolean;
-}
+type Candidate = EvaluationFinding;
 
-const spotKey = (c: Pick<Candidate, 'kind' | 'scope' | 'row' | 'tier'>) =>
-  `${c.kind}|${findingKey(c)}`;
-const rowKey = (e: Pick<ExceptionRow, 'kind' | 'scope' | 'row' | 'tier'>) =>
-  `${e.kind}|${findingKey(e)}`;
+/** What the change plan reads of a stored exception. */
+function known(e: ExceptionRow): KnownException {
+  return { ...e, lostByDay: e.lostByDay as Record<string, number> };
+}
 
 /** A counter's data counts as up to a checkpoint when its newest reading is at most this much older. */
 const DATA_LATE_SLACK_MS = 20 * 60_000;
-/** How long a house's layout and its past days' baseline may be reused between evaluations and frames. */
-const CACHE_MS = 30_000;
-/** What a house's read-mostly figures are kept for, by key, for CACHE_MS. */
-type Cache<T> = Map<string, { at: number; value: Promise<T> }>;
-
-/** A cached value while it is fresh, else loaded anew (a failed load is not kept). */
-function remembered<T>(cache: Cache<T>, key: string, load: () => Promise<T>): Promise<T> {
-  const hit = cache.get(key);
-  if (hit && Date.now() - hit.at < CACHE_MS) return hit.value;
-  const value = load();
-  cache.set(key, { at: Date.now(), value });
-  value.catch(() => cache.delete(key));
-  return value;
-}
-
-/** A section whose data is this far behind its house's newest is shown as late on the map. */
-const DATA_LATE_MAP_MS = 30 * 60_000;
 /** How long the house-dip judgement of a day is kept before it is read again. */
 const HEN_DAY_REFRESH_MS = 3_600_000;
 /** How long a checkpoint waits for late counters before it is judged without them. */
 const DATA_LATE_WAIT_HOURS = 3;
 
-/**
- * Whether an exception keeps a production day out of the spots' learned usual level: it was open that day,
- * and it is a shortfall or a silent counter (a house-level kind says nothing about one spot), unless a person
- * closed it as normal for this spot (then its days are the spot's normal).
- */
-function keepsDayOut(e: ExceptionRow, dayStart: Date, dayEnd: Date): boolean {
-  if (e.closeReason === 'normal_for_spot' || e.kind === 'collector_gap' || e.kind === 'house_dip')
-    return false;
-  return e.openedAt < dayEnd && (e.closedAt === null || e.closedAt > dayStart);
-}
-
-/** Keys of the sections an exception covers, for keeping its days out of the baseline. */
-function coveredSections(e: ExceptionRow, layout: Layout): string[] {
-  return layout.sections
-    .filter((s) =>
-      e.scope === 'section'
-        ? s.row === e.row && s.tier === e.tier
-        : e.scope === 'row'
-          ? s.row === e.row
-          : e.scope === 'tier'
-            ? s.tier === e.tier
-            : false,
-    )
-    .map((s) => sectionKey(s.row, s.tier));
-}
-
-export interface EvaluationService {
+export interface EvaluationService extends HouseMapReader {
   /** Evaluates a house now (live): today so far, silent counters, collector, yesterday's hen-day. */
   evaluateNow(houseId: number, now?: Date): Promise<{ changed: ExceptionRow[] }>;
   /** Replays past production days at five checkpoints each; idempotent. */
@@ -142,19 +77,6 @@ export interface EvaluationService {
     firstDay: string,
     lastDay: string,
   ): Promise<{ changed: ExceptionRow[] }>;
-  /** One section's day curve against its peers and its last 14 days against expected. */
-  cellDetail(
-    houseId: number,
-    row: number,
-    tier: number,
-    now?: Date,
-  ): Promise<Omit<CellDetail, 'exception' | 'likelyChecks'> | undefined>;
-  /** The rows × tiers map of a window. */
-  buildMap(
-    houseId: number,
-    window: ProductionWindow | 'today',
-    now?: Date,
-  ): Promise<HouseMap | undefined>;
 }
 
 /** The hen-day % a house's flock is expected to lay on a day, from its fitted lay curve (flocks feature). */
@@ -168,126 +90,9 @@ export function createEvaluationService(
   events: EventBus,
   expectedLay?: ExpectedLay,
 ): EvaluationService {
-  // The seven days before today do not change while today runs, so frames and evaluations share them. They
-  // are dropped when readings for past days arrive or an exception changes (exceptions shape the baseline).
-  const historyCache: Cache<HistoryDay[]> = new Map();
-  const layoutCache: Cache<Layout | undefined> = new Map();
-  const pastCache: Cache<PastDay[]> = new Map();
-  const forget = (houseId: number) => {
-    for (const key of historyCache.keys())
-      if (key.startsWith(`${houseId}|`)) historyCache.delete(key);
-    for (const key of pastCache.keys()) if (key.startsWith(`${houseId}|`)) pastCache.delete(key);
-  };
-  events.on('readings.accepted', (e) => {
-    if (e.firstTs.getTime() < Date.now() - 20 * 3_600_000) forget(e.houseId);
-  });
-  events.on('house.evaluated', (e) => {
-    if (e.changed.length > 0) forget(e.houseId);
-  });
-  events.on('exception.changed', (e) => {
-    forget(e.houseId);
-  });
-
-  function cachedLayout(houseId: number): Promise<Layout | undefined> {
-    return remembered(layoutCache, String(houseId), () => houseLayout(db, houseId));
-  }
-
-  function history(layout: Layout, beforeDay: string): Promise<HistoryDay[]> {
-    return remembered(historyCache, `${layout.house.id}|${beforeDay}`, () =>
-      loadHistory(layout, beforeDay),
-    );
-  }
-
-  async function loadHistory(layout: Layout, beforeDay: string): Promise<HistoryDay[]> {
-    const { house } = layout;
-    const firstDay = addDays(beforeDay, -7);
-    const lastDay = addDays(beforeDay, -1);
-    const rows = await sectionDays(
-      db,
-      house.farmId,
-      layout.sections.map((s) => s.id),
-      firstDay,
-      lastDay,
-    );
-    const byId = new Map(layout.sections.map((s) => [s.id, s]));
-    const overlapping = await exceptionsOverlapping(
-      db,
-      house.id,
-      productionDayStart(firstDay, house.timezone, house.lightsOn),
-      productionDayStart(beforeDay, house.timezone, house.lightsOn),
-    );
-    return daysOf({ firstDay, lastDay }).map((day) => {
-      const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
-      const dayEnd = productionDayStart(addDays(day, 1), house.timezone, house.lightsOn);
-      const excluded = new Set<string>();
-      for (const e of overlapping) {
-        // A spot closed as "normal for this spot" lets its days into the baseline.
-        if (keepsDayOut(e, dayStart, dayEnd)) {
-          for (const key of coveredSections(e, layout)) excluded.add(key);
-        }
-      }
-      const sections: SectionCount[] = rows
-        .filter((r) => r.day === day)
-        .flatMap((r) => {
-          const s = byId.get(r.section_id);
-          return s ? [{ row: s.row, tier: s.tier, eggs: r.eggs, birds: s.birds }] : [];
-        });
-      return { day, sections, excluded };
-    });
-  }
-
-  function counts(layout: Layout, eggsBySection: Map<number, number>): SectionCount[] {
-    return layout.sections
-      .filter((s) => eggsBySection.has(s.id))
-      .map((s) => ({
-        row: s.row,
-        tier: s.tier,
-        eggs: eggsBySection.get(s.id) ?? 0,
-        birds: s.birds,
-      }));
-  }
-
-  /**
-   * A house's complete past days as the judgement needs them: each spot's log ratio by checkpoint and for
-   * the whole day, with the spots that had an exception that day kept out (a fault is never learned as
-   * normal; a spot closed as normal for this spot lets its days in). Cached like the old baseline.
-   */
-  function pastDays(layout: Layout, beforeDay: string): Promise<PastDay[]> {
-    return remembered(pastCache, `${layout.house.id}|${beforeDay}`, () =>
-      loadPastDays(layout, beforeDay),
-    );
-  }
-
-  async function loadPastDays(layout: Layout, beforeDay: string): Promise<PastDay[]> {
-    const { house } = layout;
-    const firstDay = addDays(beforeDay, -NORM_DAYS);
-    const lastDay = addDays(beforeDay, -1);
-    const rows = await sectionStageCounts(db, house, CHECKPOINT_HOURS, firstDay, lastDay);
-    const overlapping = await exceptionsOverlapping(
-      db,
-      house.id,
-      productionDayStart(firstDay, house.timezone, house.lightsOn),
-      productionDayStart(beforeDay, house.timezone, house.lightsOn),
-    );
-    const byId = new Map(layout.sections.map((sec) => [sec.id, sec]));
-    const days: PastDay[] = [];
-    for (let day = lastDay; day >= firstDay; day = addDays(day, -1)) {
-      const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
-      const dayEnd = productionDayStart(addDays(day, 1), house.timezone, house.lightsOn);
-      const excluded = new Set<string>();
-      for (const e of overlapping) {
-        if (keepsDayOut(e, dayStart, dayEnd)) excluded.add(findingKey(e));
-      }
-      const sections: SectionCounts[] = rows
-        .filter((r) => r.day === day)
-        .flatMap((r) => {
-          const sec = byId.get(r.sectionId);
-          return sec ? [{ row: sec.row, tier: sec.tier, byStage: r.byStage }] : [];
-        });
-      if (sections.length > 0) days.push(pastDayOf(day, sections, excluded));
-    }
-    return days;
-  }
+  const baseline = createHouseBaseline(db, events);
+  const houseMap = createHouseMap(db, baseline);
+  const pastDays = (layout: Layout, beforeDay: string) => baseline.pastDays(layout, beforeDay);
 
   /**
    * The shortfall judgements due at `at`: the last complete day if it has not been judged yet (with the
@@ -690,6 +495,11 @@ export function createEvaluationService(
   }
 
   /** Runs the candidates through their streaks and opens, updates and closes exceptions. */
+  /**
+   * Saves what an evaluation changes: the plan (libs/domain `planExceptionChanges`) decides which exceptions
+   * open, close or are brought up to date; they, their audit entries and the spots' streaks are written in one
+   * transaction, so a failed write leaves neither a half-applied evaluation nor streaks that disagree with it.
+   */
   async function apply(
     layout: Layout,
     at: Date,
@@ -700,109 +510,71 @@ export function createEvaluationService(
     openAt: ExceptionRow[],
     /** the exceptions of the last NORM_DAYS up to `at`, as measure() read them */
     recent: readonly ExceptionRow[],
-  ) {
+    /** writes the streaks (and the engine's state) with the changes, in the same transaction */
+    saveState: (tx: Queryable, streaks: Record<string, Streak>) => Promise<void>,
+  ): Promise<ExceptionRow[]> {
     const { house } = layout;
-    const live = new Map(openAt.map((e) => [rowKey(e), e]));
-    const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
-    const recentlyNormal = recent
-      .filter(
-        (e) =>
-          e.closeReason === 'normal_for_spot' &&
-          e.openedAt <= at &&
-          (e.closedAt === null || e.closedAt >= dayStart),
-      )
-      .map(rowKey);
+    const plan = planExceptionChanges({
+      at,
+      day,
+      dayStart: productionDayStart(day, house.timezone, house.lightsOn),
+      findings: candidates,
+      streaks,
+      open: openAt.map(known),
+      recent: recent.map(known),
+    });
     const changed: ExceptionRow[] = [];
-    for (const candidate of candidates) {
-      const key = spotKey(candidate);
-      const existing = live.get(key);
-      // The database says what is open; a person may have closed it since the last evaluation.
-      const base: Streak = { ...(streaks[key] ?? CLEAR), isOpen: existing !== undefined };
-      const primed =
-        (candidate.kind === 'house_dip' || candidate.isFinal) && candidate.isShort && !base.isOpen
-          ? { ...base, short: 1 }
-          : base;
-      const step = stepStreak(primed, candidate);
-      streaks[key] = step.streak;
-      if (step.change === 'open' && !recentlyNormal.includes(key)) {
-        const lost =
-          candidate.kind === 'shortfall' ? eggsLost(candidate.expected, candidate.eggs) : 0;
-        const row = await openException(db, {
+    await db.transaction(async (tx) => {
+      for (const open of plan.opens) {
+        const row = await openException(tx, {
           farmId: house.farmId,
           houseId: house.id,
-          kind: candidate.kind,
-          scope: candidate.scope,
-          row: candidate.row,
-          tier: candidate.tier,
-          isLearning: candidate.isLearning,
+          ...open,
           openedAt: at,
           openedDay: day,
-          eggs: Math.round(candidate.eggs),
-          expected: candidate.expected,
-          ratio: candidate.ratio,
-          pValue: candidate.pValue,
-          worstRatio: candidate.ratio,
-          atOpen: {
-            eggs: candidate.eggs,
-            expected: candidate.expected,
-            ratio: candidate.ratio,
-            pValue: candidate.pValue,
-          },
-          eggsLost: lost,
-          lostByDay: { [day]: lost },
           lastEvaluatedAt: at,
         });
-        if (row) {
-          await recordAudit(db, {
-            farmId: house.farmId,
-            actorUserId: null,
-            action: 'exception.open',
-            entity: 'exception',
-            entityId: row.id,
-            after: row,
-          });
-          changed.push(row);
-        }
-      } else if (step.change === 'open') {
-        streaks[key] = CLEAR;
-      } else if (existing && step.change === 'close') {
-        const row = await updateException(db, house.farmId, existing.id, {
+        if (!row) continue;
+        await recordAudit(tx, {
+          farmId: house.farmId,
+          actorUserId: null,
+          action: 'exception.open',
+          entity: 'exception',
+          entityId: row.id,
+          after: row,
+        });
+        changed.push(row);
+      }
+      for (const existing of plan.closes) {
+        const row = await updateException(tx, house.farmId, existing.id, {
           status: 'closed',
           closedAt: at,
           closeReason: 'recovered',
           lastEvaluatedAt: at,
         });
-        if (row) {
-          await recordAudit(db, {
-            farmId: house.farmId,
-            actorUserId: null,
-            action: 'exception.close',
-            entity: 'exception',
-            entityId: row.id,
-            before: { status: existing.status },
-            after: { status: 'closed', closeReason: 'recovered' },
-          });
-          changed.push(row);
-        }
-      } else if (existing) {
-        const lostByDay = { ...(existing.lostByDay as Record<string, number>) };
-        if (candidate.kind === 'shortfall')
-          lostByDay[day] = eggsLost(candidate.expected, candidate.eggs);
-        const row = await updateException(db, house.farmId, existing.id, {
-          eggs: Math.round(candidate.eggs),
-          expected: candidate.expected,
-          ratio: candidate.ratio,
-          pValue: candidate.pValue,
-          worstRatio: Math.min(existing.worstRatio, candidate.ratio),
-          lostByDay,
-          eggsLost: Object.values(lostByDay).reduce((a, b) => a + b, 0),
-          lastEvaluatedAt: at,
-          isLearning: existing.isLearning && candidate.isLearning,
+        if (!row) continue;
+        await recordAudit(tx, {
+          farmId: house.farmId,
+          actorUserId: null,
+          action: 'exception.close',
+          entity: 'exception',
+          entityId: row.id,
+          before: { status: existing.status },
+          after: { status: 'closed', closeReason: 'recovered' },
         });
-        if (row && (row.eggs !== existing.eggs || row.status !== existing.status))
-          changed.push(row);
+        changed.push(row);
       }
-    }
+      for (const { existing, figures, isVisible } of plan.updates) {
+        const row = await updateException(tx, house.farmId, existing.id, {
+          ...figures,
+          lastEvaluatedAt: at,
+        });
+        // A person may have acknowledged it since it was read: that is news to the map too.
+        if (row && (isVisible || row.status !== existing.status)) changed.push(row);
+      }
+      await saveState(tx, plan.streaks);
+    });
+    Object.assign(streaks, plan.streaks);
     return changed;
   }
 
@@ -816,12 +588,13 @@ export function createEvaluationService(
 
   return {
     async evaluateNow(houseId, now = new Date()) {
-      const layout = await cachedLayout(houseId);
+      const layout = await baseline.layout(houseId);
       if (!layout) return { changed: [] };
       const { streaks, engine } = await readEvaluation(db, houseId);
       const { day, candidates, openAt, recent } = await measure(layout, now, true, engine);
-      const changed = await apply(layout, now, day, candidates, streaks, openAt, recent);
-      await writeEvaluation(db, houseId, streaks, engine, now);
+      const changed = await apply(layout, now, day, candidates, streaks, openAt, recent, (tx, s) =>
+        writeEvaluation(tx, houseId, s, engine, now),
+      );
       announce(layout, changed);
       return { changed };
     },
@@ -853,7 +626,12 @@ export function createEvaluationService(
         // Today's checkpoints that have passed are replayed too; the live evaluation carries on from there.
         for (const at of checkpoints.filter((checkpoint) => checkpoint.getTime() <= Date.now())) {
           const { candidates, openAt, recent } = await measure(layout, at, false, engine, newest);
-          changed.push(...(await apply(layout, at, day, candidates, streaks, openAt, recent)));
+          // A replay keeps the streaks in hand; the engine's state is written once, at its end.
+          changed.push(
+            ...(await apply(layout, at, day, candidates, streaks, openAt, recent, () =>
+              Promise.resolve(),
+            )),
+          );
         }
       }
       // A replay up to today leaves the engine where the live evaluation carries on: the days and checkpoints
@@ -864,146 +642,7 @@ export function createEvaluationService(
       return { changed };
     },
 
-    async cellDetail(houseId, row, tier, now = new Date()) {
-      const layout = await houseLayout(db, houseId);
-      const section = layout?.sections.find((s) => s.row === row && s.tier === tier);
-      if (!layout || !section) return undefined;
-      const { house } = layout;
-      const today = productionWindow('today', now, house);
-      const hoursToday = await sectionHours(db, house.farmId, house.id, today.from, today.to);
-      const peers = layout.sections
-        .filter((s) => s.tier === tier && s.row !== row)
-        .map((s) => s.id);
-      const cumulative = new Map<number, number>();
-      const points: CellDetail['today'] = [];
-      for (const hour of [...new Set(hoursToday.map((h) => h.hour.getTime()))].sort(
-        (a, b) => a - b,
-      )) {
-        for (const h of hoursToday.filter((x) => x.hour.getTime() === hour))
-          cumulative.set(h.sectionId, (cumulative.get(h.sectionId) ?? 0) + h.eggs);
-        const peerValues = peers.map((id) => cumulative.get(id) ?? 0);
-        points.push({
-          hour: new Date(hour).toISOString(),
-          eggs: cumulative.get(section.id) ?? 0,
-          peers: peerValues.length ? median(peerValues) : null,
-        });
-      }
-      const days: CellDetail['days'] = [];
-      for (let back = 14; back >= 1; back--) {
-        const day = addDays(today.firstDay, -back);
-        const totals = await sectionTotals(
-          db,
-          house.farmId,
-          layout.sections.map((s) => s.id),
-          day,
-          day,
-        );
-        const judged = judgeHouse({
-          rows: house.rows,
-          tiers: house.tiers,
-          thresholdPct: house.shortfallThresholdPct,
-          current: counts(layout, totals),
-          history: await history(layout, day),
-        });
-        const cell = judged.cells.find((c) => c.row === row && c.tier === tier);
-        days.push({ day, eggs: cell?.eggs ?? null, expected: cell?.expected ?? null });
-      }
-      return { row, tier, timezone: house.timezone, today: points, days };
-    },
-
-    async buildMap(houseId, windowOrToday, now = new Date()) {
-      const layout = await cachedLayout(houseId);
-      if (!layout) return undefined;
-      const { house } = layout;
-      const window =
-        windowOrToday === 'today' ? productionWindow('today', now, house) : windowOrToday;
-      const totals = await sectionTotals(
-        db,
-        house.farmId,
-        layout.sections.map((s) => s.id),
-        window.firstDay,
-        window.lastDay,
-      );
-      const current = counts(layout, totals);
-      const judged = judgeHouse({
-        rows: house.rows,
-        tiers: house.tiers,
-        thresholdPct: house.shortfallThresholdPct,
-        current,
-        history: await history(layout, window.firstDay),
-      });
-      const inWindow = await exceptionsOverlapping(db, house.id, window.from, window.to);
-      const overlapping = inWindow.filter(
-        (e) => e.kind !== 'collector_gap' && e.kind !== 'house_dip',
-      );
-      const kindRank: Record<string, number> = { silent_counter: 0, shortfall: 1 };
-      // Today: each section's data horizon, and whether it is well behind the house's newest.
-      const horizons =
-        window.kind === 'today'
-          ? await beltHorizons(db, house.farmId, house.id, window.from)
-          : new Map<number, Date>();
-      const newest = Math.max(0, ...[...horizons.values()].map((d) => d.getTime()));
-      const sectionIdOf = new Map(layout.sections.map((s) => [sectionKey(s.row, s.tier), s.id]));
-      const cells = judged.cells.map((cell) => {
-        const horizon = horizons.get(sectionIdOf.get(sectionKey(cell.row, cell.tier)) ?? -1);
-        const covering = overlapping
-          .filter((e) => coveredSections(e, layout).includes(sectionKey(cell.row, cell.tier)))
-          .sort(
-            (a, b) =>
-              (a.status === 'closed' ? 1 : 0) - (b.status === 'closed' ? 1 : 0) ||
-              (kindRank[a.kind] ?? 2) - (kindRank[b.kind] ?? 2),
-          );
-        const top =
-          window.kind === 'today' ? covering.find((e) => e.status !== 'closed') : covering[0];
-        return {
-          ...cell,
-          exceptionId: top?.id ?? null,
-          exceptionKind: top?.kind ?? null,
-          isLearning: top?.isLearning ?? false,
-          dataUntil: horizon?.toISOString() ?? null,
-          isDataLate:
-            window.kind === 'today' &&
-            newest > 0 &&
-            newest - (horizon?.getTime() ?? 0) > DATA_LATE_MAP_MS,
-        };
-      });
-      const belts = current.reduce((n, s) => n + s.eggs, 0);
-      const collector = await collectorTotal(
-        db,
-        house.farmId,
-        house.id,
-        window.firstDay,
-        window.lastDay,
-      );
-      let henDayPct: number | null = null;
-      if (window.isComplete) {
-        const hens = await hensAlive(db, house.id, window.firstDay, window.lastDay);
-        const henDays = [...hens.values()].reduce((a, b) => a + b, 0);
-        henDayPct = henDays > 0 ? Math.round((belts / henDays) * 1000) / 10 : null;
-      }
-      const open = inWindow.filter((e) => e.status !== 'closed').length;
-      return {
-        houseId: house.id,
-        farmId: house.farmId,
-        houseName: house.name,
-        rows: house.rows,
-        tiers: house.tiers,
-        timezone: house.timezone,
-        window: {
-          kind: window.kind,
-          firstDay: window.firstDay,
-          lastDay: window.lastDay,
-          from: window.from.toISOString(),
-          to: window.to.toISOString(),
-          isComplete: window.isComplete,
-        },
-        cells,
-        belts,
-        collector,
-        henDayPct,
-        openExceptions: open,
-        updatedAt: new Date().toISOString(),
-      };
-    },
+    buildMap: (houseId, window, now) => houseMap.buildMap(houseId, window, now),
+    cellDetail: (houseId, row, tier, now) => houseMap.cellDetail(houseId, row, tier, now),
   };
 }

@@ -1,0 +1,186 @@
+import type { CellDetail, HouseMap } from '@tierscope/contracts';
+import type { Database } from '@tierscope/db';
+import {
+  addDays,
+  judgeHouse,
+  median,
+  productionWindow,
+  sectionKey,
+  type ProductionWindow,
+} from '@tierscope/domain';
+import {
+  beltHorizons,
+  collectorTotal,
+  exceptionsOverlapping,
+  hensAlive,
+  houseLayout,
+  sectionHours,
+  sectionTotals,
+} from './evaluation.repository';
+import { counts, coveredSections, type HouseBaseline } from './house-baseline';
+
+/** A section whose data is this far behind its house's newest is shown as late on the map. */
+const DATA_LATE_MAP_MS = 30 * 60_000;
+
+/** The two read models of a house's judgement: the rows × tiers map of a window, and one section's detail. */
+export interface HouseMapReader {
+  /** One section's day curve against its peers and its last 14 days against expected. */
+  cellDetail(
+    houseId: number,
+    row: number,
+    tier: number,
+    now?: Date,
+  ): Promise<Omit<CellDetail, 'exception' | 'likelyChecks'> | undefined>;
+  /** The rows × tiers map of a window. */
+  buildMap(
+    houseId: number,
+    window: ProductionWindow | 'today',
+    now?: Date,
+  ): Promise<HouseMap | undefined>;
+}
+
+export function createHouseMap(db: Database, baseline: HouseBaseline): HouseMapReader {
+  return {
+    async cellDetail(houseId, row, tier, now = new Date()) {
+      const layout = await houseLayout(db, houseId);
+      const section = layout?.sections.find((s) => s.row === row && s.tier === tier);
+      if (!layout || !section) return undefined;
+      const { house } = layout;
+      const today = productionWindow('today', now, house);
+      const hoursToday = await sectionHours(db, house.farmId, house.id, today.from, today.to);
+      const peers = layout.sections
+        .filter((s) => s.tier === tier && s.row !== row)
+        .map((s) => s.id);
+      const cumulative = new Map<number, number>();
+      const points: CellDetail['today'] = [];
+      for (const hour of [...new Set(hoursToday.map((h) => h.hour.getTime()))].sort(
+        (a, b) => a - b,
+      )) {
+        for (const h of hoursToday.filter((x) => x.hour.getTime() === hour))
+          cumulative.set(h.sectionId, (cumulative.get(h.sectionId) ?? 0) + h.eggs);
+        const peerValues = peers.map((id) => cumulative.get(id) ?? 0);
+        points.push({
+          hour: new Date(hour).toISOString(),
+          eggs: cumulative.get(section.id) ?? 0,
+          peers: peerValues.length ? median(peerValues) : null,
+        });
+      }
+      const days: CellDetail['days'] = [];
+      for (let back = 14; back >= 1; back--) {
+        const day = addDays(today.firstDay, -back);
+        const totals = await sectionTotals(
+          db,
+          house.farmId,
+          layout.sections.map((s) => s.id),
+          day,
+          day,
+        );
+        const judged = judgeHouse({
+          rows: house.rows,
+          tiers: house.tiers,
+          thresholdPct: house.shortfallThresholdPct,
+          current: counts(layout, totals),
+          history: await baseline.history(layout, day),
+        });
+        const cell = judged.cells.find((c) => c.row === row && c.tier === tier);
+        days.push({ day, eggs: cell?.eggs ?? null, expected: cell?.expected ?? null });
+      }
+      return { row, tier, timezone: house.timezone, today: points, days };
+    },
+
+    async buildMap(houseId, windowOrToday, now = new Date()) {
+      const layout = await baseline.layout(houseId);
+      if (!layout) return undefined;
+      const { house } = layout;
+      const window =
+        windowOrToday === 'today' ? productionWindow('today', now, house) : windowOrToday;
+      const totals = await sectionTotals(
+        db,
+        house.farmId,
+        layout.sections.map((s) => s.id),
+        window.firstDay,
+        window.lastDay,
+      );
+      const current = counts(layout, totals);
+      const judged = judgeHouse({
+        rows: house.rows,
+        tiers: house.tiers,
+        thresholdPct: house.shortfallThresholdPct,
+        current,
+        history: await baseline.history(layout, window.firstDay),
+      });
+      const inWindow = await exceptionsOverlapping(db, house.id, window.from, window.to);
+      const overlapping = inWindow.filter(
+        (e) => e.kind !== 'collector_gap' && e.kind !== 'house_dip',
+      );
+      const kindRank: Record<string, number> = { silent_counter: 0, shortfall: 1 };
+      // Today: each section's data horizon, and whether it is well behind the house's newest.
+      const horizons =
+        window.kind === 'today'
+          ? await beltHorizons(db, house.farmId, house.id, window.from)
+          : new Map<number, Date>();
+      const newest = Math.max(0, ...[...horizons.values()].map((d) => d.getTime()));
+      const sectionIdOf = new Map(layout.sections.map((s) => [sectionKey(s.row, s.tier), s.id]));
+      const cells = judged.cells.map((cell) => {
+        const horizon = horizons.get(sectionIdOf.get(sectionKey(cell.row, cell.tier)) ?? -1);
+        const covering = overlapping
+          .filter((e) => coveredSections(e, layout).includes(sectionKey(cell.row, cell.tier)))
+          .sort(
+            (a, b) =>
+              (a.status === 'closed' ? 1 : 0) - (b.status === 'closed' ? 1 : 0) ||
+              (kindRank[a.kind] ?? 2) - (kindRank[b.kind] ?? 2),
+          );
+        const top =
+          window.kind === 'today' ? covering.find((e) => e.status !== 'closed') : covering[0];
+        return {
+          ...cell,
+          exceptionId: top?.id ?? null,
+          exceptionKind: top?.kind ?? null,
+          isLearning: top?.isLearning ?? false,
+          dataUntil: horizon?.toISOString() ?? null,
+          isDataLate:
+            window.kind === 'today' &&
+            newest > 0 &&
+            newest - (horizon?.getTime() ?? 0) > DATA_LATE_MAP_MS,
+        };
+      });
+      const belts = current.reduce((n, s) => n + s.eggs, 0);
+      const collector = await collectorTotal(
+        db,
+        house.farmId,
+        house.id,
+        window.firstDay,
+        window.lastDay,
+      );
+      let henDayPct: number | null = null;
+      if (window.isComplete) {
+        const hens = await hensAlive(db, house.id, window.firstDay, window.lastDay);
+        const henDays = [...hens.values()].reduce((a, b) => a + b, 0);
+        henDayPct = henDays > 0 ? Math.round((belts / henDays) * 1000) / 10 : null;
+      }
+      const open = inWindow.filter((e) => e.status !== 'closed').length;
+      return {
+        houseId: house.id,
+        farmId: house.farmId,
+        houseName: house.name,
+        rows: house.rows,
+        tiers: house.tiers,
+        timezone: house.timezone,
+        window: {
+          kind: window.kind,
+          firstDay: window.firstDay,
+          lastDay: window.lastDay,
+          from: window.from.toISOString(),
+          to: window.to.toISOString(),
+          isComplete: window.isComplete,
+        },
+        cells,
+        belts,
+        collector,
+        henDayPct,
+        openExceptions: open,
+        updatedAt: new Date().toISOString(),
+      };
+    },
+  };
+}
