@@ -82,9 +82,18 @@ describe('the house live page', () => {
       )
       .toBe(true);
 
+    // Today's map comes over the socket: opening the page reads the exception list once and the map
+    // not at all over HTTP (it used to read the map twice).
+    await page.waitForLoadState('networkidle');
+    const reads: string[] = [];
+    page.on('request', (r) => {
+      if (/\/api\/v1\/(houses\/\d+\/map|exceptions)/.test(r.url())) reads.push(r.url());
+    });
     await page.getByRole('link', { name: 'Live map of House 1' }).click();
     await page.getByTestId('connection').getByText('Live').waitFor();
     await page.getByText('Row 3 short (all tiers)').waitFor();
+    expect(reads.filter((url) => url.includes('/map'))).toEqual([]);
+    expect(reads.filter((url) => url.includes('/exceptions'))).toHaveLength(1);
     const flagged = page.locator('[data-testid="map-table"] tr[data-exception="shortfall"]');
     await expect.poll(() => flagged.count()).toBe(3);
     expect(

@@ -31,7 +31,7 @@ import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
-import { LoadState } from '../../shared/ui/load-state';
+import { LoadState, type LoadStatus } from '../../shared/ui/load-state';
 import { localDay } from '../../shared/ui/local-dates';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
 import { ApiClient } from '../../core/http/api-client';
@@ -82,7 +82,7 @@ export class FlockPage {
   protected readonly hasActiveFlock = computed(() =>
     (this.flocks.value() ?? []).some((f) => f.endedOn === null),
   );
-  protected readonly state = computed(() => {
+  protected readonly state = computed((): LoadStatus => {
     if (this.flocks.error() || this.production.error()) return 'error';
     if (!this.flocks.hasValue()) return 'loading';
     if (this.flocks.value().length === 0) return 'empty';

@@ -7,7 +7,7 @@ import { measuredWords } from '@tierscope/domain';
 import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
 import { describeApiError } from '../../core/http/api-error';
-import { LoadState } from '../../shared/ui/load-state';
+import { LoadState, loadStatus } from '../../shared/ui/load-state';
 import { houseTime } from '../../shared/ui/local-dates';
 import { ApiClient } from '../../core/http/api-client';
 
@@ -30,10 +30,7 @@ export class CellDetail {
   protected readonly detail = this.api.resource(endpoints.exceptions.cell, () => ({
     params: { houseId: this.houseId(), row: this.row(), tier: this.tier() },
   }));
-  protected readonly state = computed(() => {
-    if (this.detail.error()) return 'error';
-    return this.detail.hasValue() ? 'ready' : 'loading';
-  });
+  protected readonly state = computed(() => loadStatus(this.detail));
   protected readonly errorText = computed(() => describeApiError(this.detail.error()));
 
   /** What it measured in plain words: how far below, how unusual for that spot (never a p-value). */

@@ -20,7 +20,7 @@ import { type ExceptionView, type HouseMap, endpoints } from '@tierscope/contrac
 import { measuredWords, type WindowKind } from '@tierscope/domain';
 import { describeApiError } from '../../core/http/api-error';
 import { LiveSocket } from '../../core/live/live-socket';
-import { LoadState } from '../../shared/ui/load-state';
+import { LoadState, type LoadStatus } from '../../shared/ui/load-state';
 import { houseTime } from '../../shared/ui/local-dates';
 import { CellDetail } from './cell-detail';
 import { HouseHeatMap } from './house-heat-map';
@@ -60,9 +60,18 @@ export class HouseLivePage {
   protected readonly lastMessageAt = this.live.lastMessageAt;
 
   private readonly liveMap = signal<HouseMap | null>(null);
+  /** What the live socket said is wrong with watching this house (not found, or not yours). */
+  private readonly liveError = signal<string | null>(null);
+  // Today's map arrives over the socket (a snapshot, then frames): it is read over HTTP only when the socket
+  // has not delivered one and is reconnecting. Past windows are read over HTTP.
   protected readonly fetched = this.api.resource(endpoints.exceptions.houseMap, () => {
     const kind = this.windowKind();
     const params = { houseId: this.houseId() };
+    if (kind === 'today') {
+      return this.liveMap() === null && this.connection() === 'reconnecting'
+        ? { params, query: { window: kind } }
+        : undefined;
+    }
     if (kind !== 'custom') return { params, query: { window: kind } };
     return this.from() && this.to() && this.from() <= this.to()
       ? { params, query: { window: kind, from: this.from(), to: this.to() } }
@@ -79,13 +88,17 @@ export class HouseLivePage {
   protected readonly map = computed(() =>
     this.windowKind() === 'today' ? (this.liveMap() ?? this.fetchedMap()) : this.fetchedMap(),
   );
-  protected readonly state = computed(() => {
+  protected readonly state = computed((): LoadStatus => {
     if (this.map()) return 'ready';
-    if (this.fetched.error()) return 'error';
+    if (this.fetched.error() || (this.windowKind() === 'today' && this.liveError())) return 'error';
     if (this.windowKind() === 'custom' && !(this.from() && this.to())) return 'empty';
     return 'loading';
   });
-  protected readonly errorText = computed(() => describeApiError(this.fetched.error()));
+  protected readonly errorText = computed(
+    () =>
+      (this.windowKind() === 'today' ? this.liveError() : null) ??
+      describeApiError(this.fetched.error()),
+  );
   protected readonly connectionLabel = computed(
     () =>
       ({
@@ -121,10 +134,16 @@ export class HouseLivePage {
       // Only the house id is a dependency: the socket's own signals must not restart the subscription.
       const subscription = untracked(() => {
         this.liveMap.set(null);
+        this.liveError.set(null);
         return this.live.watchHouse(houseId).subscribe((message) => {
           if (message.type === 'snapshot' || message.type === 'frame')
             this.liveMap.set(message.map);
-          if (message.type === 'exception') this.exceptions.reload();
+          if (message.type === 'error') this.liveError.set(message.message);
+          // The message carries the exception as it now is: the list follows it without a new read.
+          if (message.type === 'exception') {
+            const changed = message.exception;
+            this.exceptions.update((list) => withLiveException(list ?? [], changed));
+          }
         });
       });
       onCleanup(() => {
@@ -160,4 +179,16 @@ export class HouseLivePage {
       ? `Row ${e.row} short (all tiers)`
       : `Tier ${e.tier} short (across rows)`;
   }
+}
+
+/** The house's live exceptions (open or acknowledged) after one changed: replaced, added first, or gone when closed. */
+export function withLiveException(
+  list: readonly ExceptionView[],
+  changed: ExceptionView,
+): ExceptionView[] {
+  const others = list.filter((e) => e.id !== changed.id);
+  if (changed.status === 'closed') return others;
+  return list.some((e) => e.id === changed.id)
+    ? list.map((e) => (e.id === changed.id ? changed : e))
+    : [changed, ...others];
 }

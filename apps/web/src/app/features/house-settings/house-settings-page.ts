@@ -24,7 +24,7 @@ import { RouterLink } from '@angular/router';
 import { houseCreateSchema, type HouseUpdate, endpoints } from '@tierscope/contracts';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
-import { LoadState } from '../../shared/ui/load-state';
+import { LoadState, loadStatus } from '../../shared/ui/load-state';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
 import { ApiClient } from '../../core/http/api-client';
 
@@ -59,10 +59,7 @@ export class HouseSettingsPage {
   protected readonly house = this.api.resource(endpoints.houses.get, () => ({
     params: { houseId: this.houseId() },
   }));
-  protected readonly state = computed(() => {
-    if (this.house.error()) return 'error';
-    return this.house.hasValue() ? 'ready' : 'loading';
-  });
+  protected readonly state = computed(() => loadStatus(this.house));
   protected readonly errorText = computed(() => describeApiError(this.house.error()));
 
   protected readonly form = inject(NonNullableFormBuilder).group({

@@ -4,7 +4,7 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { type NotificationSettings, endpoints } from '@tierscope/contracts';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
-import { LoadState } from '../../shared/ui/load-state';
+import { LoadState, loadStatus } from '../../shared/ui/load-state';
 import { ApiClient } from '../../core/http/api-client';
 
 interface Choice {
@@ -76,10 +76,7 @@ export class NotificationsPage {
   private readonly snackBar = inject(MatSnackBar);
 
   protected readonly settings = this.api.resource(endpoints.notifications.settings, () => ({}));
-  protected readonly state = computed(() => {
-    if (this.settings.error()) return 'error';
-    return this.settings.hasValue() ? 'ready' : 'loading';
-  });
+  protected readonly state = computed(() => loadStatus(this.settings));
   protected readonly errorText = computed(() => describeApiError(this.settings.error()));
   protected readonly email = computed(() => this.auth.user()?.email ?? '');
   protected readonly isSaving = signal(false);

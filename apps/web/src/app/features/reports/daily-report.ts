@@ -24,7 +24,7 @@ import { EXCEPTION_KIND_LABELS, type ExceptionKind } from '@tierscope/domain';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { FarmSelect } from '../../shared/ui/farm-select';
-import { LoadState } from '../../shared/ui/load-state';
+import { LoadState, loadStatus } from '../../shared/ui/load-state';
 import { localDay } from '../../shared/ui/local-dates';
 import { ApiClient } from '../../core/http/api-client';
 
@@ -75,11 +75,9 @@ export class DailyReportView {
     const house = this.houseId();
     return house === null ? undefined : { query: { houseId: house, day: this.day() } };
   });
-  protected readonly state = computed(() => {
-    if (this.report.error()) return 'error';
-    if (!this.report.hasValue()) return 'loading';
-    return this.report.value().totals.belts === 0 ? 'empty' : 'ready';
-  });
+  protected readonly state = computed(() =>
+    loadStatus(this.report, (report) => report.totals.belts === 0),
+  );
   protected readonly errorText = computed(() => describeApiError(this.report.error()));
   protected readonly columns = ['row', 'tier', 'eggs', 'expected', 'ratio', 'exception'];
   protected readonly table = new MatTableDataSource<SectionLine>([]);

@@ -16,7 +16,7 @@ import { NgxEchartsDirective } from 'ngx-echarts';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { FarmSelect } from '../../shared/ui/farm-select';
-import { LoadState } from '../../shared/ui/load-state';
+import { LoadState, loadStatus } from '../../shared/ui/load-state';
 import { localDay } from '../../shared/ui/local-dates';
 import { ApiClient } from '../../core/http/api-client';
 
@@ -61,11 +61,9 @@ export class FarmSummaryView {
       ? undefined
       : { query: { farmId: farm, from: this.from(), to: this.to() } };
   });
-  protected readonly state = computed(() => {
-    if (this.summary.error()) return 'error';
-    if (!this.summary.hasValue()) return 'loading';
-    return this.summary.value().houses.length === 0 ? 'empty' : 'ready';
-  });
+  protected readonly state = computed(() =>
+    loadStatus(this.summary, (summary) => summary.houses.length === 0),
+  );
   protected readonly errorText = computed(() => describeApiError(this.summary.error()));
   protected readonly columns = [
     'house',

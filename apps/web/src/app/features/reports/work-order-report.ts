@@ -17,7 +17,7 @@ import { NgxEchartsDirective } from 'ngx-echarts';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { FarmSelect } from '../../shared/ui/farm-select';
-import { LoadState } from '../../shared/ui/load-state';
+import { LoadState, loadStatus } from '../../shared/ui/load-state';
 import { ApiClient } from '../../core/http/api-client';
 
 /** Colour-blind-safe categorical colours (Okabe & Ito, "Color Universal Design", 2002), one per cause. */
@@ -65,11 +65,9 @@ export class WorkOrderReportView {
     if (farm === null || !this.from() || !this.to()) return undefined;
     return { query: { farmId: farm, from: this.from(), to: this.to() } };
   });
-  protected readonly state = computed(() => {
-    if (this.report.error()) return 'error';
-    if (!this.report.hasValue()) return 'loading';
-    return this.report.value().houses.length === 0 ? 'empty' : 'ready';
-  });
+  protected readonly state = computed(() =>
+    loadStatus(this.report, (report) => report.houses.length === 0),
+  );
   protected readonly errorText = computed(() => describeApiError(this.report.error()));
   protected readonly columns = ['house', 'done', 'fromExceptions', 'median', 'max', 'topCause'];
   protected readonly chart = computed(() => {

@@ -34,7 +34,7 @@ import {
 } from '@tierscope/domain';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
-import { LoadState } from '../../shared/ui/load-state';
+import { LoadState, type LoadStatus } from '../../shared/ui/load-state';
 import { PRIORITY_LABELS, spotOf } from './work-order-labels';
 import { WorkOrdersApi } from './work-orders-api';
 import { ApiClient } from '../../core/http/api-client';
@@ -76,7 +76,7 @@ export class WorkOrderPage {
   protected readonly order = linkedSignal<WorkOrder | undefined>(() =>
     this.resource.hasValue() ? this.resource.value() : undefined,
   );
-  protected readonly loadState = computed(() => {
+  protected readonly loadState = computed((): LoadStatus => {
     if (this.order()) return 'ready';
     if (this.resource.error()) return 'error';
     return 'loading';

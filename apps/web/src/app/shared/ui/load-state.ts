@@ -39,20 +39,34 @@ import { MatProgressSpinnerModule } from '@angular/material/progress-spinner';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class LoadState {
-  readonly state = input.required<'loading' | 'error' | 'empty' | 'ready'>();
+  readonly state = input.required<LoadStatus>();
   readonly loadingText = input('Loading…');
   readonly errorText = input('This could not be loaded.');
   readonly emptyText = input('Nothing here yet.');
   readonly retry = output();
 }
 
-/** What a list page shows for a resource: its loading, error, empty or ready state. */
+/** What a page shows for what it reads: loading, error, empty or ready — the one list of these states. */
+export type LoadStatus = 'loading' | 'error' | 'empty' | 'ready';
+
+/** What a page shows for one resource: its error, loading until it has a value, then empty or ready. */
+export function loadStatus<T>(
+  resource: { error(): unknown; hasValue(): boolean; value(): T | undefined },
+  isEmpty: (value: T) => boolean = () => false,
+): LoadStatus {
+  if (resource.error()) return 'error';
+  const value = resource.hasValue() ? resource.value() : undefined;
+  if (value === undefined) return 'loading';
+  return isEmpty(value) ? 'empty' : 'ready';
+}
+
+/** What a list page shows for a resource: like `loadStatus`, and empty while nothing is asked for. */
 export function listState(resource: {
   error(): unknown;
   isLoading(): boolean;
   hasValue(): boolean;
   value(): readonly unknown[] | undefined;
-}): 'loading' | 'error' | 'empty' | 'ready' {
+}): LoadStatus {
   if (resource.error()) return 'error';
   if (resource.isLoading() && !resource.hasValue()) return 'loading';
   return (resource.value()?.length ?? 0) === 0 ? 'empty' : 'ready';
