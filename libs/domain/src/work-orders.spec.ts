@@ -4,6 +4,8 @@ import {
   calendarDayOf,
   hoursToDone,
   isOverdue,
+  planWorkOrderUpdate,
+  type WorkOrderAsIs,
   safetyCautions,
   SAFETY_DEFERRAL,
 } from './work-orders';
@@ -85,5 +87,94 @@ describe('safetyCautions', () => {
       expect.arrayContaining(['Ammonia and dust', 'House entry and biosecurity']),
     );
     expect(SAFETY_DEFERRAL).toContain("site's own safety procedures");
+  });
+});
+
+describe('planWorkOrderUpdate', () => {
+  const now = new Date('2026-11-10T09:30:00Z');
+  const order = (over: Partial<WorkOrderAsIs> = {}): WorkOrderAsIs => ({
+    state: 'open',
+    assigneeId: 5,
+    exceptionId: 12,
+    findingCause: null,
+    startedAt: null,
+    ...over,
+  });
+  const crew = { role: 'crew' as const, isAssignee: true };
+  const manager = { role: 'manager' as const, isAssignee: false };
+
+  it('lets the assigned crew member start it, keeping the first start', () => {
+    const plan = planWorkOrderUpdate(order(), { state: 'in_progress' }, crew, now);
+    expect(plan).toMatchObject({ moveTo: 'in_progress', patch: { startedAt: now } });
+    const earlier = new Date('2026-11-09T08:00:00Z');
+    const again = planWorkOrderUpdate(
+      order({ state: 'open', startedAt: earlier }),
+      { state: 'in_progress' },
+      crew,
+      now,
+    );
+    expect(again).toMatchObject({ patch: { startedAt: earlier } });
+  });
+
+  it('refuses crew the order itself, and cancelling or reopening', () => {
+    expect(planWorkOrderUpdate(order(), { title: 'Other' }, crew, now)).toMatchObject({
+      refused: 'forbidden',
+    });
+    expect(
+      planWorkOrderUpdate(order(), { state: 'cancelled', cancelReason: 'dup' }, crew, now),
+    ).toMatchObject({ refused: 'forbidden' });
+    expect(
+      planWorkOrderUpdate(order({ state: 'done' }), { state: 'open' }, crew, now),
+    ).toMatchObject({ refused: 'forbidden' });
+  });
+
+  it('needs a cause to be done and a reason to be cancelled, naming the field', () => {
+    expect(planWorkOrderUpdate(order(), { state: 'done' }, crew, now)).toMatchObject({
+      refused: 'invalid',
+      field: { path: 'findingCause' },
+    });
+    const done = planWorkOrderUpdate(order(), { state: 'done', findingCause: 'feed' }, crew, now);
+    expect(done).toMatchObject({
+      moveTo: 'done',
+      patch: { state: 'done', doneAt: now, startedAt: now, findingCause: 'feed' },
+    });
+    expect(planWorkOrderUpdate(order(), { state: 'cancelled' }, manager, now)).toMatchObject({
+      refused: 'invalid',
+      field: { path: 'cancelReason' },
+    });
+  });
+
+  it('clears done and cancelled when a manager reopens it', () => {
+    const plan = planWorkOrderUpdate(
+      order({ state: 'cancelled' }),
+      { state: 'open' },
+      manager,
+      now,
+    );
+    expect(plan).toMatchObject({
+      moveTo: 'open',
+      patch: { doneAt: null, cancelledAt: null, cancelReason: null },
+    });
+  });
+
+  it('closes the exception only for an order from one, being marked done', () => {
+    const closing = planWorkOrderUpdate(
+      order(),
+      { state: 'done', findingCause: 'water', closeException: true },
+      crew,
+      now,
+    );
+    expect(closing).toMatchObject({ closesException: true });
+    expect(
+      planWorkOrderUpdate(
+        order({ exceptionId: null }),
+        { state: 'done', findingCause: 'water', closeException: true },
+        crew,
+        now,
+      ),
+    ).toMatchObject({ refused: 'invalid', field: { path: 'closeException' } });
+    expect(planWorkOrderUpdate(order(), { closeException: true }, manager, now)).toMatchObject({
+      refused: 'invalid',
+    });
   });
 });

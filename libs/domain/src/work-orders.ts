@@ -140,3 +140,150 @@ export function calendarDayOf(instant: Date, timeZone: string): string {
   const p = localParts(instant, timeZone);
   return `${p.year}-${String(p.month).padStart(2, '0')}-${String(p.day).padStart(2, '0')}`;
 }
+
+/** A change asked of a work order (the update body, as the contract parsed it). */
+export interface WorkOrderChange {
+  title?: string;
+  description?: string;
+  priority?: WorkOrderPriority;
+  assigneeId?: number | null;
+  dueOn?: string | null;
+  state?: WorkOrderState;
+  findingCause?: FindingCause | null;
+  findingNotes?: string;
+  cancelReason?: string;
+  /** with state "done": also close the exception it came from, as fixed */
+  closeException?: boolean;
+  addChecklist?: readonly string[];
+}
+
+/** What the plan reads of the work order as it stands. */
+export interface WorkOrderAsIs {
+  state: WorkOrderState;
+  assigneeId: number | null;
+  exceptionId: number | null;
+  findingCause: FindingCause | null;
+  startedAt: Date | null;
+}
+
+/** The columns an update writes. */
+export interface WorkOrderPatch {
+  title?: string;
+  description?: string;
+  priority?: WorkOrderPriority;
+  assigneeId?: number | null;
+  dueOn?: string | null;
+  findingCause?: FindingCause | null;
+  findingNotes?: string;
+  state?: WorkOrderState;
+  startedAt?: Date;
+  doneAt?: Date | null;
+  cancelledAt?: Date | null;
+  cancelReason?: string | null;
+}
+
+/** Why a change is refused: who may not, what the state does not allow, or a field that is missing. */
+export interface WorkOrderRefusal {
+  refused: 'forbidden' | 'conflict' | 'invalid';
+  message: string;
+  field?: { path: string; message: string };
+}
+
+export interface WorkOrderPlan {
+  patch: WorkOrderPatch;
+  /** the state it moves to, or null when it stays */
+  moveTo: WorkOrderState | null;
+  /** close the exception it came from, as fixed */
+  closesException: boolean;
+}
+
+const MANAGER_FIELDS = [
+  'title',
+  'description',
+  'priority',
+  'assigneeId',
+  'dueOn',
+  'addChecklist',
+] as const;
+
+/**
+ * What an update of a work order writes, decided without storage: crew change only findings and the state
+ * (as `allowedTransitions` lets them); done needs a finding's cause, cancelled a reason; starting keeps the
+ * first start, done sets it if the order was never started, reopening clears done and cancelled. Closing the
+ * exception it came from is only for an order from an exception, being marked done.
+ */
+export function planWorkOrderUpdate(
+  order: WorkOrderAsIs,
+  change: WorkOrderChange,
+  who: { role: Role; isAssignee: boolean },
+  now: Date,
+): WorkOrderPlan | WorkOrderRefusal {
+  const isManager = who.role === 'manager' || who.role === 'admin';
+  if (!isManager && MANAGER_FIELDS.some((f) => change[f] !== undefined)) {
+    return {
+      refused: 'forbidden',
+      message: 'Only managers change the order itself; record your findings instead',
+    };
+  }
+  const patch: WorkOrderPatch = {};
+  if (change.title !== undefined) patch.title = change.title;
+  if (change.description !== undefined) patch.description = change.description;
+  if (change.priority !== undefined) patch.priority = change.priority;
+  if (change.assigneeId !== undefined) patch.assigneeId = change.assigneeId;
+  if (change.dueOn !== undefined) patch.dueOn = change.dueOn;
+  if (change.findingCause !== undefined) patch.findingCause = change.findingCause;
+  if (change.findingNotes !== undefined) patch.findingNotes = change.findingNotes;
+
+  const next = change.state !== undefined && change.state !== order.state ? change.state : null;
+  if (next !== null) {
+    if (!allowedTransitions(order.state, who).includes(next)) {
+      if (
+        !isManager &&
+        (next === 'cancelled' || order.state === 'done' || order.state === 'cancelled')
+      )
+        return { refused: 'forbidden', message: 'Only managers cancel or reopen work orders' };
+      return {
+        refused: 'conflict',
+        message: `A work order that is ${WORK_ORDER_STATE_LABELS[order.state].toLowerCase()} cannot become ${WORK_ORDER_STATE_LABELS[next].toLowerCase()}`,
+      };
+    }
+    patch.state = next;
+    if (next === 'in_progress') patch.startedAt = order.startedAt ?? now;
+    if (next === 'done') {
+      if (!(change.findingCause ?? order.findingCause)) {
+        return {
+          refused: 'invalid',
+          message: 'Record what you found before marking it done',
+          field: { path: 'findingCause', message: 'Choose what the cause was' },
+        };
+      }
+      patch.doneAt = now;
+      patch.startedAt = order.startedAt ?? now;
+    }
+    if (next === 'cancelled') {
+      if (!change.cancelReason) {
+        return {
+          refused: 'invalid',
+          message: 'Say why the work order is cancelled',
+          field: { path: 'cancelReason', message: 'Give a reason' },
+        };
+      }
+      patch.cancelReason = change.cancelReason;
+      patch.cancelledAt = now;
+    }
+    if (next === 'open') {
+      patch.doneAt = null;
+      patch.cancelledAt = null;
+      patch.cancelReason = null;
+    }
+  }
+  const closesException = change.closeException === true;
+  if (closesException && (change.state !== 'done' || order.exceptionId === null)) {
+    return {
+      refused: 'invalid',
+      message: 'Only a work order from an exception, being marked done, can close its exception',
+      field: { path: 'closeException', message: 'Not possible here' },
+    };
+  }
+  return { patch, moveTo: next, closesException };
+}

@@ -10,6 +10,7 @@ import type {
 import type { Database } from '@tierscope/db';
 import {
   allowedTransitions,
+  planWorkOrderUpdate,
   calendarDayOf,
   can,
   isOverdue,
@@ -331,89 +332,30 @@ export function createWorkOrdersService(options: {
     async update(ctx, id, input) {
       const { row, role } = await visible(ctx, id);
       const o = row.order;
-      const isManager = can(role, 'workOrders.manage');
-      const managerFields = [
-        'title',
-        'description',
-        'priority',
-        'assigneeId',
-        'dueOn',
-        'addChecklist',
-      ] as const;
-      if (!isManager && managerFields.some((f) => input[f] !== undefined)) {
-        throw forbidden('Only managers change the order itself; record your findings instead');
+      const plan = planWorkOrderUpdate(
+        o,
+        input,
+        { role, isAssignee: o.assigneeId === ctx.user.id },
+        new Date(),
+      );
+      if ('refused' in plan) {
+        if (plan.refused === 'forbidden') throw forbidden(plan.message);
+        throw new AppError(
+          plan.refused === 'conflict' ? 'conflict' : 'validation_failed',
+          plan.message,
+          plan.field ? [plan.field] : undefined,
+        );
       }
+      const { patch, moveTo: next } = plan;
       if (input.assigneeId !== undefined) await checkAssignee(o.farmId, input.assigneeId);
-      const patch: Partial<NewWorkOrder> = {};
-      if (input.title !== undefined) patch.title = input.title;
-      if (input.description !== undefined) patch.description = input.description;
-      if (input.priority !== undefined) patch.priority = input.priority;
-      if (input.assigneeId !== undefined) patch.assigneeId = input.assigneeId;
-      if (input.dueOn !== undefined) patch.dueOn = input.dueOn;
-      if (input.findingCause !== undefined) patch.findingCause = input.findingCause;
-      if (input.findingNotes !== undefined) patch.findingNotes = input.findingNotes;
-
-      const next = input.state;
-      if (next !== undefined && next !== o.state) {
-        const allowed = allowedTransitions(o.state, {
-          role,
-          isAssignee: o.assigneeId === ctx.user.id,
-        });
-        if (!allowed.includes(next)) {
-          if (!isManager && (next === 'cancelled' || o.state === 'done' || o.state === 'cancelled'))
-            throw forbidden('Only managers cancel or reopen work orders');
-          throw new AppError(
-            'conflict',
-            `A work order that is ${WORK_ORDER_STATE_LABELS[o.state].toLowerCase()} cannot become ${WORK_ORDER_STATE_LABELS[next].toLowerCase()}`,
-          );
-        }
-        patch.state = next;
-        const now = new Date();
-        if (next === 'in_progress') patch.startedAt = o.startedAt ?? now;
-        if (next === 'done') {
-          const cause = input.findingCause ?? o.findingCause;
-          if (!cause) {
-            throw new AppError(
-              'validation_failed',
-              'Record what you found before marking it done',
-              [{ path: 'findingCause', message: 'Choose what the cause was' }],
-            );
-          }
-          patch.doneAt = now;
-          patch.startedAt = o.startedAt ?? now;
-        }
-        if (next === 'cancelled') {
-          if (!input.cancelReason) {
-            throw new AppError('validation_failed', 'Say why the work order is cancelled', [
-              { path: 'cancelReason', message: 'Give a reason' },
-            ]);
-          }
-          patch.cancelReason = input.cancelReason;
-          patch.cancelledAt = now;
-        }
-        if (next === 'open') {
-          patch.doneAt = null;
-          patch.cancelledAt = null;
-          patch.cancelReason = null;
-        }
-      }
-      if (input.closeException === true) {
-        if (next !== 'done' || o.exceptionId === null) {
-          throw new AppError(
-            'validation_failed',
-            'Only a work order from an exception, being marked done, can close its exception',
-            [{ path: 'closeException', message: 'Not possible here' }],
-          );
-        }
-        requireFarmPermission(ctx, o.farmId, 'exceptions.acknowledge');
-      }
+      if (plan.closesException) requireFarmPermission(ctx, o.farmId, 'exceptions.acknowledge');
       await db.transaction(async (tx) => {
         if (Object.keys(patch).length > 0) await updateWorkOrder(tx, id, patch);
         if (input.addChecklist) await addChecklistItems(tx, id, input.addChecklist);
         await recordAudit(tx, {
           farmId: o.farmId,
           actorUserId: ctx.user.id,
-          action: next !== undefined && next !== o.state ? `workOrder.${next}` : 'workOrder.update',
+          action: next !== null ? `workOrder.${next}` : 'workOrder.update',
           entity: 'work_order',
           entityId: id,
           before: Object.fromEntries(Object.keys(patch).map((k) => [k, o[k as keyof typeof o]])),
@@ -448,12 +390,7 @@ export function createWorkOrdersService(options: {
           by: ctx.user.name,
         });
       }
-      if (
-        next === 'done' &&
-        o.state !== 'done' &&
-        o.createdBy !== null &&
-        o.createdBy !== ctx.user.id
-      ) {
+      if (next === 'done' && o.createdBy !== null && o.createdBy !== ctx.user.id) {
         notifier.workOrderDone({
           order: forMail(after),
           creatorId: o.createdBy,
