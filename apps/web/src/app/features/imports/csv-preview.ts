@@ -3,13 +3,15 @@ import {
   detectDecimalMark,
   detectDelimiter,
   LINE_ENDINGS,
+  type DecimalMark,
   type Delimiter,
+  type TimestampFormat,
 } from '@tierscope/domain';
 import { parse } from 'csv-parse/browser/esm/sync';
 
 export interface CsvPreview {
   delimiter: Delimiter;
-  decimal: '.' | ',';
+  decimal: DecimalMark;
   /** the first line's cells (used as column names when the file has a header) */
   firstLine: string[];
   /** up to 10 lines after the first */
@@ -79,7 +81,7 @@ export function guessLongMapping(
 }
 
 /** The date order of sample timestamps: ISO when they start with a year, else day-first unless a month > 12 appears first. */
-export function guessTimestampFormat(cells: readonly string[]): 'iso' | 'dmy' | 'mdy' | 'ymd' {
+export function guessTimestampFormat(cells: readonly string[]): TimestampFormat {
   const sample = cells.filter((c) => c.trim() !== '').slice(0, 20);
   if (sample.every((c) => /^\d{4}-\d{2}-\d{2}[T ]\d{2}:\d{2}/.test(c.trim()))) return 'iso';
   if (sample.every((c) => /^\d{4}[./-]\d{1,2}[./-]\d{1,2}/.test(c.trim()))) return 'ymd';

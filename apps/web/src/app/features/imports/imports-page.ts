@@ -33,19 +33,25 @@ import {
   type SavedMapping,
   endpoints,
 } from '@tierscope/contracts';
-import { can, type Delimiter } from '@tierscope/domain';
-import { startWith } from 'rxjs';
+import { can } from '@tierscope/domain';
+import { map, startWith } from 'rxjs';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
 import { FarmSelect } from '../../shared/ui/farm-select';
 import { LoadState, listState } from '../../shared/ui/load-state';
-import { guessLongMapping, guessTimestampFormat, previewCsv, type CsvPreview } from './csv-preview';
+import { previewCsv, type CsvPreview } from './csv-preview';
 import { ImportProgress } from './import-progress';
+import {
+  columnsOf,
+  formOfMapping,
+  guessesFor,
+  mappingOf,
+  roleOfColumn,
+  type MappingFormValue,
+} from './import-mapping-form';
 import { ApiClient } from '../../core/http/api-client';
 
 const SAMPLE_BYTES = 64 * 1024;
-
-type WideColumn = Extract<ImportMappingInput, { layout: 'wide' }>['columns'][number];
 
 /** Integrators bring counter exports: choose a file, map its columns against a preview, import, watch. */
 @Component({
@@ -105,23 +111,27 @@ export class ImportsPage {
   protected readonly file = signal<File | null>(null);
   private readonly sample = signal<{ text: string; isWholeFile: boolean } | null>(null);
   protected readonly form = this.fb.group({
-    layout: this.fb.control<'long' | 'wide'>('long'),
-    delimiter: this.fb.control<Delimiter | 'auto'>('auto'),
-    decimal: this.fb.control<'.' | ','>('.'),
+    layout: this.fb.control<MappingFormValue['layout']>('long'),
+    delimiter: this.fb.control<MappingFormValue['delimiter']>('auto'),
+    decimal: this.fb.control<MappingFormValue['decimal']>('.'),
     hasHeader: this.fb.control(true),
     timestamp: this.fb.control<ColumnRef | null>(null),
-    timestampFormat: this.fb.control<'iso' | 'dmy' | 'mdy' | 'ymd'>('iso'),
+    timestampFormat: this.fb.control<MappingFormValue['timestampFormat']>('iso'),
     timezone: this.fb.control(''),
-    sectionBy: this.fb.control<'rowTier' | 'counter'>('rowTier'),
+    sectionBy: this.fb.control<MappingFormValue['sectionBy']>('rowTier'),
     counter: this.fb.control<ColumnRef | null>(null),
     row: this.fb.control<ColumnRef | null>(null),
     tier: this.fb.control<ColumnRef | null>(null),
     eggs: this.fb.control<ColumnRef | null>(null),
-    mode: this.fb.control<'interval' | 'total'>('interval'),
+    mode: this.fb.control<MappingFormValue['mode']>('interval'),
     wide: new FormArray<FormControl<string>>([]),
   });
+  /** The form's whole value as a signal, so the preview and its column chips follow every change. */
   private readonly formValue = toSignal(
-    this.form.valueChanges.pipe(startWith(this.form.getRawValue())),
+    this.form.valueChanges.pipe(
+      map((): MappingFormValue => this.form.getRawValue()),
+      startWith(this.form.getRawValue()),
+    ),
     { requireSync: true },
   );
   protected readonly preview = computed<CsvPreview | null>(() => {
@@ -140,17 +150,9 @@ export class ImportsPage {
     }
   });
   /** The file's columns as the mapping names them: by header name, or by number without a header. */
-  protected readonly columns = computed(() => {
-    const p = this.preview();
-    if (!p) return [] as { ref: ColumnRef; label: string }[];
-    const hasHeader = this.formValue().hasHeader ?? true;
-    return Array.from({ length: p.columnCount }, (_, i): { ref: ColumnRef; label: string } => {
-      const name = p.firstLine[i]?.trim() ?? '';
-      return hasHeader && name !== ''
-        ? { ref: name, label: name }
-        : { ref: i + 1, label: `Column ${i + 1}` };
-    });
-  });
+  protected readonly columns = computed(() =>
+    columnsOf(this.preview(), this.formValue().hasHeader),
+  );
   protected readonly previewLines = computed(() => {
     const p = this.preview();
     if (!p) return [];
@@ -204,24 +206,17 @@ export class ImportsPage {
     if (this.guessedFor?.firstLine.join('\u0001') === p.firstLine.join('\u0001')) return;
     this.guessedFor = p;
     const c = this.form.controls;
-    c.decimal.setValue(p.decimal);
-    const guess = guessLongMapping(p.firstLine, c.timezone.value);
-    const tsIndex = typeof guess.timestamp === 'string' ? p.firstLine.indexOf(guess.timestamp) : 0;
-    c.timestampFormat.setValue(guessTimestampFormat(p.lines.map((l) => l[tsIndex] ?? '')));
-    c.timestamp.setValue(guess.timestamp ?? null);
-    c.eggs.setValue(guess.eggs ?? null);
-    c.row.setValue(guess.row ?? null);
-    c.tier.setValue(guess.tier ?? null);
-    c.counter.setValue(guess.counter ?? null);
-    c.sectionBy.setValue(guess.counter !== undefined ? 'counter' : 'rowTier');
-    // Wide files name their counters in the header: map the columns that do.
     const known = new Set((this.counters.value() ?? []).map((k) => k.externalId));
-    const wide = p.firstLine.map((name) =>
-      known.has(name.trim()) ? `counter:${name.trim()}` : 'skip',
-    );
-    if (wide.filter((w) => w !== 'skip').length >= 2) c.layout.setValue('wide');
-    c.wide.clear();
-    for (const w of wide) c.wide.push(new FormControl(w, { nonNullable: true }));
+    const { layout, wide, ...guessed } = guessesFor(p, c.timezone.value, known);
+    this.form.patchValue(guessed);
+    if (layout) c.layout.setValue(layout);
+    this.setWide(wide);
+  }
+
+  private setWide(targets: readonly string[]): void {
+    const wide = this.form.controls.wide;
+    wide.clear();
+    for (const w of targets) wide.push(new FormControl(w, { nonNullable: true }));
   }
 
   protected async chooseFile(event: Event): Promise<void> {
@@ -240,89 +235,20 @@ export class ImportsPage {
   }
 
   protected useSaved(mapping: SavedMapping): void {
-    const m = mapping.mapping;
-    const c = this.form.controls;
-    c.layout.setValue(m.layout);
-    c.delimiter.setValue(m.delimiter ?? 'auto');
-    c.decimal.setValue(m.decimal);
-    c.hasHeader.setValue(m.hasHeader);
-    c.timestamp.setValue(m.timestamp);
-    c.timestampFormat.setValue(m.timestampFormat);
-    c.timezone.setValue(m.timezone);
-    c.mode.setValue(m.mode);
-    if (m.layout === 'long') {
-      c.sectionBy.setValue(m.counter !== undefined ? 'counter' : 'rowTier');
-      c.counter.setValue(m.counter ?? null);
-      c.row.setValue(m.row ?? null);
-      c.tier.setValue(m.tier ?? null);
-      c.eggs.setValue(m.eggs);
-    } else {
-      const byColumn = new Map(
-        m.columns.map((col) => [
-          String(col.column),
-          col.counter !== undefined
-            ? `counter:${col.counter}`
-            : `section:${col.row ?? 0}:${col.tier ?? 0}`,
-        ]),
-      );
-      c.wide.controls.forEach((control, i) => {
-        const ref = this.columns()[i]?.ref;
-        control.setValue(byColumn.get(String(ref)) ?? 'skip');
-      });
-    }
+    const { wide, ...values } = formOfMapping(mapping.mapping, this.columns());
+    this.form.patchValue(values);
+    if (wide) this.setWide(wide);
     this.snackBar.open(`Mapping "${mapping.name}" applied`, undefined, { duration: 2000 });
   }
 
   /** The mapping as the API takes it, from the form. */
   protected mapping(): ImportMappingInput {
-    const v = this.form.getRawValue();
-    const common = {
-      ...(v.delimiter === 'auto' ? {} : { delimiter: v.delimiter }),
-      decimal: v.decimal,
-      hasHeader: v.hasHeader,
-      timestamp: v.timestamp ?? '',
-      timestampFormat: v.timestampFormat,
-      timezone: v.timezone,
-      mode: v.mode,
-    };
-    if (v.layout === 'wide') {
-      return {
-        layout: 'wide',
-        ...common,
-        columns: v.wide.flatMap((target, i): WideColumn[] => {
-          const ref = this.columns()[i]?.ref;
-          if (target === 'skip' || ref === undefined) return [];
-          if (target.startsWith('counter:')) return [{ column: ref, counter: target.slice(8) }];
-          const [, row = 0, tier = 0] = target.split(':').map(Number);
-          return [{ column: ref, row, tier }];
-        }),
-      };
-    }
-    return {
-      layout: 'long',
-      ...common,
-      eggs: v.eggs ?? '',
-      ...(v.sectionBy === 'counter'
-        ? { counter: v.counter ?? '' }
-        : { row: v.row ?? '', tier: v.tier ?? '' }),
-    };
+    return mappingOf(this.form.getRawValue(), this.columns());
   }
 
   /** Where a column goes, for the preview's header chips. */
   protected roleOf(index: number): string | null {
-    const v = this.formValue();
-    const ref = this.columns()[index]?.ref;
-    if (ref === undefined) return null;
-    if (v.timestamp === ref) return 'time';
-    if (v.layout === 'wide') {
-      const target = v.wide?.[index];
-      return target && target !== 'skip' ? target.replace('counter:', '') : null;
-    }
-    if (v.eggs === ref) return v.mode === 'total' ? 'total' : 'eggs';
-    if (v.sectionBy === 'counter' && v.counter === ref) return 'counter';
-    if (v.sectionBy === 'rowTier' && v.row === ref) return 'row';
-    if (v.sectionBy === 'rowTier' && v.tier === ref) return 'tier';
-    return null;
+    return roleOfColumn(this.formValue(), this.columns(), index);
   }
 
   protected async start(): Promise<void> {
