@@ -1,3 +1,8 @@
+/**
+ * The live WebSocket: sign-in by first message, per-house subscriptions checked against the user's farms,
+ * throttled frames, heartbeats, back-pressure and close codes. One file (a little over ~350 lines) because it
+ * is one connection's life from upgrade to close; the frames' content comes from the house map service.
+ */
 import type { IncomingMessage, Server } from 'node:http';
 import type { Duplex } from 'node:stream';
 import { LIVE_CLOSE, liveClientMessageSchema, type LiveServerMessage } from '@tierscope/contracts';

@@ -1,3 +1,11 @@
+/**
+ * The engine's evaluation cycle of one house: read what is due (judgeDue, measure), decide with libs/domain
+ * (the judgements and `planExceptionChanges`) and save it in one transaction (apply); live every few seconds
+ * (evaluateNow) or replayed over past days (evaluateHistory). Longer than our ~350 lines on purpose: the steps
+ * share one evaluation's engine state (what was judged, each spot's CUSUM, the data-late rules), and split
+ * apart they would pass it around by hand. What is not the cycle lives beside it: house-baseline.ts (past
+ * days and their caches), house-map.service.ts (the read models), the *.repository.ts files (storage).
+ */
 import type { Database, Queryable } from '@tierscope/db';
 import {
   addDays,
@@ -32,23 +40,27 @@ import {
   beltHorizons,
   collectorTotal,
   counterEggsInHours,
+  sectionStageCounts,
+  counterEggsSince,
+  hensAlive,
+  houseLayout,
+  sectionDays,
+  sectionEggsBetween,
+} from './evaluation.repository';
+import { type ExceptionRow } from './exception-rows.repository';
+import {
+  exceptionsOpenAt,
+  exceptionsOverlapping,
+  openException,
+  updateException,
+} from './exception-rows.repository';
+import {
   readEngine,
   readEvaluation,
-  sectionStageCounts,
   writeEngine,
   writeEvaluation,
   type EngineState,
-  counterEggsSince,
-  exceptionsOpenAt,
-  exceptionsOverlapping,
-  hensAlive,
-  houseLayout,
-  openException,
-  sectionDays,
-  sectionEggsBetween,
-  updateException,
-  type ExceptionRow,
-} from './evaluation.repository';
+} from './evaluation-state.repository';
 import { recordAudit } from '../audit/audit.repository';
 import { createHouseBaseline, type Layout } from './house-baseline';
 import { createHouseMap, type HouseMapReader } from './house-map.service';

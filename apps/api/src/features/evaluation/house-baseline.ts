@@ -15,13 +15,9 @@ import {
   type SectionCounts,
 } from '@tierscope/domain';
 import type { EventBus } from '../../platform/events';
-import {
-  exceptionsOverlapping,
-  houseLayout,
-  sectionDays,
-  sectionStageCounts,
-  type ExceptionRow,
-} from './evaluation.repository';
+import { houseLayout, sectionDays, sectionStageCounts } from './evaluation.repository';
+import { type ExceptionRow } from './exception-rows.repository';
+import { exceptionsOverlapping } from './exception-rows.repository';
 
 export type Layout = NonNullable<Awaited<ReturnType<typeof houseLayout>>>;
 

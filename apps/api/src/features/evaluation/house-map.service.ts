@@ -11,12 +11,12 @@ import {
 import {
   beltHorizons,
   collectorTotal,
-  exceptionsOverlapping,
   hensAlive,
   houseLayout,
   sectionHours,
   sectionTotals,
 } from './evaluation.repository';
+import { exceptionsOverlapping } from './exception-rows.repository';
 import { counts, coveredSections, type HouseBaseline } from './house-baseline';
 
 /** A section whose data is this far behind its house's newest is shown as late on the map. */

@@ -8,7 +8,7 @@ import { seedFixture, type Fixture } from '../../testing/fixtures';
 import { bearerFor, gatewayKeyFor, postReadings } from '../../testing/sign-in';
 import { createTestApp, createTestRuntime } from '../../testing/test-app';
 import { countersOfHouse } from '../houses/houses.repository';
-import { readEvaluation } from './evaluation.repository';
+import { readEvaluation } from './evaluation-state.repository';
 
 /**
  * One cause, one alarm, on the real database: a dead belt counter is a silent counter only (no shortfall of

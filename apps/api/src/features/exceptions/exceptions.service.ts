@@ -13,12 +13,12 @@ import type { RequestContext } from '../../platform/auth';
 import { AppError, notFound } from '../../platform/errors';
 import type { EventBus } from '../../platform/events';
 import { recordAudit } from '../audit/audit.repository';
+import { type ExceptionRow } from '../evaluation/exception-rows.repository';
 import {
   findException,
   listExceptions,
   updateException,
-  type ExceptionRow,
-} from '../evaluation/evaluation.repository';
+} from '../evaluation/exception-rows.repository';
 import type { EvaluationService } from '../evaluation/evaluation.service';
 import { findHouse } from '../houses/houses.repository';
 

@@ -1,15 +1,12 @@
+/**
+ * Runs imports in the background under a lease: claims one, streams its file through csv-parse, saves readings
+ * in batches (each counted once), reports progress and line errors, and resumes a job whose process died.
+ * Reading the columns and lines is in import-columns.ts; storage in imports.repository.ts.
+ */
 import { randomUUID } from 'node:crypto';
-import type { Readable } from 'node:stream';
 import { importMappingSchema, type ImportMapping } from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
-import {
-  detectDelimiter,
-  stepFromTotals,
-  LINE_ENDINGS,
-  parseCount,
-  parseTimestamp,
-  type DecimalMark,
-} from '@tierscope/domain';
+import { detectDelimiter, stepFromTotals, LINE_ENDINGS, type DecimalMark } from '@tierscope/domain';
 import { parse, type Info } from 'csv-parse';
 import type { EventBus } from '../../platform/events';
 import { withLease } from '../../platform/leases';
@@ -26,6 +23,14 @@ import {
   updateImport,
   type ImportRow,
 } from './imports.repository';
+import {
+  MappingProblem,
+  readSample,
+  readingsOf,
+  resolveColumns,
+  type LineError,
+  type Resolved,
+} from './import-columns';
 
 /** Errors kept per import (all are counted; the CSV download holds these). */
 export const MAX_STORED_ERRORS = 10_000;
@@ -35,15 +40,6 @@ export const IMPORT_LEASE_MS = 15_000;
 const REPORT_MS = 500;
 
 class Cancelled extends Error {}
-
-/** A mapping problem that stops the whole import (a column that is not in the file, say). */
-class MappingProblem extends Error {}
-
-interface LineError {
-  line: number;
-  column: string | null;
-  message: string;
-}
 
 export interface ImportProgress {
   id: number;
@@ -374,163 +370,4 @@ export class ImportRunner {
       lastTs,
     };
   }
-}
-
-/** The first 64 KB of a file, to detect its delimiter. */
-async function readSample(stream: Readable): Promise<string> {
-  const chunks: Buffer[] = [];
-  for await (const chunk of stream) {
-    chunks.push(chunk as Buffer);
-  }
-  return Buffer.concat(chunks).toString('utf8');
-}
-
-type Counters = Awaited<ReturnType<typeof houseCounters>>;
-
-interface Resolved {
-  names: string[];
-  timestamp: number;
-  eggs: number | null;
-  counter: number | null;
-  row: number | null;
-  tier: number | null;
-  wide: { index: number; counterId: number }[];
-}
-
-function resolveColumns(
-  mapping: ImportMapping,
-  header: string[] | null,
-  counters: Counters,
-): Resolved {
-  const names = header?.map((h) => h.trim()) ?? [];
-  const find = (ref: string | number, what: string): number => {
-    if (typeof ref === 'number') return ref - 1;
-    if (!header)
-      throw new MappingProblem(`The file has no header line, so ${what} must be a column number`);
-    const index = names.findIndex((n) => n.toLowerCase() === ref.toLowerCase());
-    if (index < 0)
-      throw new MappingProblem(
-        `The ${what} column "${ref}" is not in the header (${names.join(', ')})`,
-      );
-    return index;
-  };
-  if (mapping.layout === 'long') {
-    return {
-      names,
-      timestamp: find(mapping.timestamp, 'timestamp'),
-      eggs: find(mapping.eggs, 'count'),
-      counter: mapping.counter !== undefined ? find(mapping.counter, 'counter') : null,
-      row: mapping.row !== undefined ? find(mapping.row, 'row') : null,
-      tier: mapping.tier !== undefined ? find(mapping.tier, 'tier') : null,
-      wide: [],
-    };
-  }
-  return {
-    names,
-    timestamp: find(mapping.timestamp, 'timestamp'),
-    eggs: null,
-    counter: null,
-    row: null,
-    tier: null,
-    wide: mapping.columns.map((c) => {
-      const counterId =
-        c.counter !== undefined
-          ? counters.byExternalId.get(c.counter)
-          : counters.bySection.get(`${c.row ?? 0}:${c.tier ?? 0}`);
-      if (counterId === undefined) {
-        throw new MappingProblem(
-          c.counter !== undefined
-            ? `Counter "${c.counter}" is not a counter of this house`
-            : `Row ${c.row ?? '?'}, tier ${c.tier ?? '?'} is not a section of this house`,
-        );
-      }
-      return { index: find(c.column, 'count'), counterId };
-    }),
-  };
-}
-
-interface Reading {
-  counterId: number;
-  ts: Date;
-  value: number;
-  column: string | null;
-}
-
-/** The readings of one line, or its errors (reported, never thrown). */
-function readingsOf(
-  record: string[],
-  line: number,
-  columns: Resolved,
-  mapping: ImportMapping,
-  decimal: DecimalMark,
-  counters: Counters,
-  addError: (e: LineError) => void,
-): Reading[] {
-  const name = (index: number) => columns.names[index] ?? `column ${index + 1}`;
-  const cell = (index: number) => record[index];
-  const tsCell = cell(columns.timestamp);
-  if (tsCell === undefined) {
-    addError({
-      line,
-      column: name(columns.timestamp),
-      message: `the line has only ${record.length} columns`,
-    });
-    return [];
-  }
-  const ts = parseTimestamp(tsCell, mapping.timestampFormat, mapping.timezone);
-  if (!ts.ok) {
-    addError({ line, column: name(columns.timestamp), message: ts.message });
-    return [];
-  }
-  if (ts.value.getTime() > Date.now() + 5 * 60_000) {
-    addError({ line, column: name(columns.timestamp), message: `${tsCell} is in the future` });
-    return [];
-  }
-  if (mapping.layout === 'wide') {
-    const out: Reading[] = [];
-    for (const c of columns.wide) {
-      const text = cell(c.index);
-      if (text === undefined || text.trim() === '') continue; // no count for this counter at this time
-      const count = parseCount(text, decimal);
-      if (!count.ok) {
-        addError({ line, column: name(c.index), message: count.message });
-        continue;
-      }
-      out.push({ counterId: c.counterId, ts: ts.value, value: count.value, column: name(c.index) });
-    }
-    return out;
-  }
-  let counterId: number | undefined;
-  if (columns.counter !== null) {
-    const id = cell(columns.counter)?.trim() ?? '';
-    counterId = counters.byExternalId.get(id);
-    if (counterId === undefined) {
-      addError({
-        line,
-        column: name(columns.counter),
-        message: `"${id}" is not a counter of this house`,
-      });
-      return [];
-    }
-  } else if (columns.row !== null && columns.tier !== null) {
-    const row = Number(cell(columns.row)?.trim());
-    const tier = Number(cell(columns.tier)?.trim());
-    counterId = counters.bySection.get(`${row}:${tier}`);
-    if (counterId === undefined) {
-      addError({
-        line,
-        column: `${name(columns.row)}/${name(columns.tier)}`,
-        message: `row ${cell(columns.row) ?? '?'}, tier ${cell(columns.tier) ?? '?'} is not a section of this house`,
-      });
-      return [];
-    }
-  }
-  if (counterId === undefined || columns.eggs === null) return [];
-  const eggsCell = cell(columns.eggs);
-  const count = parseCount(eggsCell ?? '', decimal);
-  if (!count.ok) {
-    addError({ line, column: name(columns.eggs), message: count.message });
-    return [];
-  }
-  return [{ counterId, ts: ts.value, value: count.value, column: name(columns.eggs) }];
 }

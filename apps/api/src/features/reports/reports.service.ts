@@ -9,7 +9,8 @@ import { henDayProductionPct, lostValue, productionWindow, toCsv } from '@tiersc
 import { requireFarmPermission } from '../../platform/access';
 import type { RequestContext } from '../../platform/auth';
 import { notFound } from '../../platform/errors';
-import { hensAlive, listExceptions } from '../evaluation/evaluation.repository';
+import { hensAlive } from '../evaluation/evaluation.repository';
+import { listExceptions } from '../evaluation/exception-rows.repository';
 import type { EvaluationService } from '../evaluation/evaluation.service';
 import { toExceptionView } from '../exceptions/exceptions.service';
 import { farmDays, farmLosses, farmWithHouses, houseWithFarm } from './reports.repository';

@@ -1,3 +1,8 @@
+/**
+ * Work orders: who may see and change which (role and farm checks), creating from an exception, updating by
+ * the pure plan in libs/domain (`planWorkOrderUpdate`), checklist and photos, and the mails each change sends.
+ * Views (summary, CSV, mail facts) are in work-order-views.ts; photo storage in work-order-photos.ts.
+ */
 import { resolve } from 'node:path';
 import type {
   Assignee,
@@ -11,21 +16,17 @@ import type { Database } from '@tierscope/db';
 import {
   allowedTransitions,
   planWorkOrderUpdate,
-  calendarDayOf,
   can,
-  isOverdue,
   likelyChecks,
   measuredWords,
-  toCsv,
   FINDING_CAUSE_LABELS,
-  WORK_ORDER_STATE_LABELS,
   type Role,
 } from '@tierscope/domain';
 import { farmsWith, requireFarmPermission } from '../../platform/access';
 import type { RequestContext } from '../../platform/auth';
 import { AppError, forbidden, notFound } from '../../platform/errors';
 import { recordAudit } from '../audit/audit.repository';
-import { findException } from '../evaluation/evaluation.repository';
+import { findException } from '../evaluation/exception-rows.repository';
 import type { ExceptionsService } from '../exceptions/exceptions.service';
 import { findHouse } from '../houses/houses.repository';
 import { spotWords } from '../notifications/mail-messages';
@@ -45,6 +46,7 @@ import {
   type NewWorkOrder,
 } from './work-orders.repository';
 import { photoBytes, readPhotos, storePhotos, type UploadedPhoto } from './work-order-photos';
+import { forMail, toSummary, workOrdersCsv, type Found } from './work-order-views';
 
 export interface WorkOrdersService {
   list(ctx: RequestContext, query: WorkOrdersQuery): Promise<WorkOrderSummary[]>;
@@ -67,8 +69,6 @@ export interface WorkOrdersService {
   assignees(ctx: RequestContext, farmId: number): Promise<Assignee[]>;
 }
 
-type Found = NonNullable<Awaited<ReturnType<typeof findWorkOrder>>>;
-
 export function createWorkOrdersService(options: {
   db: Database;
   notifier: Notifier;
@@ -77,36 +77,6 @@ export function createWorkOrdersService(options: {
 }): WorkOrdersService {
   const { db, notifier, exceptions } = options;
   const photosDir = resolve(options.photosDir);
-
-  function counts(text: string): { done: number; total: number } {
-    const [done, total] = text.split('/').map(Number);
-    return { done: done ?? 0, total: total ?? 0 };
-  }
-
-  function toSummary(r: Found): WorkOrderSummary {
-    const o = r.order;
-    const checklist = counts(r.checklist);
-    return {
-      id: o.id,
-      farmId: o.farmId,
-      farmName: r.farmName,
-      houseId: o.houseId,
-      houseName: r.houseName,
-      row: o.row,
-      tier: o.tier,
-      title: o.title,
-      priority: o.priority,
-      state: o.state,
-      assignee: o.assigneeId !== null ? { id: o.assigneeId, name: r.assigneeName ?? '' } : null,
-      dueOn: o.dueOn,
-      isOverdue: isOverdue(o, calendarDayOf(new Date(), r.timezone)),
-      exceptionId: o.exceptionId,
-      checklistDone: checklist.done,
-      checklistTotal: checklist.total,
-      createdAt: o.createdAt.toISOString(),
-      doneAt: o.doneAt?.toISOString() ?? null,
-    };
-  }
 
   /** The order when the caller may see it; another farm's is "not found", another crew member's is 403. */
   async function visible(ctx: RequestContext, id: number): Promise<{ row: Found; role: Role }> {
@@ -185,19 +155,6 @@ export function createWorkOrdersService(options: {
     }
   }
 
-  function forMail(row: Found) {
-    return {
-      id: row.order.id,
-      title: row.order.title,
-      farmName: row.farmName,
-      houseName: row.houseName,
-      row: row.order.row,
-      tier: row.order.tier,
-      priority: row.order.priority,
-      dueOn: row.order.dueOn,
-    };
-  }
-
   async function listFor(ctx: RequestContext, query: WorkOrdersQuery) {
     const allOfFarms = farmsWith(ctx, 'workOrders.manage');
     const ownOfFarms = farmsWith(ctx, 'workOrders.work').filter((f) => !allOfFarms.includes(f));
@@ -226,40 +183,7 @@ export function createWorkOrdersService(options: {
 
     async exportCsv(ctx, query) {
       const list = await listFor(ctx, query);
-      return toCsv(
-        [
-          'id',
-          'farm',
-          'house',
-          'row',
-          'tier',
-          'title',
-          'priority',
-          'state',
-          'assignee',
-          'due',
-          'overdue',
-          'checklist',
-          'created',
-          'done',
-        ],
-        list.map((o) => [
-          o.id,
-          o.farmName,
-          o.houseName,
-          o.row,
-          o.tier,
-          o.title,
-          o.priority,
-          WORK_ORDER_STATE_LABELS[o.state],
-          o.assignee?.name ?? '',
-          o.dueOn,
-          o.isOverdue ? 'yes' : 'no',
-          `${o.checklistDone} of ${o.checklistTotal}`,
-          o.createdAt,
-          o.doneAt,
-        ]),
-      );
+      return workOrdersCsv(list);
     },
 
     get: reread,
