@@ -45,7 +45,10 @@ export interface SchedulerOptions {
 export class EvaluationScheduler {
   private readonly lastRun = new Map<number, number>();
   private readonly pending = new Map<number, ReturnType<typeof setTimeout>>();
+  /** the last piece of work on each house in this process: the next one starts after it settles */
   private readonly running = new Map<number, Promise<void>>();
+  /** a live evaluation waiting its turn: later triggers join it (it reads what they stored) */
+  private readonly queued = new Map<number, Promise<void>>();
   /** history replays under way (their entry leaves `history` when they start) */
   private replaying = 0;
   private readonly replayingHouses = new Set<number>();
@@ -104,27 +107,44 @@ export class EvaluationScheduler {
     if (this.history.has(houseId) || this.replayingHouses.has(houseId)) return;
     // …also when another process waits to replay them (it evaluates today after its replay).
     if (await isReplayPendingElsewhere(this.db, houseId, this.holder)) return;
-    const previous = this.running.get(houseId);
-    if (previous) await previous;
-    this.lastRun.set(houseId, Date.now());
-    // One process of the cluster evaluates a house at a time; another one busy with it is waited for (its
-    // evaluation may have started before these readings landed), and after too long this one tries later.
-    const job = withLease(
-      this.db,
-      houseLease(houseId),
-      this.holder,
-      () => this.traced(houseId, 'live', () => this.evaluation.evaluateNow(houseId)),
-      { waitMs: LEASE_WAIT_MS },
-    )
-      .then((outcome) => {
-        if (!outcome.ran) this.schedule(houseId);
-      })
-      .catch((error: unknown) => {
-        this.log(`evaluation of house ${houseId} failed`, error);
-      });
-    this.running.set(houseId, job);
+    const waiting = this.queued.get(houseId);
+    if (waiting) return waiting;
+    // One process of the cluster evaluates a house at a time (the lease; another one busy with it is waited
+    // for, and after too long this one tries later), and this process one piece of work at a time (exclusive).
+    const job = this.exclusive(houseId, async () => {
+      this.queued.delete(houseId);
+      this.lastRun.set(houseId, Date.now());
+      const outcome = await withLease(
+        this.db,
+        houseLease(houseId),
+        this.holder,
+        () => this.traced(houseId, 'live', () => this.evaluation.evaluateNow(houseId)),
+        { waitMs: LEASE_WAIT_MS },
+      );
+      if (!outcome.ran) this.schedule(houseId);
+    }).catch((error: unknown) => {
+      this.log(`evaluation of house ${houseId} failed`, error);
+    });
+    this.queued.set(houseId, job);
     await job;
-    this.running.delete(houseId);
+  }
+
+  /**
+   * Runs work on a house after the work already started or waiting on it in this process, never beside it:
+   * the lease keeps other processes out, but would let this process's own second caller in.
+   */
+  private exclusive<T>(houseId: number, work: () => Promise<T>): Promise<T> {
+    const previous = this.running.get(houseId) ?? Promise.resolve();
+    const job = previous.then(work);
+    const settled = job.then(
+      () => undefined,
+      () => undefined,
+    );
+    this.running.set(houseId, settled);
+    void settled.then(() => {
+      if (this.running.get(houseId) === settled) this.running.delete(houseId);
+    });
+    return job;
   }
 
   private scheduleHistory(houseId: number, firstTs: Date, maxDays: number): void {
@@ -146,8 +166,6 @@ export class EvaluationScheduler {
     this.replaying += 1;
     this.replayingHouses.add(houseId);
     this.markReplay(houseId);
-    const previous = this.running.get(houseId);
-    if (previous) await previous;
     try {
       const house = await findHouse(this.db, houseId);
       if (!house) return;
@@ -156,15 +174,17 @@ export class EvaluationScheduler {
       if (firstDay > today) return;
       const start =
         firstDay < addDays(today, -entry.maxDays) ? addDays(today, -entry.maxDays) : firstDay;
-      const outcome = await withLease(
-        this.db,
-        houseLease(houseId),
-        this.holder,
-        () =>
-          this.traced(houseId, `days ${start}..${today}`, () =>
-            this.evaluation.evaluateHistory(houseId, start, today),
-          ),
-        { waitMs: LEASE_WAIT_MS },
+      const outcome = await this.exclusive(houseId, () =>
+        withLease(
+          this.db,
+          houseLease(houseId),
+          this.holder,
+          () =>
+            this.traced(houseId, `days ${start}..${today}`, () =>
+              this.evaluation.evaluateHistory(houseId, start, today),
+            ),
+          { waitMs: LEASE_WAIT_MS },
+        ),
       );
       if (!outcome.ran) {
         this.scheduleHistory(houseId, entry.firstTs, entry.maxDays);
