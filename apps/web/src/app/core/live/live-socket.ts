@@ -1,7 +1,8 @@
-import { inject, Injectable, signal, untracked } from '@angular/core';
+import { effect, inject, Injectable, signal, untracked, type Signal } from '@angular/core';
 import {
   LIVE_CLOSE,
   liveServerMessageSchema,
+  type HouseMap,
   type LiveClientMessage,
   type LiveServerMessage,
 } from '@tierscope/contracts';
@@ -84,6 +85,38 @@ export class LiveSocket {
 
   private send(message: LiveClientMessage): void {
     this.socket?.next(message);
+  }
+
+  /**
+   * The one seam between the socket and the screens: follows the house `houseId()` names (none while it is
+   * null) for as long as the calling component lives, and gives its map and any error the server sent as
+   * signals. Every message of the house also goes to `onMessage`, in order (exceptions, imports). Call it in
+   * an injection context (a field initializer or constructor).
+   */
+  followHouse(
+    houseId: () => number | null,
+    onMessage?: (message: LiveServerMessage) => void,
+  ): { map: Signal<HouseMap | null>; error: Signal<string | null> } {
+    const map = signal<HouseMap | null>(null);
+    const error = signal<string | null>(null);
+    effect((onCleanup) => {
+      const id = houseId();
+      // Only the house id is a dependency: the socket's own signals must not restart the subscription.
+      untracked(() => {
+        map.set(null);
+        error.set(null);
+        if (id === null) return;
+        const subscription = this.watchHouse(id).subscribe((message) => {
+          if (message.type === 'snapshot' || message.type === 'frame') map.set(message.map);
+          if (message.type === 'error') error.set(message.message);
+          onMessage?.(message);
+        });
+        onCleanup(() => {
+          subscription.unsubscribe();
+        });
+      });
+    });
+    return { map: map.asReadonly(), error: error.asReadonly() };
   }
 
   /** Snapshot, frames and exception events of one house, for as long as the subscription lasts. */

@@ -1,14 +1,4 @@
-import {
-  ChangeDetectionStrategy,
-  Component,
-  computed,
-  effect,
-  inject,
-  input,
-  numberAttribute,
-  signal,
-  untracked,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, numberAttribute, signal } from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
@@ -16,7 +6,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
-import { type ExceptionView, type HouseMap, endpoints } from '@tierscope/contracts';
+import { type ExceptionView, endpoints } from '@tierscope/contracts';
 import { measuredWords, type WindowKind } from '@tierscope/domain';
 import { describeApiError } from '../../core/http/api-error';
 import { LiveSocket } from '../../core/live/live-socket';
@@ -59,9 +49,20 @@ export class HouseLivePage {
   protected readonly connection = this.live.state;
   protected readonly lastMessageAt = this.live.lastMessageAt;
 
-  private readonly liveMap = signal<HouseMap | null>(null);
+  // Follow the house live while the page is open; the socket resubscribes by itself after a reconnect.
+  private readonly following = this.live.followHouse(
+    () => this.houseId(),
+    (message) => {
+      // The message carries the exception as it now is: the list follows it without a new read.
+      if (message.type === 'exception') {
+        const changed = message.exception;
+        this.exceptions.update((list) => withLiveException(list ?? [], changed));
+      }
+    },
+  );
+  private readonly liveMap = this.following.map;
   /** What the live socket said is wrong with watching this house (not found, or not yours). */
-  private readonly liveError = signal<string | null>(null);
+  private readonly liveError = this.following.error;
   // Today's map arrives over the socket (a snapshot, then frames): it is read over HTTP only when the socket
   // has not delivered one and is reconnecting. Past windows are read over HTTP.
   protected readonly fetched = this.api.resource(endpoints.exceptions.houseMap, () => {
@@ -126,31 +127,6 @@ export class HouseLivePage {
       (e) => e.scope === 'house' || e.scope === 'row' || e.scope === 'tier',
     ),
   );
-
-  constructor() {
-    // Follow the house live while the page is open; the socket resubscribes by itself after a reconnect.
-    effect((onCleanup) => {
-      const houseId = this.houseId();
-      // Only the house id is a dependency: the socket's own signals must not restart the subscription.
-      const subscription = untracked(() => {
-        this.liveMap.set(null);
-        this.liveError.set(null);
-        return this.live.watchHouse(houseId).subscribe((message) => {
-          if (message.type === 'snapshot' || message.type === 'frame')
-            this.liveMap.set(message.map);
-          if (message.type === 'error') this.liveError.set(message.message);
-          // The message carries the exception as it now is: the list follows it without a new read.
-          if (message.type === 'exception') {
-            const changed = message.exception;
-            this.exceptions.update((list) => withLiveException(list ?? [], changed));
-          }
-        });
-      });
-      onCleanup(() => {
-        subscription.unsubscribe();
-      });
-    });
-  }
 
   protected setWindow(kind: WindowKind): void {
     this.windowKind.set(kind);

@@ -79,30 +79,31 @@ export class ImportProgress {
   protected readonly errorColumns = ['line', 'column', 'message'];
 
   constructor() {
+    // Live messages of its house while it runs (the socket's one seam, core/live).
+    this.live.followHouse(
+      () => (this.isEnded() ? null : this.status().houseId),
+      (message) => {
+        if (message.type !== 'import' || message.import.id !== untracked(this.status).id) return;
+        this.track({ ...untracked(this.now), ...message.import });
+      },
+    );
     const destroyRef = inject(DestroyRef);
-    let liveSubscription: Subscription | null = null;
     let pollSubscription: Subscription | null = null;
     const stop = () => {
-      liveSubscription?.unsubscribe();
       pollSubscription?.unsubscribe();
-      liveSubscription = null;
       pollSubscription = null;
     };
     destroyRef.onDestroy(() => {
       stop();
       this.poll?.unsubscribe();
     });
-    // Follow the import it was given: live messages of its house, and a slow read in case the socket is down.
+    // Follow the import it was given: a slow read too, in case the socket is down.
     effect(() => {
       const given = this.status();
       untracked(() => {
         stop();
         this.firstSeen = null;
         if (ENDED.has(given.state)) return;
-        liveSubscription = this.live.watchHouse(given.houseId).subscribe((message) => {
-          if (message.type !== 'import' || message.import.id !== given.id) return;
-          this.track({ ...this.now(), ...message.import });
-        });
         pollSubscription = interval(2000).subscribe(() => {
           void this.read(given.id);
         });
