@@ -1,6 +1,7 @@
 import { insertHouseWithLayout, schema } from '@tierscope/db';
 import { createTestDatabase } from '@tierscope/db/testing';
-import { ROLES, type Role } from '@tierscope/domain';
+import { can, ROLES, type Role } from '@tierscope/domain';
+import { endpoints, type Endpoint } from '@tierscope/contracts';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { insertGateway } from './features/gateways/gateways.repository';
@@ -579,4 +580,33 @@ describe('without a token', () => {
       expect(response.status).toBe(401);
     });
   }
+});
+
+describe('the permission each endpoint declares', () => {
+  it('is held by exactly the roles the matrix lets in on their own farm', () => {
+    // Per endpoint, every role some case of it lets in (anything but 403).
+    const letIn = new Map<string, Set<Role>>();
+    for (const route of ownFarmRoutes) {
+      const [method, path] = route.name.split(' ');
+      const key = `${method} ${path}`;
+      const roles = letIn.get(key) ?? new Set<Role>();
+      for (const role of ROLES) if (route.allowed[role] !== 403) roles.add(role);
+      letIn.set(key, roles);
+    }
+    const checked: string[] = [];
+    for (const feature of Object.values(endpoints)) {
+      for (const endpoint of Object.values(feature) as Endpoint[]) {
+        const key = `${endpoint.method.toUpperCase()} ${endpoint.path.replace(/:\w+/g, ':id')}`;
+        const seen = letIn.get(key);
+        if (!seen || endpoint.access === 'public' || endpoint.access === 'gateway') continue;
+        const declared = ROLES.filter((role) =>
+          endpoint.permission ? can(role, endpoint.permission) : true,
+        );
+        expect([...seen].sort(), key).toEqual([...declared].sort());
+        checked.push(key);
+      }
+    }
+    // The matrix reaches most endpoints; each it reaches is checked.
+    expect(checked.length).toBeGreaterThanOrEqual(28);
+  });
 });

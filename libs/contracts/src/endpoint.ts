@@ -1,3 +1,4 @@
+import type { Permission } from '@tierscope/domain';
 import type { z } from 'zod';
 
 /** The media types of answers a route sends as a file rather than JSON. */
@@ -15,6 +16,12 @@ export interface Endpoint {
   readonly summary: string;
   /** who may call it: anyone, a signed-in person (the default), or a farm's gateway key */
   readonly access?: 'public' | 'user' | 'gateway';
+  /**
+   * The permission a caller needs on the resource's farm (the roles holding it are listed in the document);
+   * none: any signed-in user, who sees only their own farms. The service checks it on the farm it finds —
+   * another farm's resource is "not found" — and the authorisation matrix holds the two in step.
+   */
+  readonly permission?: Permission;
   readonly params?: z.ZodObject;
   readonly query?: z.ZodType;
   readonly body?: z.ZodType;

@@ -25,6 +25,7 @@ export const notificationsEndpoints = {
     path: '/dev/mailbox',
     summary:
       'What the local mail catcher caught (admins; only while it is the configured transport)',
+    permission: 'users.manage',
     answer: z.array(caughtMailSchema),
     errors: { 503: 'The local mail catcher is not answering' },
   }),

@@ -2,6 +2,7 @@ import { Router, type Request, type RequestHandler, type Response } from 'expres
 import { z } from 'zod';
 import type { ZodOpenApiOperationObject, ZodOpenApiPathsObject } from 'zod-openapi';
 import { apiErrorSchema, type Endpoint } from '@tierscope/contracts';
+import { can, ROLES, type Permission } from '@tierscope/domain';
 import { parseInput } from './errors';
 
 /**
@@ -92,6 +93,23 @@ const STANDARD_ERRORS: Record<number, string> = {
   404: 'Not found, or not on a farm of yours',
 };
 
+/** Who may call a route, in the document's words: the roles holding its permission, or any signed-in user. */
+function whoMayCall(
+  permission: Permission | undefined,
+  access: 'public' | 'user' | 'gateway',
+): Pick<ZodOpenApiOperationObject, 'description'> & { 'x-permission'?: Permission } {
+  if (permission) {
+    const roles = ROLES.filter((role) => can(role, permission)).join(', ');
+    return {
+      description: `Who may call it: ${roles} of the farm (permission \`${permission}\`).`,
+      'x-permission': permission,
+    };
+  }
+  return access === 'user'
+    ? { description: 'Any signed-in user; answers cover only their own farms.' }
+    : {};
+}
+
 /** The OpenAPI operations of declared routes mounted at `prefix` (e.g. `/api/v1`). */
 export function routeOperations(prefix: string, feature: DeclaredRoutes): ZodOpenApiPathsObject {
   const paths: ZodOpenApiPathsObject = {};
@@ -105,6 +123,7 @@ export function routeOperations(prefix: string, feature: DeclaredRoutes): ZodOpe
     const operation: ZodOpenApiOperationObject = {
       tags: [feature.tag],
       summary: r.summary,
+      ...whoMayCall(r.permission, access),
       ...(r.params || r.query
         ? {
             requestParams: {
