@@ -99,7 +99,24 @@ describe('the house live page', () => {
     expect(
       await flagged.evaluateAll((rows) => rows.map((r) => r.getAttribute('data-row'))),
     ).toEqual(['3', '3', '3']);
+    // The whole row is judged beside the cells, flagged with its exception; no other row is.
+    await page.locator('[data-line="row-3"][data-flagged="true"]').waitFor();
+    expect(await page.locator('[data-line^="row-"][data-flagged="true"]').count()).toBe(1);
     await screenshot(page, 'house-live-fault');
+    const phone = await harness.browser.newPage({ viewport: { width: 390, height: 900 } });
+    await signIn(phone, harness.baseUrl, 'manager@bramblewood.test');
+    await phone.waitForURL(/\/farms$/);
+    await phone.goto(page.url());
+    const errors: string[] = [];
+    phone.on('console', (m) => {
+      if (m.type() === 'error') errors.push(m.text());
+    });
+    await phone.locator('[data-line="row-3"][data-flagged="true"]').waitFor();
+    // The chart redraws once it knows its narrow width; give it that moment before the screenshot.
+    await phone.waitForTimeout(1000);
+    expect(errors).toEqual([]);
+    await screenshot(phone, 'house-live-fault-phone');
+    await phone.close();
 
     // A cell opens its detail with the likely checks of the row.
     const box = await page.locator('ts-house-heat-map canvas').first().boundingBox();

@@ -41,6 +41,25 @@ export const mapCellSchema = z.object({
 });
 export type MapCell = z.infer<typeof mapCellSchema>;
 
+/**
+ * A whole row or tier as the engine judged it: a row against the other rows, a tier's share of the house
+ * against its own recent share. A short tier hides in its cells (each is compared with its own tier), so the
+ * map shows these beside the cells.
+ */
+export const lineJudgementSchema = z.object({
+  /** the row or tier number */
+  at: z.number().int(),
+  eggs: z.number(),
+  expected: z.number(),
+  ratio: z.number(),
+  /** beyond the threshold and not chance */
+  isShort: z.boolean(),
+  /** the row or tier exception covering it in the window, if any */
+  exceptionId: z.number().int().nullable(),
+  exceptionStatus: z.enum(EXCEPTION_STATUSES).nullable(),
+});
+export type LineJudgement = z.infer<typeof lineJudgementSchema>;
+
 export const houseMapSchema = z.object({
   houseId: z.number().int(),
   farmId: z.number().int(),
@@ -57,6 +76,10 @@ export const houseMapSchema = z.object({
     isComplete: z.boolean(),
   }),
   cells: z.array(mapCellSchema),
+  /** each row against the other rows */
+  byRow: z.array(lineJudgementSchema),
+  /** each tier's share of the house against its own recent share */
+  byTier: z.array(lineJudgementSchema),
   belts: z.number().int(),
   collector: z.number().int(),
   henDayPct: z.number().nullable(),

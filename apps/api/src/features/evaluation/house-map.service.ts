@@ -1,4 +1,4 @@
-import type { CellDetail, HouseMap } from '@tierscope/contracts';
+import type { CellDetail, HouseMap, LineJudgement } from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
 import {
   addDays,
@@ -144,6 +144,32 @@ export function createHouseMap(db: Database, baseline: HouseBaseline): HouseMapR
             newest - (horizon?.getTime() ?? 0) > DATA_LATE_MAP_MS,
         };
       });
+      // Rows and tiers as the engine judged them, each with the exception that covers it in the window.
+      const lines = (scope: 'row' | 'tier'): LineJudgement[] =>
+        judged.candidates
+          .filter((c) => c.scope === scope)
+          .map((c) => {
+            const at = (scope === 'row' ? c.row : c.tier) ?? 0;
+            const covering = inWindow
+              .filter(
+                (e) =>
+                  e.kind === 'shortfall' &&
+                  e.scope === scope &&
+                  (scope === 'row' ? e.row : e.tier) === at &&
+                  (window.kind !== 'today' || e.status !== 'closed'),
+              )
+              .sort((a, b) => (a.status === 'closed' ? 1 : 0) - (b.status === 'closed' ? 1 : 0));
+            return {
+              at,
+              eggs: Math.round(c.eggs),
+              expected: Math.round(c.expected),
+              ratio: c.ratio,
+              isShort: c.isShort,
+              exceptionId: covering[0]?.id ?? null,
+              exceptionStatus: covering[0]?.status ?? null,
+            };
+          })
+          .sort((a, b) => a.at - b.at);
       const belts = current.reduce((n, s) => n + s.eggs, 0);
       const collector = await collectorTotal(
         db,
@@ -175,6 +201,8 @@ export function createHouseMap(db: Database, baseline: HouseBaseline): HouseMapR
           isComplete: window.isComplete,
         },
         cells,
+        byRow: lines('row'),
+        byTier: lines('tier'),
         belts,
         collector,
         henDayPct,

@@ -1,4 +1,15 @@
-import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
+import {
+  afterNextRender,
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  DestroyRef,
+  ElementRef,
+  inject,
+  input,
+  output,
+  signal,
+} from '@angular/core';
 import type { HouseMap, MapCell } from '@tierscope/contracts';
 import { houseTime } from '../../shared/ui/local-dates';
 import type { EChartsCoreOption } from 'echarts/core';
@@ -83,12 +94,38 @@ export class HouseHeatMap {
   readonly cellClick = output<{ row: number; tier: number }>();
 
   protected readonly height = computed(() => 90 + this.map().tiers * 78);
+  /** The map's own width: narrow cells (a phone) get short labels that fit inside them. */
+  private readonly width = signal(800);
+  private readonly isCompact = computed(
+    () => (this.width() - 80) / Math.max(1, this.map().rows) < 76,
+  );
+
+  constructor() {
+    const host = inject<ElementRef<HTMLElement>>(ElementRef);
+    const destroyRef = inject(DestroyRef);
+    afterNextRender(() => {
+      const observer = new ResizeObserver(([entry]) => {
+        if (entry) this.width.set(entry.contentRect.width);
+      });
+      observer.observe(host.nativeElement);
+      destroyRef.onDestroy(() => {
+        observer.disconnect();
+      });
+    });
+  }
 
   protected readonly options = computed((): EChartsCoreOption => {
     const map = this.map();
     const selected = this.selected();
-    const rows = Array.from({ length: map.rows }, (_, i) => `Row ${i + 1}`);
-    const tiers = Array.from({ length: map.tiers }, (_, i) => `Tier ${i + 1}`);
+    const compact = this.isCompact();
+    // Narrow: "R3" and "T2" so every row keeps its label, and the % alone in a cell (the count is in the
+    // tooltip, the cell detail and the table).
+    const rows = Array.from({ length: map.rows }, (_, i) =>
+      compact ? `R${i + 1}` : `Row ${i + 1}`,
+    );
+    const tiers = Array.from({ length: map.tiers }, (_, i) =>
+      compact ? `T${i + 1}` : `Tier ${i + 1}`,
+    );
     const data = map.cells.map((cell) => {
       const p = percent(cell);
       const isSelected = selected?.row === cell.row && selected.tier === cell.tier;
@@ -109,14 +146,16 @@ export class HouseHeatMap {
         label: {
           color: textOn(p),
           fontWeight: hasException ? 600 : 400,
-          formatter: `${hasException ? '▲ ' : ''}${cell.eggs === null ? 'no data' : cell.eggs.toLocaleString()}\n${p === null ? '—' : `${p} %`}${cell.isDataLate ? '\ndata late' : ''}`,
+          formatter: compact
+            ? `${hasException ? '▲\n' : ''}${p === null ? '—' : `${p} %`}${cell.isDataLate ? '\nlate' : ''}`
+            : `${hasException ? '▲ ' : ''}${cell.eggs === null ? 'no data' : cell.eggs.toLocaleString()}\n${p === null ? '—' : `${p} %`}${cell.isDataLate ? '\ndata late' : ''}`,
         },
       };
     });
     return {
       animation: false,
       textStyle: { fontFamily: 'IBM Plex Sans' },
-      grid: { left: 64, right: 16, top: 8, bottom: 64 },
+      grid: { left: compact ? 32 : 64, right: compact ? 8 : 16, top: 8, bottom: 64 },
       tooltip: {
         formatter: (params: { data: { cell: MapCell } }) => {
           const c = params.data.cell;
@@ -133,6 +172,7 @@ export class HouseHeatMap {
         data: rows,
         splitArea: { show: false },
         axisTick: { show: false },
+        axisLabel: { interval: 0 },
       },
       yAxis: { type: 'category', data: tiers, axisTick: { show: false } },
       visualMap: {
@@ -144,13 +184,19 @@ export class HouseHeatMap {
         orient: 'horizontal',
         left: 'center',
         bottom: 4,
-        itemHeight: 220,
-        text: ['110 % of expected', '70 %'],
+        itemHeight: compact ? Math.max(120, this.width() - 150) : 220,
+        text: [compact ? '110 %' : '110 % of expected', '70 %'],
         calculable: false,
         inRange: { color: RATIO_SCALE },
         outOfRange: { color: NO_DATA_COLOR },
       },
-      series: [{ type: 'heatmap', data, label: { show: true, fontSize: 13, lineHeight: 18 } }],
+      series: [
+        {
+          type: 'heatmap',
+          data,
+          label: { show: true, fontSize: compact ? 12 : 13, lineHeight: compact ? 16 : 18 },
+        },
+      ],
     };
   });
 

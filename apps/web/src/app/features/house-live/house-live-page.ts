@@ -22,6 +22,7 @@ import { LoadState, type LoadStatus } from '../../shared/ui/load-state';
 import { houseTime } from '../../shared/ui/local-dates';
 import { CellDetail } from './cell-detail';
 import { HouseHeatMap } from './house-heat-map';
+import { LineJudgements } from './line-judgements';
 import { ApiClient } from '../../core/http/api-client';
 
 /** A house live: the rows × tiers map over the live socket, a window picker, and a cell's detail. */
@@ -37,6 +38,7 @@ import { ApiClient } from '../../core/http/api-client';
     MatInputModule,
     LoadState,
     HouseHeatMap,
+    LineJudgements,
     CellDetail,
   ],
   templateUrl: './house-live-page.html',
