@@ -137,7 +137,7 @@ describe('the house live page', () => {
     await page.getByRole('table', { name: 'Exceptions' }).waitFor();
     const row = page.getByRole('row').filter({ hasText: 'Row 3 (all tiers)' });
     await row.getByRole('button', { name: 'Acknowledge' }).click();
-    await row.getByText('acknowledged').waitFor();
+    await row.getByText('Acknowledged by Morgan Manager').waitFor();
     await screenshot(page, 'exceptions');
     await page.close();
   });

@@ -88,6 +88,13 @@ export const houseMapSchema = z.object({
 });
 export type HouseMap = z.infer<typeof houseMapSchema>;
 
+/** What an exception measured at one moment: eggs against expected. */
+export const exceptionMeasureSchema = z.object({
+  eggs: z.number(),
+  expected: z.number(),
+  ratio: z.number(),
+});
+
 export const exceptionSchema = z.object({
   id: z.number().int(),
   farmId: z.number().int(),
@@ -106,6 +113,8 @@ export const exceptionSchema = z.object({
   ratio: z.number(),
   pValue: z.number(),
   worstRatio: z.number(),
+  /** what it measured when it opened (eggs, expected, ratio); null for exceptions kept from before */
+  atOpen: exceptionMeasureSchema.nullable(),
   eggsLost: z.number().int(),
   eggsLostValue: z.number().nullable(),
   likelyChecks: z.array(z.string()),

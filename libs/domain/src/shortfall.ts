@@ -34,6 +34,22 @@ export const PERSON_CLOSE_REASONS = ['normal_for_spot', 'fixed', 'false_alarm', 
 export const CLOSE_REASONS = ['recovered', ...PERSON_CLOSE_REASONS] as const;
 export type CloseReason = (typeof CLOSE_REASONS)[number];
 
+/** A status in words, the same on every screen. */
+export const EXCEPTION_STATUS_LABELS: Record<ExceptionStatus, string> = {
+  open: 'Open',
+  acknowledged: 'Acknowledged',
+  closed: 'Closed',
+};
+
+/** Why it closed, in words. */
+export const CLOSE_REASON_WORDS: Record<CloseReason, string> = {
+  recovered: 'recovered by itself',
+  fixed: 'fixed',
+  normal_for_spot: 'normal for this spot',
+  false_alarm: 'false alarm',
+  other: 'other',
+};
+
 export const sectionKey = (row: number, tier: number) => `${row}:${tier}`;
 
 export interface Verdict {

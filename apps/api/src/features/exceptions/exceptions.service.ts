@@ -1,3 +1,4 @@
+import { exceptionMeasureSchema } from '@tierscope/contracts';
 import type {
   CellDetail,
   CloseException,
@@ -54,6 +55,7 @@ export function toExceptionView(
     ratio: e.ratio,
     pValue: e.pValue,
     worstRatio: e.worstRatio,
+    atOpen: exceptionMeasureSchema.safeParse(e.atOpen).data ?? null,
     eggsLost: e.eggsLost,
     eggsLostValue: lostValue(e.eggsLost, extra.pricePerDozen),
     likelyChecks: likelyChecks(e.kind, e.scope),

@@ -23,7 +23,13 @@ import {
   endpoints,
 } from '@tierscope/contracts';
 import { firstValueFrom } from 'rxjs';
-import { EXCEPTION_KIND_LABELS, type ExceptionKind } from '@tierscope/domain';
+import {
+  CLOSE_REASON_WORDS,
+  EXCEPTION_KIND_LABELS,
+  EXCEPTION_STATUS_LABELS,
+  type CloseReason,
+  type ExceptionKind,
+} from '@tierscope/domain';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { listState, LoadState } from '../../shared/ui/load-state';
@@ -121,6 +127,16 @@ export class ExceptionsPage {
     if (e.scope === 'row') return `Row ${e.row} (all tiers)`;
     if (e.scope === 'tier') return `Tier ${e.tier} (all rows)`;
     return 'Whole house';
+  }
+
+  /** The status in words: who acknowledged it, why it closed. */
+  protected statusWords(e: ExceptionView): string {
+    const status = EXCEPTION_STATUS_LABELS[e.status];
+    if (e.status === 'acknowledged' && e.acknowledgedBy) return `${status} by ${e.acknowledgedBy}`;
+    const reason = e.closeReason as CloseReason | null;
+    return reason && reason in CLOSE_REASON_WORDS
+      ? `${status}: ${CLOSE_REASON_WORDS[reason]}`
+      : status;
   }
 
   protected what(e: ExceptionView): string {

@@ -19,6 +19,7 @@ const exception = (id: number, over: Partial<ExceptionView> = {}): ExceptionView
   ratio: 0.82,
   pValue: 1e-9,
   worstRatio: 0.82,
+  atOpen: { eggs: 820, expected: 1000, ratio: 0.82 },
   eggsLost: 180,
   eggsLostValue: null,
   likelyChecks: [],
