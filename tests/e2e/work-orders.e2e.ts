@@ -78,6 +78,11 @@ describe('a flagged row handed to the crew', () => {
     await page.getByText("site's own safety procedures").waitFor();
     expect(await page.getByRole('checkbox').count()).toBeGreaterThanOrEqual(2);
     await screenshot(page, 'work-order-2-opened');
+    // Back on the list, the exception links its work order instead of offering a second one.
+    await page.goto(`${harness.baseUrl}/exceptions`);
+    const listed = page.getByRole('row', { name: /House 2.*Row 4 \(all tiers\)/ });
+    await listed.getByRole('link', { name: `#${workOrderId}` }).waitFor();
+    expect(await listed.getByRole('button', { name: /Work order/ }).count()).toBe(0);
     await page.close();
 
     const assigned = await harness.mail.waitFor((m) =>

@@ -227,6 +227,9 @@ describe('working a work order', () => {
     expect(ticked.status).toBe(200);
     expect(ticked.body.checklist[0]).toMatchObject({ isChecked: true, checkedBy: 'crew of A' });
     expect(ticked.body.checklistDone).toBe(1);
+    // Ticking the first item of an open order starts it.
+    expect(ticked.body.state).toBe('in_progress');
+    expect(ticked.body.startedAt).not.toBeNull();
 
     const started = await request(app)
       .patch(`/api/v1/work-orders/${order.id}`)

@@ -334,6 +334,16 @@ export function createWorkOrdersService(options: {
           'This work order is finished: reopen it to change its checklist',
         );
       }
+      // Ticking an item of an open order is starting it: it moves to in progress, as the state machine allows.
+      const start =
+        isChecked && row.order.state === 'open'
+          ? planWorkOrderUpdate(
+              row.order,
+              { state: 'in_progress' },
+              { role, isAssignee: row.order.assigneeId === ctx.user.id },
+              new Date(),
+            )
+          : null;
       const isChanged = await db.transaction(async (tx) => {
         const found = await setChecklistItem(tx, id, itemId, isChecked, ctx.user.id);
         if (!found) return false;
@@ -345,6 +355,18 @@ export function createWorkOrdersService(options: {
           entityId: id,
           after: { itemId, isChecked },
         });
+        if (start && !('refused' in start)) {
+          await updateWorkOrder(tx, id, start.patch);
+          await recordAudit(tx, {
+            farmId: row.order.farmId,
+            actorUserId: ctx.user.id,
+            action: 'workOrder.in_progress',
+            entity: 'work_order',
+            entityId: id,
+            before: { state: row.order.state },
+            after: start.patch,
+          });
+        }
         return true;
       });
       if (!isChanged) throw notFound('Checklist item');

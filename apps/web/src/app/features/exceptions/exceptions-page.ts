@@ -105,8 +105,13 @@ export class ExceptionsPage {
     return this.auth.hasPermission('exceptions.acknowledge', e.farmId) && e.status !== 'closed';
   }
 
+  /** A work order is offered once per exception: when one exists, its link is shown instead. */
   protected canOpenWorkOrder(e: ExceptionView): boolean {
-    return this.auth.hasPermission('workOrders.manage', e.farmId) && e.status !== 'closed';
+    return (
+      this.auth.hasPermission('workOrders.manage', e.farmId) &&
+      e.status !== 'closed' &&
+      !this.ordersByException().has(e.id)
+    );
   }
 
   protected async openWorkOrder(e: ExceptionView): Promise<void> {
