@@ -100,6 +100,8 @@ export const exceptionSchema = z.object({
   farmId: z.number().int(),
   houseId: z.number().int(),
   houseName: z.string(),
+  /** the house's IANA time zone: its times are shown on its own clock */
+  timezone: z.string(),
   kind: z.enum(EXCEPTION_KINDS),
   scope: z.enum(EXCEPTION_SCOPES),
   row: z.number().int().nullable(),

@@ -60,6 +60,7 @@ export async function listExceptions(
     .select({
       exception: exceptions,
       houseName: houses.name,
+      timezone: houses.timezone,
       pricePerDozen: houses.eggPricePerDozen,
       acknowledgedByName: users.name,
     })

@@ -35,13 +35,19 @@ export interface ExceptionsService {
 
 export function toExceptionView(
   e: ExceptionRow,
-  extra: { houseName: string; pricePerDozen: number | null; acknowledgedByName: string | null },
+  extra: {
+    houseName: string;
+    timezone: string;
+    pricePerDozen: number | null;
+    acknowledgedByName: string | null;
+  },
 ): ExceptionView {
   return {
     id: e.id,
     farmId: e.farmId,
     houseId: e.houseId,
     houseName: extra.houseName,
+    timezone: extra.timezone,
     kind: e.kind,
     scope: e.scope,
     row: e.row,

@@ -1,4 +1,4 @@
-import { DatePipe, DecimalPipe } from '@angular/common';
+import { DecimalPipe } from '@angular/common';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -36,6 +36,7 @@ import { listState, LoadState } from '../../shared/ui/load-state';
 import { CloseDialog } from './close-dialog';
 import { WorkOrderDialog, type WorkOrderDialogData } from '../work-orders/work-order-dialog';
 import { ApiClient } from '../../core/http/api-client';
+import { houseTime } from '../../shared/ui/local-dates';
 
 type StatusFilter = 'live' | 'closed' | '';
 
@@ -43,7 +44,6 @@ type StatusFilter = 'live' | 'closed' | '';
 @Component({
   selector: 'ts-exceptions-page',
   imports: [
-    DatePipe,
     DecimalPipe,
     RouterLink,
     MatTableModule,
@@ -132,6 +132,11 @@ export class ExceptionsPage {
     if (e.scope === 'row') return `Row ${e.row} (all tiers)`;
     if (e.scope === 'tier') return `Tier ${e.tier} (all rows)`;
     return 'Whole house';
+  }
+
+  /** When it opened, on the house's own clock with its zone. */
+  protected opened(e: ExceptionView): string {
+    return houseTime(e.openedAt, e.timezone);
   }
 
   /** The status in words: who acknowledged it, why it closed. */

@@ -6,6 +6,7 @@ const exception = (id: number, over: Partial<ExceptionView> = {}): ExceptionView
   farmId: 1,
   houseId: 2,
   houseName: 'House 2',
+  timezone: 'America/Chicago',
   kind: 'shortfall',
   scope: 'row',
   row: 4,
