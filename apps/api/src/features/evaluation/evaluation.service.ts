@@ -536,6 +536,13 @@ export function createEvaluationService(
       recent: recent.map(known),
     });
     const changed: ExceptionRow[] = [];
+    // Most evaluations change no exception: then the streaks are the one write, and need no transaction
+    // (this runs every few seconds per house, and at every checkpoint of a replay).
+    if (plan.opens.length === 0 && plan.closes.length === 0 && plan.updates.length === 0) {
+      await saveState(db, plan.streaks);
+      Object.assign(streaks, plan.streaks);
+      return changed;
+    }
     await db.transaction(async (tx) => {
       for (const open of plan.opens) {
         const row = await openException(tx, {
