@@ -7,7 +7,11 @@ import {
   type ApplicationConfig,
 } from '@angular/core';
 import { MatIconRegistry } from '@angular/material/icon';
-import { provideRouter, withComponentInputBinding } from '@angular/router';
+import {
+  provideRouter,
+  withComponentInputBinding,
+  withExperimentalAutoCleanupInjectors,
+} from '@angular/router';
 import { routes } from './app.routes';
 import { authInterceptor } from './core/auth/auth-interceptor';
 
@@ -15,7 +19,9 @@ export const appConfig: ApplicationConfig = {
   providers: [
     provideBrowserGlobalErrorListeners(),
     provideZonelessChangeDetection(),
-    provideRouter(routes, withComponentInputBinding()),
+    // A feature's store is provided on its route; cleaning up route injectors ends it with the page, so
+    // no store outlives its screen or shows a previous visit's figures.
+    provideRouter(routes, withComponentInputBinding(), withExperimentalAutoCleanupInjectors()),
     provideHttpClient(withInterceptors([authInterceptor])),
     provideAppInitializer(() => {
       // Icons come from the self-hosted Material Symbols font, never from a CDN.

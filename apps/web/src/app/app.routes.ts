@@ -1,5 +1,4 @@
 import type { Routes } from '@angular/router';
-import { provideEchartsCore } from 'ngx-echarts';
 import { permissionGuard, signedInGuard } from './core/auth/auth-guards';
 
 export const routes: Routes = [
@@ -24,109 +23,61 @@ export const routes: Routes = [
     path: '',
     canActivate: [signedInGuard],
     loadComponent: () => import('./core/shell/shell').then((m) => m.Shell),
+    // Each feature declares its own routes, with its store provided on them (features/*/*.routes.ts).
     children: [
       { path: '', pathMatch: 'full', redirectTo: 'farms' },
-      {
-        path: 'farms',
-        title: 'Farms · Tierscope',
-        loadComponent: () => import('./features/farms/farms-page').then((m) => m.FarmsPage),
-      },
-      {
-        path: 'houses/:houseId',
-        title: 'House live · Tierscope',
-        providers: [
-          provideEchartsCore({
-            echarts: () => import('./features/house-live/echarts-setup').then((m) => m.echarts),
-          }),
-        ],
-        loadComponent: () =>
-          import('./features/house-live/house-live-page').then((m) => m.HouseLivePage),
-      },
-      {
-        path: 'exceptions',
-        title: 'Exceptions · Tierscope',
-        loadComponent: () =>
-          import('./features/exceptions/exceptions-page').then((m) => m.ExceptionsPage),
-      },
+      { path: 'farms', loadChildren: () => import('./features/farms/farms.routes') },
       {
         path: 'houses/:houseId/flock',
-        title: 'Flock · Tierscope',
-        providers: [
-          provideEchartsCore({
-            echarts: () => import('./features/house-live/echarts-setup').then((m) => m.echarts),
-          }),
-        ],
-        loadComponent: () => import('./features/flock/flock-page').then((m) => m.FlockPage),
+        loadChildren: () => import('./features/flock/flock.routes'),
       },
       {
         path: 'houses/:houseId/settings',
-        title: 'House settings · Tierscope',
         canActivate: [permissionGuard('house.update')],
-        loadComponent: () =>
-          import('./features/house-settings/house-settings-page').then((m) => m.HouseSettingsPage),
+        loadChildren: () => import('./features/house-settings/house-settings.routes'),
       },
       {
+        path: 'houses/:houseId',
+        loadChildren: () => import('./features/house-live/house-live.routes'),
+      },
+      { path: 'exceptions', loadChildren: () => import('./features/exceptions/exceptions.routes') },
+      {
         path: 'gateways',
-        title: 'Gateways · Tierscope',
         canActivate: [permissionGuard('gateways.manage')],
-        loadComponent: () =>
-          import('./features/gateways/gateways-page').then((m) => m.GatewaysPage),
+        loadChildren: () => import('./features/gateways/gateways.routes'),
       },
       {
         path: 'work-orders',
-        title: 'Work orders · Tierscope',
-        canActivate: [permissionGuard('workOrders.manage')],
-        loadComponent: () =>
-          import('./features/work-orders/work-orders-page').then((m) => m.WorkOrdersPage),
-      },
-      {
-        path: 'work-orders/:workOrderId',
-        title: 'Work order · Tierscope',
-        canActivate: [permissionGuard('workOrders.work')],
-        loadComponent: () =>
-          import('./features/work-orders/work-order-page').then((m) => m.WorkOrderPage),
+        loadChildren: () => import('./features/work-orders/work-orders.routes'),
       },
       {
         path: 'my-work',
-        title: 'My work · Tierscope',
         canActivate: [permissionGuard('workOrders.work')],
-        loadComponent: () =>
-          import('./features/work-orders/my-work-page').then((m) => m.MyWorkPage),
+        loadChildren: () => import('./features/work-orders/my-work.routes'),
       },
       {
         path: 'reports',
-        title: 'Reports · Tierscope',
         canActivate: [permissionGuard('workOrders.manage')],
-        providers: [
-          provideEchartsCore({
-            echarts: () => import('./features/house-live/echarts-setup').then((m) => m.echarts),
-          }),
-        ],
-        loadComponent: () => import('./features/reports/reports-page').then((m) => m.ReportsPage),
+        loadChildren: () => import('./features/reports/reports.routes'),
       },
       {
         path: 'imports',
-        title: 'Imports · Tierscope',
         canActivate: [permissionGuard('imports.run')],
-        loadComponent: () => import('./features/imports/imports-page').then((m) => m.ImportsPage),
+        loadChildren: () => import('./features/imports/imports.routes'),
       },
       {
         path: 'notifications',
-        title: 'Notifications · Tierscope',
-        loadComponent: () =>
-          import('./features/notifications/notifications-page').then((m) => m.NotificationsPage),
+        loadChildren: () => import('./features/notifications/notifications.routes'),
       },
       {
         path: 'mailbox',
-        title: 'Mailbox · Tierscope',
         canActivate: [permissionGuard('users.manage')],
-        loadComponent: () => import('./features/mailbox/mailbox-page').then((m) => m.MailboxPage),
+        loadChildren: () => import('./features/mailbox/mailbox.routes'),
       },
       {
         path: 'users',
-        title: 'Users · Tierscope',
         canActivate: [permissionGuard('users.manage')],
-        loadComponent: () => import('./features/users/users-page').then((m) => m.UsersPage),
+        loadChildren: () => import('./features/users/users.routes'),
       },
     ],
   },

@@ -1,6 +1,7 @@
-import { computed, inject, Injectable, signal } from '@angular/core';
+import { computed, inject, Injectable, signal, type Signal } from '@angular/core';
 import {
   loginResponseSchema,
+  type ForgotPassword,
   type LoginRequest,
   type Membership,
   type Session,
@@ -32,6 +33,11 @@ export class AuthStore {
   readonly memberships = computed<Membership[]>(() => this.stored()?.memberships ?? []);
   readonly token = computed(() => this.stored()?.token ?? null);
 
+  /** The farms on which the user holds `permission`, as a signal that follows the session. */
+  farmsWith(permission: Permission): Signal<Membership[]> {
+    return computed(() => this.memberships().filter((m) => can(m.role, permission)));
+  }
+
   /** True when the user holds `permission` on at least one farm (or on `farmId` when given). */
   hasPermission(permission: Permission, farmId?: number): boolean {
     return this.memberships().some(
@@ -44,6 +50,12 @@ export class AuthStore {
     const session: StoredSession = response;
     localStorage.setItem(STORAGE_KEY, JSON.stringify(session));
     this.stored.set(session);
+  }
+
+  /** Asks for a password-reset link; the answer is the same whether or not the address has an account. */
+  async requestPasswordReset(input: ForgotPassword): Promise<string> {
+    const answer = await this.api.call(endpoints.auth.forgotPassword, { body: input });
+    return answer.message;
   }
 
   /** Chooses a password through a mailed link (invitation or reset); the answer signs the user in. */

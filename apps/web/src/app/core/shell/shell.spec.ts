@@ -2,18 +2,11 @@ import type { Role } from '@tierscope/domain';
 import { provideHttpClient } from '@angular/common/http';
 import { TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
+import { signInAs } from '../../../testing/session';
 import { Shell } from './shell';
 
 function renderAs(role: Role): HTMLElement {
-  localStorage.setItem(
-    'tierscope.session',
-    JSON.stringify({
-      token: 't',
-      expiresAt: new Date(Date.now() + 60_000).toISOString(),
-      user: { id: 1, email: 'a@example.test', name: 'Avery' },
-      memberships: [{ farmId: 1, farmName: 'North Ridge', role }],
-    }),
-  );
+  signInAs(role);
   TestBed.configureTestingModule({
     imports: [Shell],
     providers: [provideRouter([]), provideHttpClient()],

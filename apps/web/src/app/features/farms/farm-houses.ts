@@ -3,12 +3,11 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
-import { endpoints } from '@tierscope/contracts';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { listState, LoadState } from '../../shared/ui/load-state';
 import { HouseSummary } from './house-summary';
-import { ApiClient } from '../../core/http/api-client';
+import { HousesApi } from '../../core/http/houses-api';
 
 /** The house cards of one farm. */
 @Component({
@@ -19,13 +18,11 @@ import { ApiClient } from '../../core/http/api-client';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class FarmHouses {
-  private readonly api = inject(ApiClient);
+  private readonly housesApi = inject(HousesApi);
   private readonly auth = inject(AuthStore);
   readonly farmId = input.required<number>();
 
-  protected readonly houses = this.api.resource(endpoints.houses.listByFarm, () => ({
-    params: { farmId: this.farmId() },
-  }));
+  protected readonly houses = this.housesApi.housesOfFarm(this.farmId);
   protected readonly state = computed(() => listState(this.houses));
   protected readonly errorText = computed(() => describeApiError(this.houses.error()));
   protected readonly canEdit = computed(() =>

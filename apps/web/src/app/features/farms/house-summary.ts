@@ -1,9 +1,8 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, input, inject } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
-import { endpoints } from '@tierscope/contracts';
 import { ratioColor } from '../../shared/ui/ratio-colors';
-import { ApiClient } from '../../core/http/api-client';
+import { FarmsApi } from './farms-api';
 
 /** A house card's figures: today's eggs, yesterday's hen-day %, open exceptions and a small map. */
 @Component({
@@ -87,17 +86,11 @@ import { ApiClient } from '../../core/http/api-client';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class HouseSummary {
-  private readonly api = inject(ApiClient);
+  private readonly api = inject(FarmsApi);
   readonly houseId = input.required<number>();
 
-  protected readonly today = this.api.resource(endpoints.exceptions.houseMap, () => ({
-    params: { houseId: this.houseId() },
-    query: { window: 'today' as const },
-  }));
-  private readonly yesterday = this.api.resource(endpoints.exceptions.houseMap, () => ({
-    params: { houseId: this.houseId() },
-    query: { window: 'yesterday' as const },
-  }));
+  protected readonly today = this.api.houseMap(this.houseId, 'today');
+  private readonly yesterday = this.api.houseMap(this.houseId, 'yesterday');
   protected readonly henDay = computed(() => this.yesterday.value()?.henDayPct ?? null);
   /** Top tier first, as the house stands. */
   protected readonly cells = computed(() => {

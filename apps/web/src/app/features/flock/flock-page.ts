@@ -6,7 +6,6 @@ import {
   effect,
   inject,
   input,
-  linkedSignal,
   numberAttribute,
   signal,
   untracked,
@@ -24,17 +23,15 @@ import {
   flockCreateSchema,
   mortalityEntrySchema,
   type FlockProduction,
-  endpoints,
 } from '@tierscope/contracts';
 import { calendarDayOf } from '@tierscope/domain';
 import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
-import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
-import { LoadState, type LoadStatus } from '../../shared/ui/load-state';
+import { LoadState } from '../../shared/ui/load-state';
 import { localDay } from '../../shared/ui/local-dates';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
-import { ApiClient } from '../../core/http/api-client';
+import { FlockStore } from './flock-store';
 
 /** A house's flock: placement, the morning walk, hen-day production by week of age against its fitted curve. */
 @Component({
@@ -59,47 +56,19 @@ import { ApiClient } from '../../core/http/api-client';
 export class FlockPage {
   readonly houseId = input.required({ transform: numberAttribute });
 
-  private readonly api = inject(ApiClient);
-  private readonly auth = inject(AuthStore);
+  protected readonly store = inject(FlockStore);
   private readonly snackBar = inject(MatSnackBar);
   private readonly fb = inject(NonNullableFormBuilder);
 
-  protected readonly house = this.api.resource(endpoints.houses.get, () => ({
-    params: { houseId: this.houseId() },
-  }));
-  protected readonly flocks = this.api.resource(endpoints.flocks.list, () => ({
-    params: { houseId: this.houseId() },
-  }));
-  protected readonly flockId = linkedSignal(() => this.flocks.value()?.[0]?.id ?? null);
-  protected readonly production = this.api.resource(endpoints.flocks.production, () => {
-    const id = this.flockId();
-    return id === null ? undefined : { params: { flockId: id } };
-  });
-  protected readonly canManage = computed(() => {
-    const farmId = this.house.value()?.farmId;
-    return farmId !== undefined && this.auth.hasPermission('flock.manage', farmId);
-  });
-  protected readonly hasActiveFlock = computed(() =>
-    (this.flocks.value() ?? []).some((f) => f.endedOn === null),
-  );
-  protected readonly state = computed((): LoadStatus => {
-    if (this.flocks.error() || this.production.error()) return 'error';
-    if (!this.flocks.hasValue()) return 'loading';
-    if (this.flocks.value().length === 0) return 'empty';
-    return this.production.hasValue() ? 'ready' : 'loading';
-  });
-  protected readonly errorText = computed(() =>
-    describeApiError(this.flocks.error() ?? this.production.error()),
-  );
   protected readonly recentDays = computed(() =>
-    [...(this.production.value()?.days ?? [])].reverse().slice(0, 14),
+    [...(this.store.production.value()?.days ?? [])].reverse().slice(0, 14),
   );
   protected readonly layChart = computed(() => {
-    const p = this.production.value();
+    const p = this.store.production.value();
     return p ? layChart(p) : null;
   });
   protected readonly mortalityChart = computed(() => {
-    const p = this.production.value();
+    const p = this.store.production.value();
     return p ? mortalityChart(p) : null;
   });
   protected readonly dayColumns = ['day', 'age', 'eggs', 'hens', 'hdp', 'dead', 'culled'];
@@ -117,12 +86,12 @@ export class FlockPage {
     culled: [0, zodValidator(mortalityEntrySchema.shape.culled)],
   });
   protected readonly endOn = signal(localDay());
-  protected readonly isSaving = signal(false);
 
   constructor() {
+    this.store.followHouse(() => this.houseId());
     // Days are the house's own: once its zone is known, today is today on its clock, not on this device's.
     effect(() => {
-      const zone = this.house.value()?.timezone;
+      const zone = this.store.house.value()?.timezone;
       if (!zone) return;
       const today = calendarDayOf(new Date(), zone);
       untracked(() => {
@@ -134,20 +103,16 @@ export class FlockPage {
     });
   }
 
-  private async act(work: () => Promise<unknown>, done: string): Promise<boolean> {
-    this.isSaving.set(true);
+  /** Saves one record and says so; a refusal is shown with the fields it names. */
+  private async act(work: () => Promise<void>, done: string): Promise<boolean> {
     try {
       await work();
       this.snackBar.open(done, undefined, { duration: 2500 });
-      this.flocks.reload();
-      this.production.reload();
       return true;
     } catch (error) {
       const fields = Object.entries(fieldErrorsOf(error)).map(([p, m]) => `${p}: ${m}`);
       this.snackBar.open([describeApiError(error), ...fields].join(' — '), 'Dismiss');
       return false;
-    } finally {
-      this.isSaving.set(false);
     }
   }
 
@@ -156,45 +121,25 @@ export class FlockPage {
       this.placement.markAllAsTouched();
       return;
     }
-    await this.act(
-      () =>
-        this.api.call(endpoints.flocks.place, {
-          params: { houseId: this.houseId() },
-          body: this.placement.getRawValue(),
-        }),
-      'Flock placed',
-    );
+    await this.act(() => this.store.place(this.placement.getRawValue()), 'Flock placed');
   }
 
   protected async recordWalk(): Promise<void> {
-    const id = this.flockId();
-    if (id === null || this.walk.invalid) {
+    if (this.store.flockId() === null || this.walk.invalid) {
       this.walk.markAllAsTouched();
       return;
     }
     const { day, dead, culled } = this.walk.getRawValue();
     const isSaved = await this.act(
-      () =>
-        this.api.call(endpoints.flocks.recordLoss, {
-          params: { flockId: id, day },
-          body: { dead, culled },
-        }),
+      () => this.store.recordLoss(day, { dead, culled }),
       `Saved for ${day}: ${dead} dead, ${culled} culled`,
     );
     if (isSaved) this.walk.patchValue({ dead: 0, culled: 0 });
   }
 
   protected async endFlock(): Promise<void> {
-    const id = this.flockId();
-    if (id === null) return;
-    await this.act(
-      () =>
-        this.api.call(endpoints.flocks.update, {
-          params: { flockId: id },
-          body: { endedOn: this.endOn() },
-        }),
-      'Flock ended',
-    );
+    if (this.store.flockId() === null) return;
+    await this.act(() => this.store.endFlock(this.endOn()), 'Flock ended');
   }
 }
 

@@ -2,14 +2,14 @@ import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, input, output, inject } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
-import { type ExceptionView, endpoints } from '@tierscope/contracts';
+import { type ExceptionView } from '@tierscope/contracts';
 import { measuredWords } from '@tierscope/domain';
 import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
 import { describeApiError } from '../../core/http/api-error';
 import { LoadState, loadStatus } from '../../shared/ui/load-state';
 import { houseTime } from '../../shared/ui/local-dates';
-import { ApiClient } from '../../core/http/api-client';
+import { HouseLiveApi } from './house-live-api';
 
 /** One section: today's cumulative curve against its peers' median, its last 14 days, and what to check. */
 @Component({
@@ -20,15 +20,17 @@ import { ApiClient } from '../../core/http/api-client';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class CellDetail {
-  private readonly api = inject(ApiClient);
+  private readonly api = inject(HouseLiveApi);
   readonly houseId = input.required<number>();
   readonly row = input.required<number>();
   readonly tier = input.required<number>();
   readonly timezone = input.required<string>();
   readonly closed = output();
 
-  protected readonly detail = this.api.resource(endpoints.exceptions.cell, () => ({
-    params: { houseId: this.houseId(), row: this.row(), tier: this.tier() },
+  protected readonly detail = this.api.cell(() => ({
+    houseId: this.houseId(),
+    row: this.row(),
+    tier: this.tier(),
   }));
   protected readonly state = computed(() => loadStatus(this.detail));
   protected readonly errorText = computed(() => describeApiError(this.detail.error()));

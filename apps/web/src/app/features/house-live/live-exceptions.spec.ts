@@ -1,35 +1,5 @@
-import type { ExceptionView } from '@tierscope/contracts';
-import { withLiveException } from './house-live-page';
-
-const exception = (id: number, over: Partial<ExceptionView> = {}): ExceptionView => ({
-  id,
-  farmId: 1,
-  houseId: 2,
-  houseName: 'House 2',
-  timezone: 'America/Chicago',
-  kind: 'shortfall',
-  scope: 'row',
-  row: 4,
-  tier: null,
-  status: 'open',
-  isLearning: false,
-  openedAt: '2026-11-10T12:00:00.000Z',
-  closedAt: null,
-  eggs: 820,
-  expected: 1000,
-  ratio: 0.82,
-  pValue: 1e-9,
-  worstRatio: 0.82,
-  atOpen: { eggs: 820, expected: 1000, ratio: 0.82 },
-  eggsLost: 180,
-  eggsLostValue: null,
-  likelyChecks: [],
-  acknowledgedAt: null,
-  acknowledgedBy: null,
-  closeReason: null,
-  closeNote: null,
-  ...over,
-});
+import { exceptionView as exception } from '../../../testing/fixtures';
+import { withLiveException } from './house-live-store';
 
 describe('withLiveException (the house page follows exception messages without reading the list again)', () => {
   it('adds a new exception first', () => {

@@ -21,12 +21,12 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSnackBar, MatSnackBarModule } from '@angular/material/snack-bar';
 import { RouterLink } from '@angular/router';
-import { houseCreateSchema, type HouseUpdate, endpoints } from '@tierscope/contracts';
+import { houseCreateSchema, type HouseUpdate } from '@tierscope/contracts';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
-import { LoadState, loadStatus } from '../../shared/ui/load-state';
+import { LoadState } from '../../shared/ui/load-state';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
-import { ApiClient } from '../../core/http/api-client';
+import { HouseSettingsStore } from './house-settings-store';
 
 const fields = houseCreateSchema.shape;
 const ALL_ZONES: readonly string[] = Intl.supportedValuesOf('timeZone');
@@ -50,17 +50,11 @@ const ALL_ZONES: readonly string[] = Intl.supportedValuesOf('timeZone');
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class HouseSettingsPage {
-  private readonly api = inject(ApiClient);
+  protected readonly store = inject(HouseSettingsStore);
   private readonly snackBar = inject(MatSnackBar);
 
   /** Route parameter. */
   readonly houseId = input.required({ transform: numberAttribute });
-
-  protected readonly house = this.api.resource(endpoints.houses.get, () => ({
-    params: { houseId: this.houseId() },
-  }));
-  protected readonly state = computed(() => loadStatus(this.house));
-  protected readonly errorText = computed(() => describeApiError(this.house.error()));
 
   protected readonly form = inject(NonNullableFormBuilder).group({
     name: ['', [Validators.required, zodValidator(fields.name)]],
@@ -73,7 +67,6 @@ export class HouseSettingsPage {
     eggPricePerDozen: new FormControl<number | null>(null, zodValidator(fields.eggPricePerDozen)),
   });
   protected readonly firstError = firstError;
-  protected readonly isSaving = signal(false);
   protected readonly saveError = signal<string | null>(null);
 
   private readonly zoneQuery = toSignal(this.form.controls.timezone.valueChanges, {
@@ -85,9 +78,10 @@ export class HouseSettingsPage {
   });
 
   constructor() {
+    this.store.followHouse(() => this.houseId());
     // Fill the form whenever the house (re)loads.
     effect(() => {
-      const house = this.house.value();
+      const house = this.store.house.value();
       if (!house) return;
       this.form.reset({
         name: house.name,
@@ -103,7 +97,7 @@ export class HouseSettingsPage {
   }
 
   protected async save(): Promise<void> {
-    const house = this.house.value();
+    const house = this.store.house.value();
     if (!house) return;
     if (this.form.invalid) {
       this.form.markAllAsTouched();
@@ -117,15 +111,10 @@ export class HouseSettingsPage {
       this.snackBar.open('Nothing to save: no setting was changed', undefined, { duration: 3000 });
       return;
     }
-    this.isSaving.set(true);
     this.saveError.set(null);
     try {
-      const saved = await this.api.call(endpoints.houses.update, {
-        params: { houseId: house.id },
-        body: changes,
-      });
-      this.house.set(saved);
-      this.snackBar.open(`${saved.name} saved`, undefined, { duration: 3000 });
+      const saved = await this.store.save(changes);
+      if (saved) this.snackBar.open(`${saved.name} saved`, undefined, { duration: 3000 });
     } catch (error) {
       this.saveError.set(describeApiError(error));
       for (const [path, message] of Object.entries(fieldErrorsOf(error))) {
@@ -133,8 +122,6 @@ export class HouseSettingsPage {
         control?.setErrors({ server: message });
         control?.markAsTouched();
       }
-    } finally {
-      this.isSaving.set(false);
     }
   }
 }

@@ -17,11 +17,11 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
-import { type ImportStatus, endpoints } from '@tierscope/contracts';
+import { type ImportStatus } from '@tierscope/contracts';
 import { interval, type Subscription } from 'rxjs';
 import { describeApiError } from '../../core/http/api-error';
 import { LiveSocket } from '../../core/live/live-socket';
-import { ApiClient } from '../../core/http/api-client';
+import { ImportsApi } from './imports-api';
 
 const ENDED = new Set(['done', 'failed', 'cancelled']);
 
@@ -45,7 +45,7 @@ export class ImportProgress {
   readonly status = input.required<ImportStatus>();
   readonly finished = output<ImportStatus>();
 
-  private readonly api = inject(ApiClient);
+  private readonly api = inject(ImportsApi);
   private readonly live = inject(LiveSocket);
   private readonly snackBar = inject(MatSnackBar);
 
@@ -132,7 +132,7 @@ export class ImportProgress {
 
   private async read(id: number): Promise<void> {
     try {
-      this.track(await this.api.call(endpoints.imports.get, { params: { importId: id } }));
+      this.track(await this.api.get(id));
     } catch {
       // A missed read is made up by the next one or by a live message.
     }
@@ -140,9 +140,7 @@ export class ImportProgress {
 
   protected async cancel(): Promise<void> {
     try {
-      this.track(
-        await this.api.call(endpoints.imports.cancel, { params: { importId: this.now().id } }),
-      );
+      this.track(await this.api.cancel(this.now().id));
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
     }
@@ -150,9 +148,7 @@ export class ImportProgress {
 
   protected async retry(): Promise<void> {
     try {
-      const status = await this.api.call(endpoints.imports.retry, {
-        params: { importId: this.now().id },
-      });
+      const status = await this.api.retry(this.now().id);
       this.firstSeen = null;
       this.now.set(status);
       void this.read(status.id);
@@ -165,11 +161,8 @@ export class ImportProgress {
   }
 
   protected async downloadErrors(): Promise<void> {
-    const id = this.now().id;
     try {
-      await this.api.download(endpoints.imports.errorsCsv, `import-${id}-errors.csv`, {
-        params: { importId: id },
-      });
+      await this.api.downloadErrors(this.now().id);
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
     }

@@ -5,7 +5,6 @@ import {
   computed,
   effect,
   inject,
-  linkedSignal,
   signal,
   untracked,
 } from '@angular/core';
@@ -29,16 +28,12 @@ import {
   importMappingSchema,
   type ColumnRef,
   type ImportMappingInput,
-  type ImportStatus,
   type SavedMapping,
-  endpoints,
 } from '@tierscope/contracts';
-import { can } from '@tierscope/domain';
 import { map, startWith } from 'rxjs';
-import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
 import { FarmSelect } from '../../shared/ui/farm-select';
-import { LoadState, listState } from '../../shared/ui/load-state';
+import { LoadState } from '../../shared/ui/load-state';
 import { previewCsv, type CsvPreview } from './csv-preview';
 import { ImportProgress } from './import-progress';
 import {
@@ -49,7 +44,7 @@ import {
   roleOfColumn,
   type MappingFormValue,
 } from './import-mapping-form';
-import { ApiClient } from '../../core/http/api-client';
+import { ImportsStore } from './imports-store';
 
 const SAMPLE_BYTES = 64 * 1024;
 
@@ -77,36 +72,9 @@ const SAMPLE_BYTES = 64 * 1024;
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ImportsPage {
-  private readonly auth = inject(AuthStore);
-  private readonly api = inject(ApiClient);
+  protected readonly store = inject(ImportsStore);
   private readonly snackBar = inject(MatSnackBar);
   private readonly fb = inject(NonNullableFormBuilder);
-
-  protected readonly farms = computed(() =>
-    this.auth.memberships().filter((m) => can(m.role, 'imports.run')),
-  );
-  protected readonly farmId = linkedSignal(() => this.farms()[0]?.farmId ?? null);
-  protected readonly houses = this.api.resource(endpoints.houses.listByFarm, () => {
-    const farm = this.farmId();
-    return farm === null ? undefined : { params: { farmId: farm } };
-  });
-  protected readonly houseId = linkedSignal(() => this.houses.value()?.[0]?.id ?? null);
-  protected readonly house = computed(
-    () => this.houses.value()?.find((h) => h.id === this.houseId()) ?? null,
-  );
-  protected readonly counters = this.api.resource(endpoints.houses.counters, () => {
-    const house = this.houseId();
-    return house === null ? undefined : { params: { houseId: house } };
-  });
-  protected readonly saved = this.api.resource(endpoints.imports.mappings, () => {
-    const farm = this.farmId();
-    return farm === null ? undefined : { params: { farmId: farm } };
-  });
-  protected readonly recent = this.api.resource(endpoints.imports.list, () => {
-    const farm = this.farmId();
-    return farm === null ? undefined : { query: { farmId: farm } };
-  });
-  protected readonly recentState = computed(() => listState(this.recent));
 
   protected readonly file = signal<File | null>(null);
   private readonly sample = signal<{ text: string; isWholeFile: boolean } | null>(null);
@@ -159,7 +127,7 @@ export class ImportsPage {
     return this.formValue().hasHeader ? p.lines : [p.firstLine, ...p.lines].slice(0, 10);
   });
   protected readonly wideTargets = computed(() => {
-    const list = this.counters.value() ?? [];
+    const list = this.store.counters.value() ?? [];
     return list
       .filter((c) => c.kind === 'belt' && c.row !== null && c.tier !== null)
       .map((c) => ({
@@ -168,9 +136,7 @@ export class ImportsPage {
       }));
   });
 
-  protected readonly isStarting = signal(false);
   protected readonly errorText = signal<string | null>(null);
-  protected readonly current = signal<ImportStatus | null>(null);
   protected readonly saveName = signal('');
   protected readonly recentColumns = [
     'created',
@@ -185,7 +151,7 @@ export class ImportsPage {
   constructor() {
     // The house's own zone is the default for times without an offset.
     effect(() => {
-      const zone = this.house()?.timezone;
+      const zone = this.store.house()?.timezone;
       if (zone && untracked(() => this.form.controls.timezone.value) === '') {
         this.form.controls.timezone.setValue(zone);
       }
@@ -206,7 +172,7 @@ export class ImportsPage {
     if (this.guessedFor?.firstLine.join('\u0001') === p.firstLine.join('\u0001')) return;
     this.guessedFor = p;
     const c = this.form.controls;
-    const known = new Set((this.counters.value() ?? []).map((k) => k.externalId));
+    const known = new Set((this.store.counters.value() ?? []).map((k) => k.externalId));
     const { layout, wide, ...guessed } = guessesFor(p, c.timezone.value, known);
     this.form.patchValue(guessed);
     if (layout) c.layout.setValue(layout);
@@ -223,7 +189,7 @@ export class ImportsPage {
     const picker = event.target as HTMLInputElement;
     const chosen = picker.files?.[0] ?? null;
     this.file.set(chosen);
-    this.current.set(null);
+    this.store.current.set(null);
     this.errorText.set(null);
     this.guessedFor = null;
     if (!chosen) {
@@ -253,8 +219,7 @@ export class ImportsPage {
 
   protected async start(): Promise<void> {
     const file = this.file();
-    const houseId = this.houseId();
-    if (!file || houseId === null) return;
+    if (!file || this.store.houseId() === null) return;
     const checked = importMappingSchema.safeParse(this.mapping());
     if (!checked.success) {
       this.errorText.set(
@@ -264,18 +229,9 @@ export class ImportsPage {
       );
       return;
     }
-    const form = new FormData();
-    form.append('mapping', JSON.stringify(this.mapping()));
-    form.append('file', file, file.name);
-    this.isStarting.set(true);
     this.errorText.set(null);
     try {
-      const status = await this.api.call(endpoints.imports.start, {
-        params: { houseId },
-        form,
-      });
-      this.current.set(status);
-      this.recent.reload();
+      await this.store.start(this.mapping(), file);
       // Bring the progress into view: on a phone it is below the long mapping form.
       setTimeout(() => {
         document.querySelector('ts-import-progress')?.scrollIntoView({ behavior: 'smooth' });
@@ -283,22 +239,15 @@ export class ImportsPage {
     } catch (error) {
       const fields = Object.entries(fieldErrorsOf(error)).map(([p, m]) => `${p}: ${m}`);
       this.errorText.set([describeApiError(error), ...fields].join(' — '));
-    } finally {
-      this.isStarting.set(false);
     }
   }
 
   protected async saveMapping(): Promise<void> {
-    const farmId = this.farmId();
     const name = this.saveName().trim();
-    if (farmId === null || name === '') return;
+    if (name === '') return;
     try {
-      await this.api.call(endpoints.imports.saveMapping, {
-        params: { farmId },
-        body: { name, mapping: this.mapping() },
-      });
+      await this.store.saveMapping(name, this.mapping());
       this.snackBar.open(`Mapping "${name}" saved`, undefined, { duration: 2000 });
-      this.saved.reload();
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
     }
@@ -306,15 +255,14 @@ export class ImportsPage {
 
   protected async deleteSaved(mapping: SavedMapping): Promise<void> {
     try {
-      await this.api.call(endpoints.imports.deleteMapping, { params: { mappingId: mapping.id } });
+      await this.store.deleteMapping(mapping);
       this.snackBar.open(`Mapping "${mapping.name}" deleted`, undefined, { duration: 2000 });
-      this.saved.reload();
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
     }
   }
 
   protected onFinished(): void {
-    this.recent.reload();
+    this.store.recent.reload();
   }
 }

@@ -1,12 +1,10 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, signal, inject } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatExpansionModule } from '@angular/material/expansion';
 import { MatIconModule } from '@angular/material/icon';
-import { endpoints } from '@tierscope/contracts';
-import { describeApiError } from '../../core/http/api-error';
-import { listState, LoadState } from '../../shared/ui/load-state';
-import { ApiClient } from '../../core/http/api-client';
+import { LoadState } from '../../shared/ui/load-state';
+import { MailboxStore } from './mailbox-store';
 
 /** What the local mail catcher caught: the demo's and development's stand-in for real inboxes. */
 @Component({
@@ -17,7 +15,7 @@ import { ApiClient } from '../../core/http/api-client';
       <div class="heading">
         <h1 class="ts-page-title">Mailbox</h1>
         <span class="spacer"></span>
-        <button mat-stroked-button type="button" (click)="mail.reload()">
+        <button mat-stroked-button type="button" (click)="store.mail.reload()">
           <mat-icon>refresh</mat-icon> Refresh
         </button>
       </div>
@@ -26,18 +24,18 @@ import { ApiClient } from '../../core/http/api-client';
         administrators see this page, and only in development and the demo.
       </p>
       <ts-load-state
-        [state]="state()"
+        [state]="store.loadStatus()"
         loadingText="Reading the mailbox…"
-        [errorText]="errorText()"
+        [errorText]="store.errorText()"
         emptyText="No mail yet. Mail appears here as exceptions open and work orders move."
-        (retry)="mail.reload()"
+        (retry)="store.mail.reload()"
       />
-      @if (state() === 'ready') {
+      @if (store.loadStatus() === 'ready') {
         <mat-accordion multi>
-          @for (m of mail.value() ?? []; track m.id) {
+          @for (m of store.mail.value() ?? []; track m.id) {
             <mat-expansion-panel
-              [expanded]="openId() === m.id"
-              (opened)="openId.set(m.id)"
+              [expanded]="store.openId() === m.id"
+              (opened)="store.openId.set(m.id)"
               class="message"
             >
               <mat-expansion-panel-header collapsedHeight="auto" expandedHeight="auto">
@@ -87,9 +85,5 @@ import { ApiClient } from '../../core/http/api-client';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class MailboxPage {
-  private readonly api = inject(ApiClient);
-  protected readonly mail = this.api.resource(endpoints.notifications.mailbox, () => ({}));
-  protected readonly openId = signal<number | null>(null);
-  protected readonly state = computed(() => listState(this.mail));
-  protected readonly errorText = computed(() => describeApiError(this.mail.error()));
+  protected readonly store = inject(MailboxStore);
 }

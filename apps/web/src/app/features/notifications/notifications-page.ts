@@ -1,11 +1,11 @@
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import { type NotificationSettings, endpoints } from '@tierscope/contracts';
+import { type NotificationSettings } from '@tierscope/contracts';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
-import { LoadState, loadStatus } from '../../shared/ui/load-state';
-import { ApiClient } from '../../core/http/api-client';
+import { LoadState } from '../../shared/ui/load-state';
+import { NotificationsStore } from './notifications-store';
 
 interface Choice {
   key: keyof NotificationSettings;
@@ -22,20 +22,20 @@ interface Choice {
   template: `
     <div class="ts-page narrow">
       <h1 class="ts-page-title">Notifications</h1>
-      <p class="ts-muted">Mail goes to {{ email() }}. Changes are saved at once.</p>
+      <p class="ts-muted">Mail goes to {{ store.email() }}. Changes are saved at once.</p>
       <ts-load-state
-        [state]="state()"
+        [state]="store.loadStatus()"
         loadingText="Loading your choices…"
-        [errorText]="errorText()"
-        (retry)="settings.reload()"
+        [errorText]="store.errorText()"
+        (retry)="store.settings.reload()"
       />
-      @if (settings.value(); as current) {
+      @if (store.settings.value(); as current) {
         <ul class="choices">
           @for (c of choices; track c.key) {
             <li>
               <mat-slide-toggle
                 [checked]="current[c.key]"
-                [disabled]="isSaving()"
+                [disabled]="store.isSaving()"
                 (change)="save(c.key, $event.checked)"
                 >{{ c.label }}</mat-slide-toggle
               >
@@ -71,15 +71,10 @@ interface Choice {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class NotificationsPage {
-  private readonly api = inject(ApiClient);
+  protected readonly store = inject(NotificationsStore);
   private readonly auth = inject(AuthStore);
   private readonly snackBar = inject(MatSnackBar);
 
-  protected readonly settings = this.api.resource(endpoints.notifications.settings, () => ({}));
-  protected readonly state = computed(() => loadStatus(this.settings));
-  protected readonly errorText = computed(() => describeApiError(this.settings.error()));
-  protected readonly email = computed(() => this.auth.user()?.email ?? '');
-  protected readonly isSaving = signal(false);
   protected readonly choices: Choice[] = [
     {
       key: 'newExceptions',
@@ -103,18 +98,11 @@ export class NotificationsPage {
   ];
 
   protected async save(key: keyof NotificationSettings, value: boolean): Promise<void> {
-    this.isSaving.set(true);
     try {
-      const saved = await this.api.call(endpoints.notifications.saveSettings, {
-        body: { [key]: value },
-      });
-      this.settings.set(saved);
+      await this.store.save(key, value);
       this.snackBar.open('Saved', undefined, { duration: 1500 });
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
-      this.settings.reload();
-    } finally {
-      this.isSaving.set(false);
     }
   }
 }

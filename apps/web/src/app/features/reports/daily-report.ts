@@ -2,11 +2,9 @@ import { DecimalPipe } from '@angular/common';
 import {
   ChangeDetectionStrategy,
   Component,
-  computed,
   effect,
   inject,
   input,
-  linkedSignal,
   viewChild,
 } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
@@ -19,14 +17,12 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatSort, MatSortModule } from '@angular/material/sort';
 import { MatTableDataSource, MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
-import { type DailyReport, endpoints } from '@tierscope/contracts';
+import { type DailyReport } from '@tierscope/contracts';
 import { EXCEPTION_KIND_LABELS, type ExceptionKind } from '@tierscope/domain';
-import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { FarmSelect } from '../../shared/ui/farm-select';
-import { LoadState, loadStatus } from '../../shared/ui/load-state';
-import { localDay } from '../../shared/ui/local-dates';
-import { ApiClient } from '../../core/http/api-client';
+import { LoadState } from '../../shared/ui/load-state';
+import { DailyReportStore } from './reports-store';
 
 type SectionLine = DailyReport['sections'][number];
 
@@ -55,42 +51,22 @@ export class DailyReportView {
   /** a house to open with (from ?houseId=) */
   readonly initialHouseId = input<number | null>(null);
 
-  private readonly auth = inject(AuthStore);
-  private readonly api = inject(ApiClient);
+  protected readonly store = inject(DailyReportStore);
   private readonly snackBar = inject(MatSnackBar);
 
-  protected readonly farms = this.auth.memberships;
-  protected readonly farmId = linkedSignal(() => this.farms()[0]?.farmId ?? null);
-  protected readonly houses = this.api.resource(endpoints.houses.listByFarm, () => {
-    const farm = this.farmId();
-    return farm === null ? undefined : { params: { farmId: farm } };
-  });
-  protected readonly houseId = linkedSignal<number | null>(() => {
-    const wanted = this.initialHouseId();
-    const list = this.houses.value() ?? [];
-    return list.find((h) => h.id === wanted)?.id ?? list[0]?.id ?? null;
-  });
-  protected readonly day = linkedSignal(() => localDay(1));
-  protected readonly report = this.api.resource(endpoints.reports.daily, () => {
-    const house = this.houseId();
-    return house === null ? undefined : { query: { houseId: house, day: this.day() } };
-  });
-  protected readonly state = computed(() =>
-    loadStatus(this.report, (report) => report.totals.belts === 0),
-  );
-  protected readonly errorText = computed(() => describeApiError(this.report.error()));
   protected readonly columns = ['row', 'tier', 'eggs', 'expected', 'ratio', 'exception'];
   protected readonly table = new MatTableDataSource<SectionLine>([]);
   private readonly sort = viewChild(MatSort);
   private readonly paginator = viewChild(MatPaginator);
 
   constructor() {
+    this.store.followHouseParam(() => this.initialHouseId());
     this.table.sortingDataAccessor = (line, column) => {
       const value = line[column as keyof SectionLine];
       return typeof value === 'number' ? value : typeof value === 'string' ? value : -1;
     };
     effect(() => {
-      this.table.data = this.report.value()?.sections ?? [];
+      this.table.data = this.store.report.value()?.sections ?? [];
     });
     effect(() => {
       const sort = this.sort();
@@ -109,12 +85,8 @@ export class DailyReportView {
   }
 
   protected async exportCsv(): Promise<void> {
-    const house = this.houseId();
-    if (house === null) return;
     try {
-      await this.api.download(endpoints.reports.dailyCsv, `daily-report-${this.day()}.csv`, {
-        query: { houseId: house, day: this.day() },
-      });
+      await this.store.downloadCsv();
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
     }

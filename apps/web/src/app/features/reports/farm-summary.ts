@@ -1,24 +1,14 @@
 import { DecimalPipe } from '@angular/common';
-import {
-  ChangeDetectionStrategy,
-  Component,
-  computed,
-  inject,
-  linkedSignal,
-  signal,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatTableModule } from '@angular/material/table';
-import { type FarmSummary, endpoints } from '@tierscope/contracts';
+import { type FarmSummary } from '@tierscope/contracts';
 import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
-import { AuthStore } from '../../core/auth/auth-store';
-import { describeApiError } from '../../core/http/api-error';
 import { FarmSelect } from '../../shared/ui/farm-select';
-import { LoadState, loadStatus } from '../../shared/ui/load-state';
-import { localDay } from '../../shared/ui/local-dates';
-import { ApiClient } from '../../core/http/api-client';
+import { LoadState } from '../../shared/ui/load-state';
+import { FarmSummaryStore } from './reports-store';
 
 /** Okabe & Ito's colour-blind-safe palette ("Color Universal Design", 2002), one colour per house. */
 const HOUSE_COLOURS = [
@@ -49,22 +39,7 @@ const HOUSE_COLOURS = [
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class FarmSummaryView {
-  private readonly auth = inject(AuthStore);
-  private readonly api = inject(ApiClient);
-  protected readonly farms = this.auth.memberships;
-  protected readonly farmId = linkedSignal(() => this.farms()[0]?.farmId ?? null);
-  protected readonly from = signal(localDay(14));
-  protected readonly to = signal(localDay(1));
-  protected readonly summary = this.api.resource(endpoints.reports.farm, () => {
-    const farm = this.farmId();
-    return farm === null
-      ? undefined
-      : { query: { farmId: farm, from: this.from(), to: this.to() } };
-  });
-  protected readonly state = computed(() =>
-    loadStatus(this.summary, (summary) => summary.houses.length === 0),
-  );
-  protected readonly errorText = computed(() => describeApiError(this.summary.error()));
+  protected readonly store = inject(FarmSummaryStore);
   protected readonly columns = [
     'house',
     'eggs',
@@ -75,7 +50,7 @@ export class FarmSummaryView {
     'value',
   ];
   protected readonly chart = computed(() => {
-    const s = this.summary.value();
+    const s = this.store.summary.value();
     return s ? eggsChart(s) : null;
   });
 }

@@ -1,24 +1,15 @@
 import { DecimalPipe } from '@angular/common';
-import {
-  ChangeDetectionStrategy,
-  Component,
-  computed,
-  inject,
-  linkedSignal,
-  signal,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatTableModule } from '@angular/material/table';
-import { type WorkOrderReport, endpoints } from '@tierscope/contracts';
-import { can, FINDING_CAUSE_LABELS, FINDING_CAUSES } from '@tierscope/domain';
+import { type WorkOrderReport } from '@tierscope/contracts';
+import { FINDING_CAUSE_LABELS, FINDING_CAUSES } from '@tierscope/domain';
 import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
-import { AuthStore } from '../../core/auth/auth-store';
-import { describeApiError } from '../../core/http/api-error';
 import { FarmSelect } from '../../shared/ui/farm-select';
-import { LoadState, loadStatus } from '../../shared/ui/load-state';
-import { ApiClient } from '../../core/http/api-client';
+import { LoadState } from '../../shared/ui/load-state';
+import { WorkOrderReportStore } from './reports-store';
 
 /** Colour-blind-safe categorical colours (Okabe & Ito, "Color Universal Design", 2002), one per cause. */
 const CAUSE_COLOURS = [
@@ -49,29 +40,10 @@ const CAUSE_COLOURS = [
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class WorkOrderReportView {
-  private readonly api = inject(ApiClient);
-  private readonly auth = inject(AuthStore);
-  protected readonly farms = computed(() =>
-    this.auth.memberships().filter((m) => can(m.role, 'workOrders.manage')),
-  );
-  protected readonly farmId = linkedSignal(() => this.farms()[0]?.farmId ?? null);
-  protected readonly to = signal(new Date().toISOString().slice(0, 10));
-  protected readonly from = signal(
-    new Date(Date.now() - 29 * 86_400_000).toISOString().slice(0, 10),
-  );
-
-  protected readonly report = this.api.resource(endpoints.reports.workOrders, () => {
-    const farm = this.farmId();
-    if (farm === null || !this.from() || !this.to()) return undefined;
-    return { query: { farmId: farm, from: this.from(), to: this.to() } };
-  });
-  protected readonly state = computed(() =>
-    loadStatus(this.report, (report) => report.houses.length === 0),
-  );
-  protected readonly errorText = computed(() => describeApiError(this.report.error()));
+  protected readonly store = inject(WorkOrderReportStore);
   protected readonly columns = ['house', 'done', 'fromExceptions', 'median', 'max', 'topCause'];
   protected readonly chart = computed(() => {
-    const report = this.report.value();
+    const report = this.store.report.value();
     return report ? causeChart(report) : null;
   });
 

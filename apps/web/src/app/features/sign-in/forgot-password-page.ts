@@ -6,10 +6,10 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
-import { forgotPasswordSchema, endpoints } from '@tierscope/contracts';
+import { forgotPasswordSchema } from '@tierscope/contracts';
 import { describeApiError } from '../../core/http/api-error';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
-import { ApiClient } from '../../core/http/api-client';
+import { AuthStore } from '../../core/auth/auth-store';
 
 /** Asks for a reset link; says the same whether or not the address has an account. */
 @Component({
@@ -59,7 +59,7 @@ import { ApiClient } from '../../core/http/api-client';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ForgotPasswordPage {
-  private readonly api = inject(ApiClient);
+  private readonly auth = inject(AuthStore);
   protected readonly form = inject(NonNullableFormBuilder).group({
     email: ['', zodValidator(forgotPasswordSchema.shape.email)],
   });
@@ -76,10 +76,8 @@ export class ForgotPasswordPage {
     this.isBusy.set(true);
     this.error.set(null);
     try {
-      const answer = await this.api.call(endpoints.auth.forgotPassword, {
-        body: this.form.getRawValue(),
-      });
-      this.sentMessage.set(`${answer.message} Check your inbox; the link works for an hour.`);
+      const message = await this.auth.requestPasswordReset(this.form.getRawValue());
+      this.sentMessage.set(`${message} Check your inbox; the link works for an hour.`);
     } catch (error) {
       this.error.set(describeApiError(error));
     } finally {

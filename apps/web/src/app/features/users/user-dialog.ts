@@ -12,11 +12,11 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import { userCreateSchema, type Membership, type User, endpoints } from '@tierscope/contracts';
+import { userCreateSchema, type Membership, type User } from '@tierscope/contracts';
 import { ROLES, type Role } from '@tierscope/domain';
 import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
-import { ApiClient } from '../../core/http/api-client';
+import { UsersApi } from './users-api';
 
 export interface UserDialogData {
   /** Absent when adding a user. */
@@ -65,7 +65,7 @@ function emptyOr(validator: ValidatorFn): ValidatorFn {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class UserDialog {
-  private readonly api = inject(ApiClient);
+  private readonly api = inject(UsersApi);
   private readonly dialogRef = inject(MatDialogRef<UserDialog, User>);
   protected readonly data = inject<UserDialogData>(MAT_DIALOG_DATA);
   protected readonly isEdit = this.data.user !== undefined;
@@ -105,12 +105,12 @@ export class UserDialog {
     try {
       const { email, name, password } = this.form.getRawValue();
       const saved = this.data.user
-        ? await this.api.call(endpoints.users.update, {
-            params: { userId: this.data.user.id },
-            body: { name, memberships },
-          })
-        : await this.api.call(endpoints.users.create, {
-            body: { email, name, ...(password === '' ? {} : { password }), memberships },
+        ? await this.api.update(this.data.user.id, { name, memberships })
+        : await this.api.create({
+            email,
+            name,
+            ...(password === '' ? {} : { password }),
+            memberships,
           });
       this.dialogRef.close(saved);
     } catch (error) {

@@ -1,7 +1,6 @@
 import {
   ChangeDetectionStrategy,
   Component,
-  computed,
   effect,
   inject,
   untracked,
@@ -15,19 +14,14 @@ import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/materia
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import {
-  workOrderCreateSchema,
-  type ExceptionView,
-  type WorkOrder,
-  endpoints,
-} from '@tierscope/contracts';
-import { can, WORK_ORDER_PRIORITIES, type WorkOrderPriority } from '@tierscope/domain';
+import { workOrderCreateSchema, type ExceptionView, type WorkOrder } from '@tierscope/contracts';
+import { WORK_ORDER_PRIORITIES, type WorkOrderPriority } from '@tierscope/domain';
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
 import { PRIORITY_LABELS } from './work-order-labels';
+import { HousesApi } from '../../core/http/houses-api';
 import { WorkOrdersApi } from './work-orders-api';
-import { ApiClient } from '../../core/http/api-client';
 
 export interface WorkOrderDialogData {
   /** open it from this exception: its house and spot are taken, its likely checks become the checklist */
@@ -77,13 +71,10 @@ export class WorkOrderDialog {
   protected readonly data = inject<WorkOrderDialogData>(MAT_DIALOG_DATA);
   private readonly ref = inject(MatDialogRef<WorkOrderDialog, WorkOrder>);
   private readonly api = inject(WorkOrdersApi);
-  private readonly client = inject(ApiClient);
   private readonly auth = inject(AuthStore);
 
   protected readonly priorities = WORK_ORDER_PRIORITIES.map((p) => [p, PRIORITY_LABELS[p]]);
-  protected readonly farms = computed(() =>
-    this.auth.memberships().filter((m) => can(m.role, 'workOrders.manage')),
-  );
+  protected readonly farms = this.auth.farmsWith('workOrders.manage');
   private readonly fb = inject(NonNullableFormBuilder);
   protected readonly form = this.fb.group({
     farmId: [this.data.exception?.farmId ?? this.farms()[0]?.farmId ?? 0],
@@ -102,12 +93,10 @@ export class WorkOrderDialog {
   private readonly farmId = toSignal(this.form.controls.farmId.valueChanges, {
     initialValue: this.form.controls.farmId.value,
   });
-  protected readonly houses = this.client.resource(endpoints.houses.listByFarm, () =>
-    this.data.exception ? undefined : { params: { farmId: this.farmId() } },
+  protected readonly houses = inject(HousesApi).housesOfFarm(() =>
+    this.data.exception ? null : this.farmId(),
   );
-  protected readonly assignees = this.client.resource(endpoints.workOrders.assignees, () => ({
-    params: { farmId: this.farmId() },
-  }));
+  protected readonly assignees = this.api.assignees(this.farmId);
   private readonly houseId = toSignal(this.form.controls.houseId.valueChanges, {
     initialValue: this.form.controls.houseId.value,
   });

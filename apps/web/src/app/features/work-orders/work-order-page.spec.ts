@@ -4,6 +4,7 @@ import { TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
 import type { WorkOrder } from '@tierscope/contracts';
 import { WorkOrderPage } from './work-order-page';
+import { WorkOrderStore } from './work-order-store';
 
 const order: WorkOrder = {
   id: 12,
@@ -47,7 +48,8 @@ const order: WorkOrder = {
 async function setup() {
   TestBed.configureTestingModule({
     imports: [WorkOrderPage],
-    providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()],
+    // The page's store, as its route provides it.
+    providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting(), WorkOrderStore],
   });
   const fixture = TestBed.createComponent(WorkOrderPage);
   fixture.componentRef.setInput('workOrderId', '12');

@@ -3,11 +3,9 @@ import {
   ChangeDetectionStrategy,
   Component,
   computed,
-  DestroyRef,
   effect,
   inject,
   input,
-  linkedSignal,
   signal,
 } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
@@ -20,7 +18,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { RouterLink } from '@angular/router';
-import { type WorkOrder, type WorkOrderUpdate, endpoints } from '@tierscope/contracts';
+import { type WorkOrderUpdate } from '@tierscope/contracts';
 import {
   FINDING_CAUSE_LABELS,
   FINDING_CAUSES,
@@ -32,12 +30,10 @@ import {
   type WorkOrderPriority,
   type WorkOrderState,
 } from '@tierscope/domain';
-import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
-import { LoadState, type LoadStatus } from '../../shared/ui/load-state';
+import { LoadState } from '../../shared/ui/load-state';
 import { PRIORITY_LABELS, spotOf } from './work-order-labels';
-import { WorkOrdersApi } from './work-orders-api';
-import { ApiClient } from '../../core/http/api-client';
+import { WorkOrderStore } from './work-order-store';
 
 /** One work order: where, why, the safety cautions, the checklist, findings, photos and its state. */
 @Component({
@@ -64,28 +60,11 @@ export class WorkOrderPage {
   /** from the route */
   readonly workOrderId = input.required<string>();
 
-  private readonly api = inject(WorkOrdersApi);
-  private readonly client = inject(ApiClient);
-  private readonly auth = inject(AuthStore);
+  protected readonly store = inject(WorkOrderStore);
   private readonly snackBar = inject(MatSnackBar);
 
-  private readonly resource = this.client.resource(endpoints.workOrders.get, () => ({
-    params: { workOrderId: Number(this.workOrderId()) },
-  }));
   /** The order as last read or as the last change answered it. */
-  protected readonly order = linkedSignal<WorkOrder | undefined>(() =>
-    this.resource.hasValue() ? this.resource.value() : undefined,
-  );
-  protected readonly loadState = computed((): LoadStatus => {
-    if (this.order()) return 'ready';
-    if (this.resource.error()) return 'error';
-    return 'loading';
-  });
-  protected readonly errorText = computed(() => describeApiError(this.resource.error()));
-  protected readonly assignees = this.client.resource(endpoints.workOrders.assignees, () => {
-    const o = this.order();
-    return o?.canEdit ? { params: { farmId: o.farmId } } : undefined;
-  });
+  protected readonly order = this.store.order;
   protected readonly cautions = computed(() => {
     const o = this.order();
     return o ? safetyCautions({ tier: o.tier, tiers: o.tiers }) : [];
@@ -99,22 +78,6 @@ export class WorkOrderPage {
   protected readonly stateLabels = WORK_ORDER_STATE_LABELS;
   protected readonly priorityLabels = PRIORITY_LABELS;
   protected readonly spotOf = spotOf;
-  protected readonly isBusy = signal(false);
-  protected readonly isUploading = signal(false);
-  protected readonly photoUrls = signal<Record<number, string>>({});
-  /** Managers go back to every work order; the crew to their own. */
-  protected readonly canSeeAll = computed(() => this.auth.hasPermission('workOrders.manage'));
-  protected readonly canCloseException = computed(() => {
-    const o = this.order();
-    return (
-      !!o &&
-      o.exceptionId !== null &&
-      o.exceptionStatus !== null &&
-      o.exceptionStatus !== 'closed' &&
-      this.auth.hasPermission('exceptions.acknowledge', o.farmId)
-    );
-  });
-
   private readonly fb = inject(NonNullableFormBuilder);
   protected readonly findings = this.fb.group({
     cause: this.fb.control<FindingCause | ''>(''),
@@ -125,6 +88,10 @@ export class WorkOrderPage {
   protected readonly isCancelling = signal(false);
 
   constructor() {
+    this.store.followOrder(() => {
+      const id = Number(this.workOrderId());
+      return Number.isInteger(id) && id > 0 ? id : null;
+    });
     // Findings shown are the order's own whenever a fresh copy arrives, unless the user is typing some:
     // a tick or a photo must never wipe findings not saved yet.
     effect(() => {
@@ -135,37 +102,19 @@ export class WorkOrderPage {
     // Photos need the bearer token, so each is fetched once and shown from an object URL.
     effect(() => {
       const o = this.order();
-      if (!o) return;
-      for (const photo of o.photos) {
-        if (this.photoUrls()[photo.id]) continue;
-        this.api.photoUrl(o.id, photo.id).then(
-          (url) => {
-            this.photoUrls.update((all) => ({ ...all, [photo.id]: url }));
-          },
-          () => undefined, // a missing photo stays a placeholder; the rest of the page works
-        );
-      }
-    });
-    inject(DestroyRef).onDestroy(() => {
-      for (const url of Object.values(this.photoUrls())) URL.revokeObjectURL(url);
+      if (o) this.store.fetchPhotos(o);
     });
   }
 
-  protected reload(): void {
-    this.resource.reload();
-  }
-
-  private async change(work: () => Promise<WorkOrder>, done: string): Promise<boolean> {
-    this.isBusy.set(true);
+  /** Makes one change through the store and says how it went. */
+  private async change(work: () => Promise<void>, done: string): Promise<boolean> {
     try {
-      this.order.set(await work());
+      await work();
       this.snackBar.open(done, undefined, { duration: 2500 });
       return true;
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
       return false;
-    } finally {
-      this.isBusy.set(false);
     }
   }
 
@@ -173,7 +122,7 @@ export class WorkOrderPage {
     const o = this.order();
     if (!o) return;
     await this.change(
-      () => this.api.setChecklistItem(o.id, itemId, isChecked),
+      () => this.store.setChecklistItem(itemId, isChecked),
       isChecked ? 'Ticked' : 'Unticked',
     );
   }
@@ -192,7 +141,7 @@ export class WorkOrderPage {
       }
       input.findingCause = f.cause;
       input.findingNotes = f.notes;
-      if (this.canCloseException() && f.closeException) input.closeException = true;
+      if (this.store.canCloseException() && f.closeException) input.closeException = true;
     }
     if (state === 'cancelled') {
       const reason = this.cancelForm.getRawValue().reason.trim();
@@ -209,7 +158,7 @@ export class WorkOrderPage {
       done: 'Marked done. Thank you.',
       cancelled: 'Cancelled',
     };
-    if (await this.change(() => this.api.update(o.id, input), words[state])) {
+    if (await this.change(() => this.store.update(input), words[state])) {
       this.isCancelling.set(false);
       this.findings.markAsPristine();
     }
@@ -221,7 +170,7 @@ export class WorkOrderPage {
     const f = this.findings.getRawValue();
     const isSaved = await this.change(
       () =>
-        this.api.update(o.id, {
+        this.store.update({
           findingCause: f.cause === '' ? null : f.cause,
           findingNotes: f.notes,
         }),
@@ -233,20 +182,20 @@ export class WorkOrderPage {
   protected async reassign(assigneeId: number | null): Promise<void> {
     const o = this.order();
     if (!o) return;
-    await this.change(() => this.api.update(o.id, { assigneeId }), 'Assignment changed');
+    await this.change(() => this.store.update({ assigneeId }), 'Assignment changed');
   }
 
   protected async setPriority(priority: WorkOrderPriority): Promise<void> {
     const o = this.order();
     if (!o) return;
-    await this.change(() => this.api.update(o.id, { priority }), 'Priority changed');
+    await this.change(() => this.store.update({ priority }), 'Priority changed');
   }
 
   protected async setDue(dueOn: string): Promise<void> {
     const o = this.order();
     if (!o) return;
     await this.change(
-      () => this.api.update(o.id, { dueOn: dueOn === '' ? null : dueOn }),
+      () => this.store.update({ dueOn: dueOn === '' ? null : dueOn }),
       'Due date changed',
     );
   }
@@ -256,9 +205,8 @@ export class WorkOrderPage {
     const picker = event.target as HTMLInputElement;
     const files = [...(picker.files ?? [])];
     if (!o || files.length === 0) return;
-    this.isUploading.set(true);
     try {
-      this.order.set(await this.api.addPhotos(o.id, files));
+      await this.store.addPhotos(files);
       this.snackBar.open(
         files.length === 1 ? 'Photo added' : `${files.length} photos added`,
         undefined,
@@ -269,7 +217,6 @@ export class WorkOrderPage {
     } catch (error) {
       this.snackBar.open(describeApiError(error), 'Dismiss');
     } finally {
-      this.isUploading.set(false);
       picker.value = '';
     }
   }

@@ -8,10 +8,34 @@ import {
 } from '@tierscope/contracts';
 import { ApiClient } from '../../core/http/api-client';
 
-/** Calls that change work orders; lists and details are read as resources where they are shown. */
+/** The work-order endpoints as the web app uses them: reads as resources, changes as calls. */
 @Injectable({ providedIn: 'root' })
 export class WorkOrdersApi {
   private readonly api = inject(ApiClient);
+
+  /** Orders matching `query()`, read again when it changes (nothing while it is undefined). */
+  list(query: () => Partial<WorkOrdersQuery> | undefined) {
+    return this.api.resource(endpoints.workOrders.list, () => {
+      const given = query();
+      return given && { query: given };
+    });
+  }
+
+  /** One order with its checklist, photos and history (nothing while the id is null). */
+  get(workOrderId: () => number | null) {
+    return this.api.resource(endpoints.workOrders.get, () => {
+      const id = workOrderId();
+      return id === null ? undefined : { params: { workOrderId: id } };
+    });
+  }
+
+  /** The people a farm's orders may be handed to (nothing while no farm is known). */
+  assignees(farmId: () => number | null) {
+    return this.api.resource(endpoints.workOrders.assignees, () => {
+      const id = farmId();
+      return id === null ? undefined : { params: { farmId: id } };
+    });
+  }
 
   create(input: WorkOrderCreate): Promise<WorkOrder> {
     return this.api.call(endpoints.workOrders.create, { body: input });

@@ -1,26 +1,8 @@
 import type { WorkOrderSummary } from '@tierscope/contracts';
-import { sortOrders } from './work-orders-page';
+import { workOrderSummary } from '../../../testing/fixtures';
+import { sortOrders } from './work-order-sort';
 
-const base: WorkOrderSummary = {
-  id: 1,
-  farmId: 1,
-  farmName: 'F',
-  houseId: 1,
-  houseName: 'House 1',
-  row: 1,
-  tier: 1,
-  title: 'a',
-  priority: 'normal',
-  state: 'open',
-  assignee: null,
-  dueOn: null,
-  isOverdue: false,
-  exceptionId: null,
-  checklistDone: 0,
-  checklistTotal: 0,
-  createdAt: '2026-12-01T00:00:00.000Z',
-  doneAt: null,
-};
+const base = workOrderSummary(1);
 
 describe('sortOrders', () => {
   const list: WorkOrderSummary[] = [

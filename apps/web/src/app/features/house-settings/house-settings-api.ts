@@ -1,0 +1,13 @@
+import { inject, Injectable } from '@angular/core';
+import { endpoints, type HouseUpdate, type HouseWithCounters } from '@tierscope/contracts';
+import { ApiClient } from '../../core/http/api-client';
+
+/** The house endpoints the settings page uses. */
+@Injectable({ providedIn: 'root' })
+export class HouseSettingsApi {
+  private readonly api = inject(ApiClient);
+
+  update(houseId: number, changes: HouseUpdate): Promise<HouseWithCounters> {
+    return this.api.call(endpoints.houses.update, { params: { houseId }, body: changes });
+  }
+}

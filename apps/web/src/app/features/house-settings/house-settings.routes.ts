@@ -1,0 +1,12 @@
+import type { Routes } from '@angular/router';
+import { HouseSettingsPage } from './house-settings-page';
+import { HouseSettingsStore } from './house-settings-store';
+
+export default [
+  {
+    path: '',
+    title: 'House settings · Tierscope',
+    providers: [HouseSettingsStore],
+    component: HouseSettingsPage,
+  },
+] satisfies Routes;
