@@ -1,3 +1,5 @@
+// Longer than ~350 lines on purpose: it is the authorisation matrix itself — every endpoint × every role ×
+// own and other farm — with the fixtures each route needs in one place.
 import { insertHouseWithLayout, schema } from '@tierscope/db';
 import { createTestDatabase } from '@tierscope/db/testing';
 import { can, ROLES, type Role } from '@tierscope/domain';

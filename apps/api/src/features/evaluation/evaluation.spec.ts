@@ -1,3 +1,5 @@
+// Longer than ~350 lines on purpose: one database and one API share the engine's live cases (each a planted
+// fault and what it must and must not raise); splitting them would set the house up again per file.
 import { createServer, type Server } from 'node:http';
 import { createTestDatabase } from '@tierscope/db/testing';
 import { sql } from 'drizzle-orm';

@@ -1,3 +1,5 @@
+// Longer than ~350 lines on purpose: every import case (layouts, clocks, bad lines, retries, cancel, mappings)
+// against one test database; the upload set-up is shared by all of them.
 import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';

@@ -1,3 +1,5 @@
+// Longer than ~350 lines on purpose: every ingest rule (keys, duplicates, retries, clocks, limits) against one
+// test database, each case a few lines; one file keeps the gateway set-up in one place.
 import { createTestDatabase } from '@tierscope/db/testing';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';

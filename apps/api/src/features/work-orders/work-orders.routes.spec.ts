@@ -1,3 +1,5 @@
+// Longer than ~350 lines on purpose: the work-order routes' whole life (create, assign, checklist, photos,
+// states, roles, CSV) against one test database, each case on its own order.
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
