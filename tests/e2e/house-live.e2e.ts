@@ -13,7 +13,8 @@ let dir: string;
 beforeAll(async () => {
   harness = await startHarness();
   dir = mkdtempSync(join(tmpdir(), 'tierscope-e2e-sim-'));
-  // The simulator plants a feed-line fault in House 1, row 3, for the last two days of a week of history.
+  // The simulator plants a feed-line fault in House 1, row 3, for the last two days of a week of history,
+  // and a dead belt counter in House 2, row 2, tier 1, for the last 30 hours.
   const farmFiles = await prepareSimulatorFarms({
     apiUrl: harness.baseUrl,
     dataDir: dir,
@@ -37,6 +38,8 @@ beforeAll(async () => {
       '0',
       '--fault',
       'feed:house=House 1,row=3,drop=0.2,from=-2d',
+      '--fault',
+      'silent:house=House 2,row=2,tier=1,from=-30h',
     ],
     { cwd: ROOT, stdio: ['ignore', 'ignore', 'inherit'] },
   );
@@ -139,6 +142,34 @@ describe('the house live page', () => {
     await row.getByRole('button', { name: 'Acknowledge' }).click();
     await row.getByText('Acknowledged by Morgan Manager').waitFor();
     await screenshot(page, 'exceptions');
+    await page.close();
+  });
+
+  it('says since when a dead counter is silent, what its peers counted by now and what it missed', async () => {
+    const page = await harness.browser.newPage({ viewport: { width: 1280, height: 1000 } });
+    await signIn(page, harness.baseUrl, 'manager@bramblewood.test');
+    await page.getByRole('heading', { name: 'North Ridge' }).waitFor();
+    await page.getByRole('link', { name: 'Live map of House 2' }).click();
+    const cell = page.locator(
+      '[data-testid="map-table"] tr[data-row="2"][data-tier="1"][data-exception="silent_counter"]',
+    );
+    await cell.waitFor({ state: 'attached', timeout: 90_000 });
+    // Row 2 of 6 is the grid's second column; tier 1 is its bottom band (the chart's margins: left 64,
+    // right 16, top 8, bottom 64).
+    const box = await page.locator('ts-house-heat-map canvas').first().boundingBox();
+    expect(box).not.toBeNull();
+    const x = box!.x + 64 + ((box!.width - 80) / 6) * 1.5;
+    const y = box!.y + 8 + ((box!.height - 72) / 3) * 2.5;
+    await page.mouse.click(x, y);
+    await page.getByRole('heading', { name: 'Row 2, tier 1' }).waitFor();
+    const words = (await page.getByTestId('silence').textContent()) ?? '';
+    // Since when (its last counted egg, on the house's clock) and for how long: it died 30 hours ago.
+    expect(words).toMatch(/Counted nothing since .+ \(1 day( \d+ h)?\)/);
+    expect(words).toMatch(/not counted since it went silent/);
+    // The eggs it missed include at least a whole day's share of a section, never "about 0".
+    const missed = Number(/About ([\d,]+) eggs not counted/.exec(words)?.[1]?.replace(/,/g, ''));
+    expect(missed).toBeGreaterThan(500);
+    await screenshot(page, 'house-live-silent-counter');
     await page.close();
   });
 

@@ -200,6 +200,14 @@ export const cellDetailSchema = z.object({
     z.object({ day: z.string(), eggs: z.number().nullable(), expected: z.number().nullable() }),
   ),
   exception: exceptionSchema.nullable(),
+  /** for a silent counter: since when it counted nothing and what it missed; null otherwise */
+  silence: z
+    .object({
+      since: z.iso.datetime(),
+      usualByNow: z.number().nullable(),
+      notCounted: z.number().int(),
+    })
+    .nullable(),
   likelyChecks: z.array(z.string()),
 });
 export type CellDetail = z.infer<typeof cellDetailSchema>;

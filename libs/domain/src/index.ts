@@ -14,3 +14,4 @@ export * from './detection';
 export * from './house-judgement';
 export * from './baseline';
 export * from './exception-plan';
+export * from './silence';

@@ -98,6 +98,26 @@ export async function beltHorizons(db: Queryable, farmId: number, houseId: numbe
   return horizons;
 }
 
+/** When a section's belt last counted an egg, looking back to `since` (null when it has not since then). */
+export async function lastCountedAt(
+  db: Queryable,
+  farmId: number,
+  houseId: number,
+  row: number,
+  tier: number,
+  since: Date,
+): Promise<Date | null> {
+  // One backward walk down the readings key (farm, counter, ts) per belt counter of the section.
+  const result = await db.execute<{ last_ts: string | null }>(sql`
+    SELECT max((SELECT max(r.ts) FROM readings r
+                 WHERE r.farm_id = ${farmId} AND r.counter_id = c.id AND r.eggs > 0
+                   AND r.ts > ${since.toISOString()}::timestamptz)) AS last_ts
+    FROM counters c JOIN sections s ON s.id = c.section_id
+    WHERE c.house_id = ${houseId} AND c.kind = 'belt' AND s.row = ${row} AND s.tier = ${tier}`);
+  const last = result.rows[0]?.last_ts ?? null;
+  return last === null ? null : new Date(last);
+}
+
 export async function collectorTotal(
   db: Queryable,
   farmId: number,

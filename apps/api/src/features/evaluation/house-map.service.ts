@@ -30,7 +30,7 @@ export interface HouseMapReader {
     row: number,
     tier: number,
     now?: Date,
-  ): Promise<Omit<CellDetail, 'exception' | 'likelyChecks'> | undefined>;
+  ): Promise<Omit<CellDetail, 'exception' | 'silence' | 'likelyChecks'> | undefined>;
   /** The rows × tiers map of a window. */
   buildMap(
     houseId: number,

@@ -1,5 +1,6 @@
 import { insertHouseWithLayout, schema } from '@tierscope/db';
 import { createTestDatabase } from '@tierscope/db/testing';
+import { lastCountedAt } from './evaluation.repository';
 import { addDays } from '@tierscope/domain';
 import { sql } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -109,6 +110,21 @@ describe('one cause, one alarm', () => {
       )
     ).rows;
     expect(silent?.expected).toBeGreaterThan(14);
+  });
+
+  it("finds a dead counter's last counted egg, so its cell says since when it is silent", async () => {
+    // Dead from the start of day 9: its last eggs were in day 8's last light hour (hour 15, read at 16).
+    expect(
+      await lastCountedAt(database.db, fixture.farmA, fixture.houseA, 3, 1, new Date(DAY0)),
+    ).toEqual(new Date(DAY0 + (8 * 24 + 16) * HOUR));
+    // Its neighbour counted up to the newest reading; a look-back after that finds nothing.
+    const newest = new Date(DAY0 + (DAYS * 24 + 10) * HOUR);
+    expect(
+      await lastCountedAt(database.db, fixture.farmA, fixture.houseA, 3, 2, new Date(DAY0)),
+    ).toEqual(newest);
+    expect(
+      await lastCountedAt(database.db, fixture.farmA, fixture.houseA, 3, 2, newest),
+    ).toBeNull();
   });
 
   it('a late gateway is neither a silent counter nor a shortfall: its checkpoint waits for the data', async () => {

@@ -8,13 +8,20 @@ import type {
   MapQuery,
 } from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
-import { likelyChecks, lostValue, productionWindow } from '@tierscope/domain';
+import {
+  likelyChecks,
+  lostValue,
+  productionDayOf,
+  productionWindow,
+  silenceOf,
+} from '@tierscope/domain';
 import { farmsWith, requireFarmPermission } from '../../platform/access';
 import type { RequestContext } from '../../platform/auth';
 import { AppError, notFound } from '../../platform/errors';
 import type { EventBus } from '../../platform/events';
 import { recordAudit } from '../audit/audit.repository';
 import { type ExceptionRow } from '../evaluation/exception-rows.repository';
+import { lastCountedAt } from '../evaluation/evaluation.repository';
 import {
   findException,
   listExceptions,
@@ -22,6 +29,9 @@ import {
 } from '../evaluation/exception-rows.repository';
 import type { EvaluationService } from '../evaluation/evaluation.service';
 import { findHouse } from '../houses/houses.repository';
+
+/** How far back a silent counter's last counted egg is looked for: the cell's 14 days and today. */
+const SILENCE_LOOK_BACK_DAYS = 15;
 
 export interface ExceptionsService {
   list(ctx: RequestContext, query: ExceptionsQuery): Promise<ExceptionView[]>;
@@ -119,6 +129,25 @@ export function createExceptionsService(
     return shown;
   }
 
+  /** A silent counter's cell: since its last counted egg (within the look-back), and what it missed. */
+  async function silenceOfCell(
+    house: { id: number; farmId: number; timezone: string; lightsOn: string },
+    row: number,
+    tier: number,
+    openedAt: string,
+    detail: Pick<CellDetail, 'days' | 'today'>,
+  ) {
+    const lookBack = new Date(Date.now() - SILENCE_LOOK_BACK_DAYS * 86_400_000);
+    const since =
+      (await lastCountedAt(db, house.farmId, house.id, row, tier, lookBack)) ?? new Date(openedAt);
+    return silenceOf({
+      since,
+      sinceDay: productionDayOf(since, house.timezone, house.lightsOn),
+      days: detail.days,
+      today: detail.today,
+    });
+  }
+
   return {
     view,
 
@@ -185,6 +214,10 @@ export function createExceptionsService(
       return {
         ...detail,
         exception,
+        silence:
+          exception?.kind === 'silent_counter' && exception.scope === 'section'
+            ? await silenceOfCell(house, row, tier, exception.openedAt, detail)
+            : null,
         likelyChecks: exception?.likelyChecks ?? likelyChecks('shortfall', 'section'),
       };
     },

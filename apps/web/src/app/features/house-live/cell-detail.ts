@@ -3,7 +3,7 @@ import { ChangeDetectionStrategy, Component, computed, input, output, inject } f
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { type ExceptionView } from '@tierscope/contracts';
-import { measuredWords } from '@tierscope/domain';
+import { durationWords, measuredWords } from '@tierscope/domain';
 import type { EChartsCoreOption } from 'echarts/core';
 import { NgxEchartsDirective } from 'ngx-echarts';
 import { describeApiError } from '../../core/http/api-error';
@@ -43,6 +43,11 @@ export class CellDetail {
   /** When it opened, on the house's own clock with its zone. */
   protected since(iso: string): string {
     return houseTime(iso, this.timezone());
+  }
+
+  /** How long until now, in words ("5 h 10 min"). */
+  protected lasting(iso: string): string {
+    return durationWords(iso, new Date());
   }
 
   private readonly hourLabel = (iso: string) =>
