@@ -1,5 +1,6 @@
 import { chromiumPath } from '../../scripts/chromium';
-import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { createTestDatabase } from '@tierscope/db/testing';
@@ -87,8 +88,18 @@ export async function signIn(
   await page.getByRole('button', { name: 'Sign in' }).click();
 }
 
-export async function screenshot(page: Page, name: string): Promise<void> {
+/**
+ * Saves a full-page screenshot, and checks the same state with axe-core: every state a browser test shows
+ * must have no serious or critical accessibility finding (pass `checks: false` only for pages that are not
+ * ours, such as the API document's viewer).
+ */
+export async function screenshot(
+  page: Page,
+  name: string,
+  { checks = true }: { checks?: boolean } = {},
+): Promise<void> {
   await page.screenshot({ path: join(ARTIFACTS, `${name}.png`), fullPage: true });
+  if (checks) await expectAccessible(page, name);
 }
 
 /**
@@ -103,4 +114,65 @@ export async function dialogCloses(dialog: Locator): Promise<void> {
       throw new Error(`the dialog stayed open: ${await complaint.innerText()}`);
     }),
   ]);
+}
+
+/** One serious or critical axe-core finding, as a line a person can act on. */
+export interface AccessibilityFinding {
+  page: string;
+  rule: string;
+  impact: string;
+  help: string;
+  targets: string[];
+}
+
+const AXE_SOURCE = readFileSync(
+  createRequire(import.meta.url).resolve('axe-core/axe.min.js'),
+  'utf8',
+);
+
+/**
+ * Runs axe-core (WCAG 2 A/AA rules and best practices) on the page as it stands and returns its serious and
+ * critical findings, each with the first few elements it names; `label` says which page and width.
+ */
+export async function accessibilityFindings(
+  page: Page,
+  label: string,
+): Promise<AccessibilityFinding[]> {
+  // Evaluated through the browser's debugging protocol: the app's Content Security Policy rightly refuses
+  // an injected <script>.
+  await page.evaluate(AXE_SOURCE);
+  const violations = await page.evaluate(async () => {
+    const axe = (window as unknown as { axe: { run(context: Document): Promise<AxeResults> } }).axe;
+    interface AxeResults {
+      violations: {
+        id: string;
+        impact: string | null;
+        help: string;
+        nodes: { target: string[] }[];
+      }[];
+    }
+    const results = await axe.run(document);
+    return results.violations.map((v) => ({
+      id: v.id,
+      impact: v.impact ?? '',
+      help: v.help,
+      targets: v.nodes.slice(0, 3).map((n) => n.target.join(' ')),
+    }));
+  });
+  return violations
+    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
+    .map((v) => ({ page: label, rule: v.id, impact: v.impact, help: v.help, targets: v.targets }));
+}
+
+/** The findings as lines for a failed assertion: page, rule, what it asks, the elements it names. */
+export function describeFindings(findings: AccessibilityFinding[]): string {
+  return findings
+    .map((f) => `${f.page}: [${f.impact}] ${f.rule} — ${f.help}\n    ${f.targets.join('\n    ')}`)
+    .join('\n');
+}
+
+/** Fails with axe-core's words when the page as it stands has a serious or critical finding. */
+export async function expectAccessible(page: Page, label: string): Promise<void> {
+  const findings = await accessibilityFindings(page, label);
+  if (findings.length > 0) throw new Error(`accessibility:\n${describeFindings(findings)}`);
 }
