@@ -30,7 +30,13 @@ describe('a manager’s flock and report pages', () => {
     await page.waitForURL('**/farms');
     await page.goto(`${harness.baseUrl}/houses/${houseId}/flock`);
     const figures = page.getByRole('region', { name: 'Flock figures' });
-    await figures.getByText('Hen-day production').waitFor();
+    await figures.getByText('Hen-day, whole flock').waitFor();
+    // How the flock lays now comes first: the last counted day and the last 7 days, in %.
+    expect(await page.getByTestId('hen-day-yesterday').textContent()).toMatch(/\d{2}\.\d %/);
+    expect(await page.getByTestId('hen-day-week').textContent()).toMatch(/\d{2}\.\d %/);
+    // The history's walks end on its last day: the day after has none, and the page says so.
+    const dayAfter = new Date(Date.parse(lastDay) + 86_400_000).toISOString().slice(0, 10);
+    expect(await page.getByTestId('missing-walks').textContent()).toContain(dayAfter);
     // The demo's history follows a lay curve, so the fit is good (R² well above the 0.8 it must reach).
     await expect
       .poll(async () =>

@@ -66,6 +66,8 @@ export const flockProductionSchema = z.object({
       dead: z.number().int(),
       culled: z.number().int(),
       henDayPct: z.number().nullable(),
+      /** whether the day's morning walk (dead and culled) was recorded: 0 dead is a count, not a default */
+      isWalkRecorded: z.boolean(),
     }),
   ),
   weeks: z.array(

@@ -78,6 +78,14 @@ export function henDays(
   return total;
 }
 
+/**
+ * The eggs a house laid, for production figures: the collector's count where it counted (it sees every egg
+ * of the house), else the belts' sum (which misses what a dead counter did not count).
+ */
+export function eggsLaid(belts: number, collector: number | null): number {
+  return collector !== null && collector > 0 ? collector : belts;
+}
+
 /** Hen-day egg production, %: eggs ÷ hen-days × 100 (DAGRIS; IASRI "Production indices – Layers"). */
 export function henDayProductionPct(eggs: number, henDaysTotal: number): number | null {
   return henDaysTotal > 0 ? (100 * eggs) / henDaysTotal : null;

@@ -7,6 +7,7 @@ import {
   productionWindow,
   sectionKey,
   type ProductionWindow,
+  eggsLaid,
 } from '@tierscope/domain';
 import {
   beltHorizons,
@@ -182,7 +183,8 @@ export function createHouseMap(db: Database, baseline: HouseBaseline): HouseMapR
       if (window.isComplete) {
         const hens = await hensAlive(db, house.id, window.firstDay, window.lastDay);
         const henDays = [...hens.values()].reduce((a, b) => a + b, 0);
-        henDayPct = henDays > 0 ? Math.round((belts / henDays) * 1000) / 10 : null;
+        henDayPct =
+          henDays > 0 ? Math.round((eggsLaid(belts, collector) / henDays) * 1000) / 10 : null;
       }
       const open = inWindow.filter((e) => e.status !== 'closed').length;
       return {

@@ -21,6 +21,7 @@ import {
   isFitGoodEnough,
   livabilityPct,
   productionDayOf,
+  eggsLaid,
 } from '@tierscope/domain';
 import { requireFarmPermission } from '../../platform/access';
 import type { RequestContext } from '../../platform/auth';
@@ -212,7 +213,10 @@ export async function computeProduction(
   const days: FlockProduction['days'] = [];
   for (const [day, hens] of alive) {
     const counted = eggs.get(day);
-    const dayEggs = counted?.belts ?? counted?.collector ?? null;
+    const dayEggs =
+      counted && (counted.belts !== null || counted.collector !== null)
+        ? eggsLaid(counted.belts ?? 0, counted.collector)
+        : null;
     const loss = lossByDay.get(day);
     days.push({
       day,
@@ -223,6 +227,7 @@ export async function computeProduction(
       dead: loss?.dead ?? 0,
       culled: loss?.culled ?? 0,
       henDayPct: dayEggs === null ? null : round1(henDayProductionPct(dayEggs, hens)),
+      isWalkRecorded: loss !== undefined,
     });
   }
   const byWeek = new Map<number, typeof days>();

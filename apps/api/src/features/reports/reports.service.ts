@@ -5,7 +5,13 @@ import type {
   FarmSummaryQuery,
 } from '@tierscope/contracts';
 import type { Database } from '@tierscope/db';
-import { henDayProductionPct, lostValue, productionWindow, toCsv } from '@tierscope/domain';
+import {
+  eggsLaid,
+  henDayProductionPct,
+  lostValue,
+  productionWindow,
+  toCsv,
+} from '@tierscope/domain';
 import { requireFarmPermission } from '../../platform/access';
 import type { RequestContext } from '../../platform/auth';
 import { notFound } from '../../platform/errors';
@@ -68,7 +74,9 @@ export function createReportsService(db: Database, evaluation: EvaluationService
             ? round1((100 * (map.collector - map.belts)) / map.belts)
             : null,
         hensAlive: hens,
-        henDayPct: hens ? round1(henDayProductionPct(map.belts, hens)) : null,
+        henDayPct: hens
+          ? round1(henDayProductionPct(eggsLaid(map.belts, map.collector), hens))
+          : null,
       },
       exceptions: exceptions.map((r) => toExceptionView(r.exception, r)),
     };
@@ -105,6 +113,10 @@ export function createReportsService(db: Database, evaluation: EvaluationService
       const houses = found.houses.map((h) => {
         const own = days.filter((d) => d.house_id === h.id);
         const eggs = own.reduce((s, d) => s + d.belts, 0);
+        // Hen-day over the days the house counted (the hen-days below are those days' too).
+        const laid = own
+          .filter((d) => d.belts > 0)
+          .reduce((s, d) => s + eggsLaid(d.belts, d.collector), 0);
         const henDays = own.filter((d) => d.belts > 0).reduce((s, d) => s + (d.hens ?? 0), 0);
         const loss = losses.get(h.id);
         const lost = loss?.lost ?? 0;
@@ -114,18 +126,24 @@ export function createReportsService(db: Database, evaluation: EvaluationService
           eggs,
           collector: own.reduce((s, d) => s + d.collector, 0),
           henDays,
-          henDayPct: round1(henDayProductionPct(eggs, henDays)),
+          henDayPct: round1(henDayProductionPct(laid, henDays)),
           exceptionsOpened: loss?.opened ?? 0,
           eggsLost: lost,
           eggsLostValue: lostValue(lost, h.eggPricePerDozen),
           days: own.map((d) => ({
             day: d.day,
             eggs: d.belts,
-            henDayPct: d.hens && d.belts > 0 ? round1(henDayProductionPct(d.belts, d.hens)) : null,
+            henDayPct:
+              d.hens && d.belts > 0
+                ? round1(henDayProductionPct(eggsLaid(d.belts, d.collector), d.hens))
+                : null,
           })),
         };
       });
       const eggs = houses.reduce((s, h) => s + h.eggs, 0);
+      const laid = days
+        .filter((d) => d.belts > 0)
+        .reduce((s, d) => s + eggsLaid(d.belts, d.collector), 0);
       const henDays = houses.reduce((s, h) => s + h.henDays, 0);
       const values = houses.map((h) => h.eggsLostValue).filter((v): v is number => v !== null);
       return {
@@ -136,7 +154,7 @@ export function createReportsService(db: Database, evaluation: EvaluationService
         houses,
         totals: {
           eggs,
-          henDayPct: round1(henDayProductionPct(eggs, henDays)),
+          henDayPct: round1(henDayProductionPct(laid, henDays)),
           exceptionsOpened: houses.reduce((s, h) => s + h.exceptionsOpened, 0),
           eggsLost: houses.reduce((s, h) => s + h.eggsLost, 0),
           eggsLostValue:

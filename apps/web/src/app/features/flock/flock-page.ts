@@ -31,6 +31,7 @@ import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
 import { LoadState } from '../../shared/ui/load-state';
 import { localDay } from '../../shared/ui/local-dates';
 import { firstError, zodValidator } from '../../shared/ui/zod-validator';
+import { flockHeadline } from './flock-headline';
 import { FlockStore } from './flock-store';
 
 /** A house's flock: placement, the morning walk, hen-day production by week of age against its fitted curve. */
@@ -60,6 +61,11 @@ export class FlockPage {
   private readonly snackBar = inject(MatSnackBar);
   private readonly fb = inject(NonNullableFormBuilder);
 
+  /** Yesterday and the last 7 days before the whole-flock figures, and the walks not recorded. */
+  protected readonly headline = computed(() => {
+    const p = this.store.production.value();
+    return p ? flockHeadline(p.days) : null;
+  });
   protected readonly recentDays = computed(() =>
     [...(this.store.production.value()?.days ?? [])].reverse().slice(0, 14),
   );
