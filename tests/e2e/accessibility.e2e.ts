@@ -3,6 +3,7 @@ import type { Page } from 'playwright-core';
 import {
   accessibilityFindings,
   describeFindings,
+  screenshot,
   signIn,
   startHarness,
   type AccessibilityFinding,
@@ -93,6 +94,28 @@ function importFile(): string {
         );
   return lines.join('\n');
 }
+
+describe('tables on a phone', () => {
+  it('reads each work order as a card with every value on screen, under its column name', async () => {
+    const page = await harness.browser.newPage({ viewport: { width: 390, height: 900 } });
+    await signIn(page, harness.baseUrl, 'admin@bramblewood.test');
+    await page.waitForURL(/\/farms$/);
+    await open(page, '/work-orders');
+    const row = page.getByRole('table', { name: 'Work orders' }).locator('tr.mat-mdc-row').first();
+    await row.waitFor();
+    // Every cell of the row is inside the 390 px screen: nothing to scroll sideways for.
+    const rights = await row
+      .locator('td')
+      .evaluateAll((cells) => cells.map((c) => c.getBoundingClientRect().right));
+    expect(rights.length).toBeGreaterThan(5);
+    expect(Math.max(...rights)).toBeLessThanOrEqual(390);
+    expect(await row.locator('td[data-label="Title"]').textContent()).toContain(
+      'Check the nest curtain',
+    );
+    await screenshot(page, 'work-orders-phone-cards');
+    await page.close();
+  });
+});
 
 describe('accessibility (axe-core, serious and critical)', () => {
   for (const width of [1280, 390]) {

@@ -73,8 +73,10 @@ describe('a flagged row handed to the crew', () => {
     await expect
       .poll(() => page.getByRole('heading', { level: 1 }).textContent())
       .toContain(`#${workOrderId} · Low lay: House 2, row 4 (all tiers)`);
-    // The safety cautions and the deferral to local rules are on every work order.
-    await page.getByText('Lock out and tag out first').waitFor();
+    // The safety cautions and the deferral to local rules are on every work order: the first one above
+    // the checklist, all of them unfolded right after it.
+    const cautions = page.locator('details.safety[open]');
+    await cautions.getByText('Lock out and tag out first').waitFor();
     await page.getByText("site's own safety procedures").waitFor();
     expect(await page.getByRole('checkbox').count()).toBeGreaterThanOrEqual(2);
     await screenshot(page, 'work-order-2-opened');

@@ -80,6 +80,21 @@ describe('WorkOrderPage', () => {
     expect(safety).toContain("site's own safety procedures");
   });
 
+  it('puts the checklist first and the cautions right after it, unfolded, with the first one above it', async () => {
+    const { element } = await setup();
+    const checklist = element.querySelector('#checklist-title');
+    const cautions = element.querySelector<HTMLDetailsElement>('details.safety');
+    expect(checklist && cautions).toBeTruthy();
+    // Document order: the checklist heading comes before the cautions.
+    expect(
+      checklist!.compareDocumentPosition(cautions!) & Node.DOCUMENT_POSITION_FOLLOWING,
+    ).toBeTruthy();
+    expect(cautions!.open).toBe(true);
+    expect(element.querySelector('.safety-line')?.textContent).toContain(
+      'Lock out and tag out first',
+    );
+  });
+
   it('will not mark done without a cause, and sends the findings with it once chosen', async () => {
     const { fixture, element, http, settle } = await setup();
     button(element, 'Mark done').click();
