@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
+import { signInThroughApi } from '../../scripts/processes';
 import {
   accessibilityFindings,
   describeFindings,
@@ -19,7 +20,11 @@ let workOrderId: number;
 
 beforeAll(async () => {
   harness = await startHarness();
-  const token = await tokenOf('admin@bramblewood.test');
+  const { token } = await signInThroughApi(
+    harness.baseUrl,
+    'admin@bramblewood.test',
+    'tierscope-demo',
+  );
   const call = async (path: string, init: RequestInit = {}) => {
     const response = await fetch(`${harness.baseUrl}/api/v1${path}`, {
       ...init,
@@ -46,15 +51,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await harness.stop();
 });
-
-async function tokenOf(email: string): Promise<string> {
-  const response = await fetch(`${harness.baseUrl}/api/v1/auth/login`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json' },
-    body: JSON.stringify({ email, password: 'tierscope-demo' }),
-  });
-  return ((await response.json()) as { token: string }).token;
-}
 
 /** Opens a page and waits until it has settled: its title shown and nothing still loading. */
 async function open(page: Page, path: string): Promise<void> {

@@ -2,7 +2,7 @@ import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, input, inject } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
 import { ratioColor } from '../../shared/ui/ratio-colors';
-import { FarmsApi } from './farms-api';
+import { HouseLiveApi } from '../house-live/house-live-api';
 
 /** A house card's figures: today's eggs, yesterday's hen-day %, open exceptions and a small map. */
 @Component({
@@ -86,11 +86,17 @@ import { FarmsApi } from './farms-api';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class HouseSummary {
-  private readonly api = inject(FarmsApi);
+  private readonly api = inject(HouseLiveApi);
   readonly houseId = input.required<number>();
 
-  protected readonly today = this.api.houseMap(this.houseId, 'today');
-  private readonly yesterday = this.api.houseMap(this.houseId, 'yesterday');
+  protected readonly today = this.api.houseMap(() => ({
+    houseId: this.houseId(),
+    window: 'today',
+  }));
+  private readonly yesterday = this.api.houseMap(() => ({
+    houseId: this.houseId(),
+    window: 'yesterday',
+  }));
   protected readonly henDay = computed(() => this.yesterday.value()?.henDayPct ?? null);
   /** Top tier first, as the house stands. */
   protected readonly cells = computed(() => {

@@ -1,9 +1,9 @@
 import { inject, Injectable } from '@angular/core';
-import { endpoints, type ExceptionsQuery } from '@tierscope/contracts';
+import { endpoints } from '@tierscope/contracts';
 import type { WindowKind } from '@tierscope/domain';
 import { ApiClient } from '../../core/http/api-client';
 
-/** What a house's live page reads over HTTP: past windows of the map, a section's detail, the house's exceptions. */
+/** What a house's live page reads over HTTP: past windows of the map, and a section's detail. */
 @Injectable({ providedIn: 'root' })
 export class HouseLiveApi {
   private readonly api = inject(ApiClient);
@@ -23,9 +23,5 @@ export class HouseLiveApi {
   /** One section's day so far, its last days and its exceptions. */
   cell(input: () => { houseId: number; row: number; tier: number }) {
     return this.api.resource(endpoints.exceptions.cell, () => ({ params: input() }));
-  }
-
-  exceptions(query: () => Partial<ExceptionsQuery>) {
-    return this.api.resource(endpoints.exceptions.list, () => ({ query: query() }));
   }
 }

@@ -4,6 +4,7 @@ import type { WindowKind } from '@tierscope/domain';
 import { describeApiError } from '../../core/http/api-error';
 import { LiveSocket } from '../../core/live/live-socket';
 import type { LoadStatus } from '../../shared/ui/load-state';
+import { ExceptionsApi } from '../exceptions/exceptions-api';
 import { HouseLiveApi } from './house-live-api';
 
 /**
@@ -51,7 +52,7 @@ export class HouseLiveStore {
       ? { houseId, window, from: this.from(), to: this.to() }
       : undefined;
   });
-  readonly exceptions = this.api.exceptions(() => ({
+  readonly exceptions = inject(ExceptionsApi).list(() => ({
     houseId: this.houseId() ?? undefined,
     status: 'live' as const,
   }));
