@@ -52,6 +52,9 @@ export interface ApiProcess {
   stop(): Promise<void>;
 }
 
+/** How long a stopped API process may drain before its process group is killed. */
+const STOP_GRACE_MS = 15_000;
+
 /**
  * The real API (apps/api/src/server.ts) as its own process — one node process with tsx's loader, in its own
  * process group — on a free port, answered health before this resolves.
@@ -75,13 +78,24 @@ export async function startApiProcess(
     async stop() {
       if (child.exitCode !== null || !child.pid) return;
       const exited = new Promise((resolve) => child.once('exit', resolve));
+      const group = child.pid;
       try {
-        process.kill(-child.pid, 'SIGTERM');
+        process.kill(-group, 'SIGTERM');
       } catch {
         // Already gone.
         return;
       }
+      // A shutdown that cannot finish (its database stopped under it, as the outage suite does) must not
+      // hold the caller: well after the drain (1.5 s by default), the group is killed.
+      const killer = setTimeout(() => {
+        try {
+          process.kill(-group, 'SIGKILL');
+        } catch {
+          // Exited meanwhile.
+        }
+      }, STOP_GRACE_MS);
       await exited;
+      clearTimeout(killer);
     },
   };
 }
