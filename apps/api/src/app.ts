@@ -5,6 +5,8 @@ import type { Database } from '@tierscope/db';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
 import { authRoutes } from './features/auth/auth.routes';
+import { countersRoutes } from './features/counters/counters.routes';
+import { createCountersService } from './features/counters/counters.service';
 import { gatewaysRoutes } from './features/gateways/gateways.routes';
 import { createGatewaysService } from './features/gateways/gateways.service';
 import { ingestRoutes } from './features/ingest/ingest.routes';
@@ -222,6 +224,7 @@ export function createApp(deps: AppDeps & { runtime?: Runtime }): Express {
   mount(v1, '/api/v1', housesRoutes(createHousesService(db)));
   mount(v1, '/api/v1', usersRoutes(createUsersService(db, runtime.notifier, events)));
   mount(v1, '/api/v1', gatewaysRoutes(createGatewaysService(db)));
+  mount(v1, '/api/v1', countersRoutes(createCountersService(db, events)));
   mount(v1, '/api/v1', exceptionsRoutes(runtime.exceptions));
   mount(
     v1,

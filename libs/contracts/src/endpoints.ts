@@ -1,4 +1,5 @@
 import { authEndpoints } from './auth.endpoints';
+import { countersEndpoints } from './counters.endpoints';
 import { exceptionsEndpoints } from './exceptions.endpoints';
 import { farmsEndpoints } from './farms.endpoints';
 import { flocksEndpoints } from './flocks.endpoints';
@@ -21,6 +22,7 @@ export const endpoints = {
   houses: housesEndpoints,
   users: usersEndpoints,
   gateways: gatewaysEndpoints,
+  counters: countersEndpoints,
   exceptions: exceptionsEndpoints,
   workOrders: workOrdersEndpoints,
   notifications: notificationsEndpoints,

@@ -3,6 +3,7 @@ export * from './error.schema';
 export * from './auth.schema';
 export * from './farm.schema';
 export * from './house.schema';
+export * from './counter.schema';
 export * from './user.schema';
 export * from './health.schema';
 export * from './ingest.schema';

@@ -15,8 +15,8 @@ export interface DomainEvents {
     eggsAdded: number;
     firstTs: Date;
     lastTs: Date;
-    /** a historical import: replay all of its days, not only the last two months */
-    isImport?: boolean;
+    /** a historical import, or held readings just placed: replay all of their days, not only the last two months */
+    replayAllDays?: boolean;
   };
   /** The shortfall engine evaluated a house; `changed` lists exceptions opened, updated or closed. */
   'house.evaluated': {

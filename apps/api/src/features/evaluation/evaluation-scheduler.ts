@@ -77,11 +77,11 @@ export class EvaluationScheduler {
       (e) => {
         // Readings of the last hour are today's live data: the live evaluation judges what they complete.
         // Older ones (a backfill, a gateway's backlog, an import) are replayed through the days they touch.
-        if (e.isImport || Date.now() - e.firstTs.getTime() > LIVE_DATA_MS)
+        if (e.replayAllDays || Date.now() - e.firstTs.getTime() > LIVE_DATA_MS)
           this.scheduleHistory(
             e.houseId,
             e.firstTs,
-            e.isImport ? MAX_IMPORT_HISTORY_DAYS : MAX_HISTORY_DAYS,
+            e.replayAllDays ? MAX_IMPORT_HISTORY_DAYS : MAX_HISTORY_DAYS,
           );
         this.schedule(e.houseId);
       },

@@ -190,7 +190,7 @@ export class ImportRunner {
           eggsAdded: 0,
           firstTs: done.firstTs,
           lastTs: done.lastTs,
-          isImport: true,
+          replayAllDays: true,
         });
       }
     } catch (error) {

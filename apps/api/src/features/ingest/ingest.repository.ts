@@ -141,8 +141,12 @@ export async function adjustReadings(
     SELECT count(*) FROM changed`);
 }
 
-/** Locks counters (in id order, so concurrent batches cannot deadlock on them) for running-total work. */
+/**
+ * Locks counters until the transaction ends, in id order so concurrent batches cannot deadlock on them: for
+ * running-total work, and for unknown counters that may be placed meanwhile (counters.service).
+ */
 export async function lockCounters(db: Queryable, ids: number[]): Promise<void> {
+  if (ids.length === 0) return;
   await db.execute(
     sql`SELECT id FROM counters WHERE id = ANY(${sql.param(ids)}::int[]) ORDER BY id FOR UPDATE`,
   );
@@ -182,8 +186,9 @@ export async function dropReadingPartitionsBefore(
 }
 
 /**
- * Rolls up the readings held for counters that have just been mapped into a house (they were stored while
- * the counter was unknown, without rollups). Run in the transaction that maps them, once.
+ * Rolls up the readings held for counters that have just been placed in a house. They were stored while the
+ * counter was unknown with their hour rollups only (no house, so no day rollups): those are rebuilt with the
+ * rest, so no hour counts twice. Run in the transaction that places them, once.
  */
 export async function rollUpHeldReadings(
   db: Queryable,
@@ -191,6 +196,9 @@ export async function rollUpHeldReadings(
   counterIds: number[],
 ): Promise<void> {
   if (counterIds.length === 0) return;
+  await db.execute(sql`
+    DELETE FROM counter_hour_rollups
+    WHERE farm_id = ${farmId} AND counter_id = ANY(${sql.param(counterIds)}::int[])`);
   await db.execute(sql`
     WITH held AS (
       SELECT counter_id, ts, eggs FROM readings

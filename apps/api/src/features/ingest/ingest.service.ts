@@ -103,10 +103,8 @@ export function createIngestService(
       const counters = await resolveCounters(db, gateway.farmId, [
         ...new Set(valid.map((r) => r.counter)),
       ]);
-      const unmappedCounters = [...counters.values()]
-        .filter((c) => c.houseId === null)
-        .map((c) => c.externalId)
-        .sort();
+      const unknown = [...counters.values()].filter((c) => c.houseId === null);
+      const unmappedCounters = unknown.map((c) => c.externalId).sort();
       await ensureMonths(valid);
 
       const outcome = await withRetryOnConflict(() =>
@@ -127,6 +125,11 @@ export function createIngestService(
               byCounterTotals.set(counter.id, list);
             }
           }
+          // Counters sending running totals take turns (see prepareTotals); so do unknown counters, so that
+          // a batch lands wholly before or after one is placed. One statement, in id order: no deadlocks.
+          await lockCounters(tx, [
+            ...new Set([...byCounterTotals.keys(), ...unknown.map((c) => c.id)]),
+          ]);
           const fromTotals = await prepareTotals(tx, gateway.farmId, byCounterTotals);
           const merged: ReadingRows = {
             counterIds: [...intervals.counterIds, ...fromTotals.inserts.counterIds],
@@ -163,8 +166,8 @@ export function createIngestService(
 /**
  * Turns running totals into interval counts against what is already stored. Totals may arrive out of
  * order: the stored reading right after a late one is then recounted from the late one's total, and the
- * difference is applied to it and its rollups. Counters are locked first, so two batches for one counter
- * take turns.
+ * difference is applied to it and its rollups. The caller has locked the counters, so two batches for one
+ * counter take turns.
  */
 async function prepareTotals(
   tx: Parameters<Parameters<Database['transaction']>[0]>[0],
@@ -178,7 +181,6 @@ async function prepareTotals(
   const adjustments = { counterIds: [] as number[], ts: [] as Date[], deltas: [] as number[] };
   if (byCounter.size === 0) return { inserts, adjustments };
   const ids = [...byCounter.keys()].sort((a, b) => a - b);
-  await lockCounters(tx, ids);
   for (const counterId of ids) {
     const incoming = (byCounter.get(counterId) ?? []).sort(
       (a, b) => a.ts.getTime() - b.ts.getTime(),
