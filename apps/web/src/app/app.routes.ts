@@ -42,6 +42,11 @@ export const routes: Routes = [
       },
       { path: 'exceptions', loadChildren: () => import('./features/exceptions/exceptions.routes') },
       {
+        path: 'counters',
+        canActivate: [permissionGuard('counters.manage')],
+        loadChildren: () => import('./features/counters/counters.routes'),
+      },
+      {
         path: 'gateways',
         canActivate: [permissionGuard('gateways.manage')],
         loadChildren: () => import('./features/gateways/gateways.routes'),

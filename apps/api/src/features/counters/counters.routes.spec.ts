@@ -243,7 +243,11 @@ describe('POST /unknown-counters/:counterId/place', () => {
       path: 'tier',
       message: "Choose the belt's tier",
     });
-    const collectorWithRow = await place(id, { houseId: fixture.houseA, kind: 'collector', row: 1 });
+    const collectorWithRow = await place(id, {
+      houseId: fixture.houseA,
+      kind: 'collector',
+      row: 1,
+    });
     expect(collectorWithRow.status).toBe(400);
     expect(collectorWithRow.body.error.fields[0].path).toBe('row');
   });
@@ -266,7 +270,12 @@ describe('POST /unknown-counters/:counterId/place', () => {
         .set('Authorization', integrator)
     ).body as { id: number; externalId: string }[];
     const placed = counters.find((c) => c.externalId === 'SPARE-3')!;
-    const response = await place(placed.id, { houseId: fixture.houseA, kind: 'belt', row: 4, tier: 1 });
+    const response = await place(placed.id, {
+      houseId: fixture.houseA,
+      kind: 'belt',
+      row: 4,
+      tier: 1,
+    });
     expect(response.status).toBe(409);
     expect(response.body.error.message).toBe('Counter SPARE-3 already has a place');
   });
@@ -280,7 +289,12 @@ describe('POST /unknown-counters/:counterId/place', () => {
         send(keyA, [{ counter: name, ts: at(11, 5 + i, 20), eggs: 1 }]),
       );
       const [placed] = await Promise.all([
-        place(id, { houseId: fixture.houseA, kind: 'belt', row: 4, tier: round < 3 ? 1 + round : 3 }),
+        place(id, {
+          houseId: fixture.houseA,
+          kind: 'belt',
+          row: 4,
+          tier: round < 3 ? 1 + round : 3,
+        }),
         ...batches,
       ]);
       if (placed.status !== 200) {
@@ -288,7 +302,8 @@ describe('POST /unknown-counters/:counterId/place', () => {
         expect(placed.status).toBe(409);
         continue;
       }
-      const section = await scalar(sql`SELECT coalesce(sum(r.eggs), 0)::int AS n FROM section_day_rollups r
+      const section =
+        await scalar(sql`SELECT coalesce(sum(r.eggs), 0)::int AS n FROM section_day_rollups r
         JOIN counters c ON c.section_id = r.section_id WHERE c.external_id = ${name}`);
       expect(section, name).toBe(16);
       expect(await rawAndHourly(name), name).toEqual({ raw: 16, hourly: 16 });

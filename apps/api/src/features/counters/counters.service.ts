@@ -186,7 +186,11 @@ export function createCountersService(db: Database, events?: EventBus): Counters
           action: 'counter.forget',
           entity: 'counter',
           entityId: counterId,
-          before: { externalId: counter.externalId, readings: held?.readings ?? 0, eggs: held?.eggs ?? 0 },
+          before: {
+            externalId: counter.externalId,
+            readings: held?.readings ?? 0,
+            eggs: held?.eggs ?? 0,
+          },
         });
       });
     },

@@ -20,6 +20,12 @@ export const NAV_ITEMS: readonly NavItem[] = [
   },
   { label: 'Reports', icon: 'bar_chart', link: '/reports', permission: 'workOrders.manage' },
   { label: 'Imports', icon: 'upload_file', link: '/imports', permission: 'imports.run' },
+  {
+    label: 'Unknown counters',
+    icon: 'sensors',
+    link: '/counters',
+    permission: 'counters.manage',
+  },
   { label: 'Gateways', icon: 'router', link: '/gateways', permission: 'gateways.manage' },
   { label: 'Users', icon: 'group', link: '/users', permission: 'users.manage' },
   { label: 'Mailbox', icon: 'mail', link: '/mailbox', permission: 'users.manage' },

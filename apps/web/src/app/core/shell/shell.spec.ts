@@ -30,6 +30,7 @@ describe('Shell', () => {
       'Work orders',
       'Reports',
       'Imports',
+      'Unknown counters',
       'Gateways',
       'Users',
       'Mailbox',
@@ -50,11 +51,12 @@ describe('Shell', () => {
     ]);
   });
 
-  it('offers integrators the gateways but not the users', () => {
+  it('offers integrators the unknown counters and gateways but not the users', () => {
     expect(navLabels(renderAs('integrator'))).toEqual([
       'Farms',
       'Exceptions',
       'Imports',
+      'Unknown counters',
       'Gateways',
     ]);
   });
