@@ -72,6 +72,7 @@ function signedInPages(): string[] {
     `/work-orders/${workOrderId}`,
     '/reports',
     '/imports',
+    '/counters',
     '/gateways',
     '/users',
     '/notifications',

@@ -13,6 +13,7 @@ import { firstValueFrom } from 'rxjs';
 import { describeApiError } from '../../core/http/api-error';
 import { LoadState } from '../../shared/ui/load-state';
 import { houseTime } from '../../shared/ui/local-dates';
+import { heldWords } from './counter-words';
 import { CountersStore, type Placement } from './counters-store';
 import {
   PlaceCounterDialog,
@@ -72,6 +73,8 @@ export class CountersPage {
     return firstDay === lastDay ? format.format(first) : format.formatRange(first, last);
   }
 
+  protected readonly held = heldWords;
+
   protected time(iso: string | null): string {
     return iso === null ? '—' : houseTime(iso, this.zone);
   }
@@ -96,9 +99,7 @@ export class CountersPage {
 
   protected async forget(counter: UnknownCounter): Promise<void> {
     const held =
-      counter.readings > 0
-        ? ` and its ${counter.readings.toLocaleString()} held readings (${counter.eggs.toLocaleString()} eggs)`
-        : '';
+      counter.readings > 0 ? ` and its ${heldWords(counter.readings, counter.eggs)}` : '';
     if (!confirm(`Forget counter ${counter.externalId}${held}? This cannot be undone.`)) return;
     try {
       await this.store.forget(counter);

@@ -1,7 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
-import { DecimalPipe } from '@angular/common';
 import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -13,6 +12,7 @@ import { describeApiError, fieldErrorsOf } from '../../core/http/api-error';
 import { HousesApi } from '../../core/http/houses-api';
 import { firstError } from '../../shared/ui/zod-validator';
 import { CountersApi } from './counters-api';
+import { heldWords } from './counter-words';
 
 export interface PlaceCounterData {
   counter: UnknownCounter;
@@ -34,7 +34,6 @@ const upTo = (n: number) => Array.from({ length: n }, (_, i) => i + 1);
 @Component({
   selector: 'ts-place-counter-dialog',
   imports: [
-    DecimalPipe,
     ReactiveFormsModule,
     MatDialogModule,
     MatFormFieldModule,
@@ -81,6 +80,7 @@ export class PlaceCounterDialog {
       ) ?? null
     );
   });
+  protected readonly held = heldWords(this.data.counter.readings, this.data.counter.eggs);
   protected readonly isSaving = signal(false);
   protected readonly errorText = signal<string | null>(null);
   protected readonly firstError = firstError;
