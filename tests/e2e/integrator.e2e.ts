@@ -93,7 +93,7 @@ describe('unknown counters', () => {
       eggs: 40,
     }));
     const sent = await api('/ingest/readings', { readings }, key);
-    expect(sent.unmappedCounters).toEqual(['NR-SPARE-07']);
+    expect(sent['unmappedCounters']).toEqual(['NR-SPARE-07']);
     await api(
       '/ingest/readings',
       { readings: [{ counter: 'NR-SPRAE-07', ts: new Date(now - 60_000).toISOString(), eggs: 3 }] },

@@ -1,7 +1,7 @@
 import { schema, type Queryable } from '@tierscope/db';
 import { and, eq, isNull, sql } from 'drizzle-orm';
 
-const { counters } = schema;
+const { counters, sections } = schema;
 
 export type CounterRow = typeof counters.$inferSelect;
 
@@ -71,6 +71,15 @@ export async function lockCounter(db: Queryable, id: number): Promise<CounterRow
   );
   if (result.rows.length === 0) return undefined;
   return findCounter(db, id);
+}
+
+/** One belt section of a house by its row and tier. */
+export async function findSection(db: Queryable, houseId: number, row: number, tier: number) {
+  const [section] = await db
+    .select({ id: sections.id })
+    .from(sections)
+    .where(and(eq(sections.houseId, houseId), eq(sections.row, row), eq(sections.tier, tier)));
+  return section;
 }
 
 /** The active counters that count at a place: one belt section, or (section null) the house's collector. */

@@ -1,6 +1,5 @@
 import type { CounterPlaced, CounterPlacement, UnknownCounter } from '@tierscope/contracts';
-import { schema, type Database } from '@tierscope/db';
-import { and, eq } from 'drizzle-orm';
+import type { Database } from '@tierscope/db';
 import { requireFarmPermission } from '../../platform/access';
 import type { RequestContext } from '../../platform/auth';
 import { AppError, notFound } from '../../platform/errors';
@@ -13,6 +12,7 @@ import {
   countersAtPlace,
   deleteCounterAndReadings,
   findCounter,
+  findSection,
   listUnknownCounters,
   lockCounter,
   placeCounter,
@@ -62,7 +62,7 @@ export function createCountersService(db: Database, events?: EventBus): Counters
     async place(ctx, counterId, input) {
       const counter = await unknownCounterFor(ctx, counterId);
       const house = await findHouse(db, input.houseId);
-      if (!house || house.farmId !== counter.farmId) throw notFound('House');
+      if (house?.farmId !== counter.farmId) throw notFound('House');
       const isBelt = input.kind === 'belt';
       if (isBelt) {
         const fields = [];
@@ -83,16 +83,7 @@ export function createCountersService(db: Database, events?: EventBus): Counters
         if (locked.houseId !== null) throw alreadyPlaced(locked);
         let sectionId: number | null = null;
         if (isBelt) {
-          const [section] = await tx
-            .select({ id: schema.sections.id })
-            .from(schema.sections)
-            .where(
-              and(
-                eq(schema.sections.houseId, house.id),
-                eq(schema.sections.row, input.row ?? 0),
-                eq(schema.sections.tier, input.tier ?? 0),
-              ),
-            );
+          const section = await findSection(tx, house.id, input.row ?? 0, input.tier ?? 0);
           if (!section) throw notFound('Section');
           sectionId = section.id;
         }
