@@ -11,6 +11,7 @@ import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { join } from 'node:path';
 import { openDatabase, runMigrations } from '@tierscope/db';
+import { sql } from 'drizzle-orm';
 import {
   DEMO_LIGHTS_ON,
   DEMO_PASSWORD,
@@ -260,6 +261,7 @@ async function main(): Promise<void> {
       console.error(`[start] the simulator exited (${code}); the app keeps running without it`);
   });
   log(backfillFrom ? 'simulator: backfilling 14 days of history, then live' : 'simulator: live');
+  if (backfillFrom) await waitForJudgedHistory(databaseUrl);
 
   console.log('');
   console.log(`  Tierscope is running at ${url}`);
@@ -270,6 +272,53 @@ async function main(): Promise<void> {
   console.log('  Mail goes to the local catcher: sign in as admin and open Mailbox to read it.');
   console.log('  Ctrl-C stops the app and its database.');
   console.log('');
+}
+
+/** How long `npm start` waits for the demo's history to be judged before it gives the URL anyway. */
+const HISTORY_WAIT_MS = 10 * 60_000;
+
+/**
+ * Waits until the simulator's backfill has reached the present in every house and no process is judging past
+ * days any more, so the first page opened shows the demo as it is meant to look. Says how far it is.
+ */
+async function waitForJudgedHistory(databaseUrl: string): Promise<void> {
+  const database = openDatabase(databaseUrl, { max: 1 });
+  const startedAt = Date.now();
+  let lastSaid = '';
+  let lastSaidAt = 0;
+  try {
+    for (;;) {
+      const result = await database.db.execute<{ reached: string | null; judging: number }>(sql`
+        SELECT (SELECT min(last_ts) FROM (
+                  SELECT (SELECT max(r.ts) FROM readings r JOIN counters c ON c.id = r.counter_id
+                          WHERE c.house_id = h.id AND c.kind = 'collector') AS last_ts
+                  FROM houses h) per_house) AS reached,
+               (SELECT count(DISTINCT split_part(name, ':', 2))::int FROM leases
+                WHERE name LIKE 'replay:%' AND until > now()) AS judging`);
+      const row = result.rows[0];
+      const reached = row?.reached ? new Date(row.reached) : null;
+      const isCaughtUp = reached !== null && Date.now() - reached.getTime() < 30 * 60_000;
+      if (isCaughtUp && row?.judging === 0) {
+        log('history judged: every house is live');
+        return;
+      }
+      const said = isCaughtUp
+        ? `judging history: ${row?.judging} ${row?.judging === 1 ? 'house' : 'houses'} still being checked…`
+        : `judging history: readings sent up to ${reached ? reached.toISOString().slice(0, 16).replace('T', ' ') + ' UTC' : 'the first day'}…`;
+      if (said !== lastSaid && Date.now() - lastSaidAt > 10_000) {
+        log(said);
+        lastSaid = said;
+        lastSaidAt = Date.now();
+      }
+      if (Date.now() - startedAt > HISTORY_WAIT_MS) {
+        log('history is still being judged: open the app now, the house pages say when it is done');
+        return;
+      }
+      await new Promise((resolve) => setTimeout(resolve, 2000));
+    }
+  } finally {
+    await database.close();
+  }
 }
 
 void main().catch((error: unknown) => {

@@ -76,7 +76,7 @@ describe('an integrator imports a counter export', () => {
     await screenshot(page, 'import-2-progress');
     await expect
       .poll(() => progress.getByTestId('import-state').textContent(), { timeout: 60_000 })
-      .toBe('done');
+      .toBe('Imported');
     expect(await progress.getByTestId('readings-added').textContent()).toBe(
       GOOD_LINES.toLocaleString('en-US'),
     );
@@ -87,7 +87,11 @@ describe('an integrator imports a counter export', () => {
     await errors
       .getByRole('row', { name: /^11 Reihe\/Etage row 9, tier 1 is not a section/ })
       .waitFor();
+    // Until the engine has judged the imported days, the summary says so; then it points to what they flagged.
+    await progress.getByTestId('judging').waitFor();
     await screenshot(page, 'import-3-summary');
+    await progress.getByTestId('judged').waitFor({ timeout: 60_000 });
+    expect(await progress.getByTestId('judging').count()).toBe(0);
     await page.close();
 
     const db = harness.database.db;

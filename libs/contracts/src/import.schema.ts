@@ -83,6 +83,8 @@ export const importStatusSchema = z.object({
   fileName: z.string(),
   bytes: z.number().int(),
   state: z.enum(IMPORT_STATES),
+  /** done, and its days are still being judged (exceptions they bring may yet appear) */
+  isJudgingDays: z.boolean(),
   linesRead: z.number().int(),
   readingsAdded: z.number().int(),
   duplicates: z.number().int(),

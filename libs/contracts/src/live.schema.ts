@@ -84,6 +84,8 @@ export const houseMapSchema = z.object({
   collector: z.number().int(),
   henDayPct: z.number().nullable(),
   openExceptions: z.number().int(),
+  /** past days of the house are being judged (after an import, a gateway's backlog, a counter placed) */
+  isJudgingPastDays: z.boolean(),
   updatedAt: z.iso.datetime(),
 });
 export type HouseMap = z.infer<typeof houseMapSchema>;

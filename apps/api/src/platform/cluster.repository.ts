@@ -123,6 +123,22 @@ export async function isReplayPendingElsewhere(
   return result.rows.length > 0;
 }
 
+/**
+ * The houses (of those given) whose past days some process is about to judge or judging now: their map and
+ * exceptions are still filling in.
+ */
+export async function housesJudgingPastDays(
+  db: Database,
+  houseIds: number[],
+): Promise<Set<number>> {
+  if (houseIds.length === 0) return new Set();
+  const result = await db.execute<{ house_id: number }>(sql`
+    SELECT DISTINCT split_part(name, ':', 2)::int AS house_id FROM leases
+    WHERE name LIKE 'replay:%' AND until > now()
+      AND split_part(name, ':', 2)::int = ANY(${sql.param(houseIds)}::int[])`);
+  return new Set(result.rows.map((r) => Number(r.house_id)));
+}
+
 export async function clearReplayPending(
   db: Database,
   houseId: number,

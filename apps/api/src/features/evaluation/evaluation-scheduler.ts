@@ -52,6 +52,8 @@ export class EvaluationScheduler {
   /** history replays under way (their entry leaves `history` when they start) */
   private replaying = 0;
   private readonly replayingHouses = new Set<number>();
+  /** each house's latest write of its replay mark */
+  private readonly marking = new Map<number, Promise<void>>();
   private readonly history = new Map<
     number,
     { firstTs: Date; maxDays: number; timer: ReturnType<typeof setTimeout> }
@@ -166,6 +168,10 @@ export class EvaluationScheduler {
     this.replaying += 1;
     this.replayingHouses.add(houseId);
     this.markReplay(houseId);
+    // A long replay (a year's import) keeps its mark fresh, so no page says its days are judged too soon.
+    const renewal = setInterval(() => {
+      this.markReplay(houseId);
+    }, REPLAY_MARK_MS / 3);
     try {
       const house = await findHouse(this.db, houseId);
       if (!house) return;
@@ -196,9 +202,12 @@ export class EvaluationScheduler {
     } catch (error) {
       this.log(`historical evaluation of house ${houseId} failed`, error);
     } finally {
+      clearInterval(renewal);
       this.replayingHouses.delete(houseId);
       this.replaying -= 1;
       if (!this.history.has(houseId)) {
+        // A renewal still under way would write the mark again after it is cleared.
+        await this.marking.get(houseId);
         await clearReplayPending(this.db, houseId, this.holder).catch((error: unknown) => {
           this.log(`replay mark of house ${houseId} not cleared`, error);
         });
@@ -225,9 +234,12 @@ export class EvaluationScheduler {
 
   /** Tells the other processes a replay of this house is coming (their live runs wait for it). */
   private markReplay(houseId: number): void {
-    markReplayPending(this.db, houseId, this.holder, REPLAY_MARK_MS).catch((error: unknown) => {
-      this.log(`replay mark of house ${houseId} not written`, error);
-    });
+    const marking = markReplayPending(this.db, houseId, this.holder, REPLAY_MARK_MS).catch(
+      (error: unknown) => {
+        this.log(`replay mark of house ${houseId} not written`, error);
+      },
+    );
+    this.marking.set(houseId, marking);
   }
 
   /** Evaluates every given house now (the periodic timer). */

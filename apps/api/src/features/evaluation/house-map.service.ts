@@ -1,4 +1,5 @@
 import type { CellDetail, HouseMap, LineJudgement } from '@tierscope/contracts';
+import { housesJudgingPastDays } from '../../platform/cluster.repository';
 import type { Database } from '@tierscope/db';
 import {
   addDays,
@@ -209,6 +210,7 @@ export function createHouseMap(db: Database, baseline: HouseBaseline): HouseMapR
         collector,
         henDayPct,
         openExceptions: open,
+        isJudgingPastDays: (await housesJudgingPastDays(db, [house.id])).has(house.id),
         updatedAt: new Date().toISOString(),
       };
     },

@@ -64,9 +64,26 @@ describe('after importing old history', () => {
       .attach('file', Buffer.from(lines.join('\n')), 'history.csv');
     expect(started.status).toBe(202);
     await runtime.imports.idle();
+    // Done, but its days not yet judged: the import and the house's map both say so.
+    const justDone = await request(app)
+      .get(`/api/v1/imports/${started.body.id}`)
+      .set('Authorization', integrator);
+    expect(justDone.body).toMatchObject({ state: 'done', isJudgingDays: true });
+    const map = await request(app)
+      .get(`/api/v1/houses/${fixture.houseA}/map`)
+      .set('Authorization', integrator);
+    expect(map.body.isJudgingPastDays).toBe(true);
     // The engine waits for a quiet moment, then replays day by day.
     await new Promise((resolve) => setTimeout(resolve, 3500));
     await runtime.scheduler.idle();
+    const judged = await request(app)
+      .get(`/api/v1/imports/${started.body.id}`)
+      .set('Authorization', integrator);
+    expect(judged.body.isJudgingDays).toBe(false);
+    const mapAfter = await request(app)
+      .get(`/api/v1/houses/${fixture.houseA}/map`)
+      .set('Authorization', integrator);
+    expect(mapAfter.body.isJudgingPastDays).toBe(false);
 
     const exceptions = await request(app)
       .get(`/api/v1/exceptions?houseId=${fixture.houseA}`)

@@ -9,7 +9,9 @@ import type { Database } from '@tierscope/db';
 import { detectDelimiter, stepFromTotals, LINE_ENDINGS, type DecimalMark } from '@tierscope/domain';
 import { parse, type Info } from 'csv-parse';
 import type { EventBus } from '../../platform/events';
+import { markReplayPending } from '../../platform/cluster.repository';
 import { withLease } from '../../platform/leases';
+import { REPLAY_MARK_MS } from '../evaluation/evaluation-scheduler';
 import { openImportFile, removeImportFile } from './import-files';
 import { copyReadingsInChunks } from '../ingest/bulk-ingest.repository';
 import { ensureReadingPartitions } from '../ingest/ingest.repository';
@@ -176,6 +178,10 @@ export class ImportRunner {
     try {
       const mapping = importMappingSchema.parse(found.import.mapping);
       const result = await this.load(found.import, file, mapping);
+      // Its days are to be judged again: marked before it reads as done, so no page says they are judged
+      // in the moment before this process's scheduler takes them up (it clears the mark when it has).
+      if (result.readingsAdded > 0)
+        await markReplayPending(this.db, found.import.houseId, this.holder, REPLAY_MARK_MS);
       const done = await this.finish(id, file, {
         state: 'done',
         ...result,

@@ -9,6 +9,7 @@ import type { Database } from '@tierscope/db';
 import { toCsv } from '@tierscope/domain';
 import { farmsWith, requireFarmPermission } from '../../platform/access';
 import type { RequestContext } from '../../platform/auth';
+import { housesJudgingPastDays } from '../../platform/cluster.repository';
 import { AppError, notFound } from '../../platform/errors';
 import { recordAudit } from '../audit/audit.repository';
 import { findHouse } from '../houses/houses.repository';
@@ -65,8 +66,14 @@ export interface ImportsService {
 type Found = NonNullable<Awaited<ReturnType<typeof findImport>>>;
 
 export function createImportsService(db: Database, runner: ImportRunner): ImportsService {
-  async function toStatus(found: Found, withErrors: boolean): Promise<ImportStatus> {
+  async function toStatus(
+    found: Found,
+    withErrors: boolean,
+    judging?: Set<number>,
+  ): Promise<ImportStatus> {
     const i = found.import;
+    const isDone = i.state === 'done';
+    const houses = isDone ? (judging ?? (await housesJudgingPastDays(db, [i.houseId]))) : null;
     return {
       id: i.id,
       farmId: i.farmId,
@@ -75,6 +82,7 @@ export function createImportsService(db: Database, runner: ImportRunner): Import
       fileName: i.fileName,
       bytes: i.bytes,
       state: i.state,
+      isJudgingDays: houses?.has(i.houseId) ?? false,
       linesRead: i.linesRead,
       readingsAdded: i.readingsAdded,
       duplicates: i.duplicates,
@@ -148,7 +156,11 @@ export function createImportsService(db: Database, runner: ImportRunner): Import
         farms = [farmId];
       }
       if (farms.length === 0) throw new AppError('forbidden', 'Only integrators and admins import');
-      return Promise.all((await listImports(db, farms)).map((r) => toStatus(r, false)));
+      const found = await listImports(db, farms);
+      const judging = await housesJudgingPastDays(db, [
+        ...new Set(found.map((r) => r.import.houseId)),
+      ]);
+      return Promise.all(found.map((r) => toStatus(r, false, judging)));
     },
 
     async cancel(ctx, id) {

@@ -12,6 +12,7 @@ import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
+import { MatProgressSpinnerModule } from '@angular/material/progress-spinner';
 import { RouterLink } from '@angular/router';
 import { type ExceptionView } from '@tierscope/contracts';
 import { measuredWords } from '@tierscope/domain';
@@ -33,6 +34,7 @@ import { HouseLiveStore } from './house-live-store';
     MatIconModule,
     MatFormFieldModule,
     MatInputModule,
+    MatProgressSpinnerModule,
     LoadState,
     HouseHeatMap,
     LineJudgements,

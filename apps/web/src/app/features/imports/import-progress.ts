@@ -14,16 +14,20 @@ import {
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatProgressSpinnerModule } from '@angular/material/progress-spinner';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
 import { type ImportStatus } from '@tierscope/contracts';
-import { interval, type Subscription } from 'rxjs';
+import { interval, timer, type Subscription } from 'rxjs';
 import { describeApiError } from '../../core/http/api-error';
 import { LiveSocket } from '../../core/live/live-socket';
 import { ImportsApi } from './imports-api';
+import { IMPORT_STATE_WORDS } from './import-state-words';
 
 const ENDED = new Set(['done', 'failed', 'cancelled']);
+/** How often a done import is read again while its days are judged. */
+const JUDGING_POLL_MS = 3000;
 
 /** One import from queued to its summary: a progress bar with lines per second and time left, then counts and line errors. */
 @Component({
@@ -35,6 +39,7 @@ const ENDED = new Set(['done', 'failed', 'cancelled']);
     MatButtonModule,
     MatIconModule,
     MatProgressBarModule,
+    MatProgressSpinnerModule,
     MatTableModule,
   ],
   templateUrl: './import-progress.html',
@@ -77,6 +82,7 @@ export class ImportProgress {
   });
   protected readonly isEnded = computed(() => ENDED.has(this.now().state));
   protected readonly errorColumns = ['line', 'column', 'message'];
+  protected readonly stateWords = IMPORT_STATE_WORDS;
 
   constructor() {
     // Live messages of its house while it runs (the socket's one seam, core/live).
@@ -109,6 +115,7 @@ export class ImportProgress {
         });
       });
     });
+    this.followJudging(destroyRef);
     // When it ends: the full status (with its errors), once.
     effect(() => {
       const s = this.now();
@@ -119,6 +126,25 @@ export class ImportProgress {
         this.poll = null;
         if (s.errors.length === 0 && s.errorCount > 0) void this.read(s.id);
         else this.finished.emit(s);
+      });
+    });
+  }
+
+  /** Reads a done import again until its days are judged (the first read after it ends tells). */
+  private followJudging(destroyRef: DestroyRef): void {
+    let wait: Subscription | null = null;
+    let isKnown = false;
+    destroyRef.onDestroy(() => wait?.unsubscribe());
+    effect(() => {
+      const s = this.now();
+      untracked(() => {
+        wait?.unsubscribe();
+        wait = null;
+        if (s.state !== 'done' || (isKnown && !s.isJudgingDays)) return;
+        wait = timer(isKnown ? JUDGING_POLL_MS : 0).subscribe(() => {
+          isKnown = true;
+          void this.read(s.id);
+        });
       });
     });
   }

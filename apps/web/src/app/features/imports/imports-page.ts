@@ -45,6 +45,7 @@ import {
   type MappingFormValue,
 } from './import-mapping-form';
 import { ImportsStore } from './imports-store';
+import { IMPORT_STATE_WORDS } from './import-state-words';
 
 const SAMPLE_BYTES = 64 * 1024;
 
@@ -73,6 +74,7 @@ const SAMPLE_BYTES = 64 * 1024;
 })
 export class ImportsPage {
   protected readonly store = inject(ImportsStore);
+  protected readonly stateWords = IMPORT_STATE_WORDS;
   private readonly snackBar = inject(MatSnackBar);
   private readonly fb = inject(NonNullableFormBuilder);
 
