@@ -2,7 +2,14 @@ import { schema } from '@tierscope/db';
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { writeDemoHistory } from '../../scripts/demo-history';
-import { screenshot, signIn, startHarness, type Harness } from './harness';
+import {
+  dialogCloses,
+  openedDialog,
+  screenshot,
+  signIn,
+  startHarness,
+  type Harness,
+} from './harness';
 
 let harness: Harness;
 let houseId: number;
@@ -69,6 +76,21 @@ describe('a manager’s flock and report pages', () => {
     await page.close();
   });
 
+  it("lets an administrator set the farm's currency, in which money is then shown", async () => {
+    const page = await harness.browser.newPage({ viewport: { width: 1280, height: 900 } });
+    await signIn(page, harness.baseUrl, 'admin@bramblewood.test');
+    await page.getByRole('button', { name: 'Settings of North Ridge' }).click();
+    const dialog = await openedDialog(page);
+    await dialog.getByRole('combobox', { name: 'Currency' }).click();
+    await page.getByRole('option', { name: 'EUR · Euro' }).click();
+    await page.getByRole('listbox').waitFor({ state: 'detached' });
+    await screenshot(page, 'farm-settings-dialog');
+    await dialog.getByRole('button', { name: 'Save' }).click();
+    await dialogCloses(dialog);
+    await page.getByText('money in EUR').waitFor();
+    await page.close();
+  });
+
   it('gives the daily house report and the farm summary with real figures', async () => {
     const page = await harness.browser.newPage({ viewport: { width: 1280, height: 1400 } });
     await signIn(page, harness.baseUrl, 'manager@bramblewood.test');
@@ -95,6 +117,10 @@ describe('a manager’s flock and report pages', () => {
       .locator('canvas')
       .first()
       .waitFor();
+    // The value of eggs lost is in the farm's currency, set above (the demo prices a dozen at 2.40).
+    expect((await page.getByTestId('value-lost').textContent())?.trim()).toMatch(
+      /^€[\d,]+\.\d{2}$/,
+    );
     await screenshot(page, 'reports-2-farm');
     await page.close();
   });

@@ -103,6 +103,15 @@ export async function screenshot(
 }
 
 /**
+ * The open dialog, once its opening has finished: Angular writes its form's first values on the first
+ * change detection, and text typed before that would be wiped.
+ */
+export async function openedDialog(page: Page): Promise<Locator> {
+  await page.locator('mat-dialog-container.mdc-dialog--open').waitFor();
+  return page.getByRole('dialog');
+}
+
+/**
  * Waits for a dialog to close after its form was sent; if it shows an error instead, fails with
  * the words it shows (a timeout alone says nothing about why the dialog stayed open).
  */

@@ -1,6 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { dialogCloses, screenshot, signIn, startHarness, type Harness } from './harness';
+import {
+  dialogCloses,
+  screenshot,
+  signIn,
+  startHarness,
+  type Harness,
+  openedDialog,
+} from './harness';
 
 // The integrator's screens: gateway keys, and the counters a gateway sent that no house has yet.
 
@@ -108,7 +115,7 @@ describe('unknown counters', () => {
     await screenshot(page, 'unknown-counters');
 
     await spare.getByRole('button', { name: 'Place NR-SPARE-07' }).click();
-    const dialog = page.getByRole('dialog');
+    const dialog = await openedDialog(page);
     await dialog.getByText('12 held readings (480 eggs)').waitFor();
     // House 1 is the first house; choose row 2, tier 3.
     await dialog.getByRole('combobox', { name: 'Row' }).click();

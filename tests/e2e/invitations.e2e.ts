@@ -1,5 +1,12 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { dialogCloses, screenshot, signIn, startHarness, type Harness } from './harness';
+import {
+  dialogCloses,
+  screenshot,
+  signIn,
+  startHarness,
+  type Harness,
+  openedDialog,
+} from './harness';
 
 let harness: Harness;
 
@@ -24,7 +31,7 @@ describe('invitations and forgotten passwords', () => {
     await signIn(admin, harness.baseUrl, 'admin@bramblewood.test');
     await admin.getByRole('link', { name: 'Users' }).click();
     await admin.getByRole('button', { name: 'Add user' }).click();
-    const dialog = admin.getByRole('dialog');
+    const dialog = await openedDialog(admin);
     await dialog.getByLabel('E-mail').fill('robin.newhand@bramblewood.test');
     await dialog.getByLabel('Name').fill('Robin Newhand');
     const northRidge = dialog.getByRole('combobox', { name: 'North Ridge' });

@@ -2,7 +2,7 @@ import { schema } from '@tierscope/db';
 import { and, eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { solidPng } from '../fixtures/images';
-import { screenshot, signIn, startHarness, type Harness } from './harness';
+import { screenshot, signIn, startHarness, type Harness, openedDialog } from './harness';
 
 let harness: Harness;
 let exceptionId: number;
@@ -58,7 +58,7 @@ describe('a flagged row handed to the crew', () => {
     await page.goto(`${harness.baseUrl}/exceptions`);
     const row = page.getByRole('row', { name: /House 2.*Row 4 \(all tiers\)/ });
     await row.getByRole('button', { name: /Work order/ }).click();
-    const dialog = page.getByRole('dialog');
+    const dialog = await openedDialog(page);
     await expect
       .poll(() => dialog.getByLabel('Title').inputValue())
       .toBe('Low lay: House 2, row 4 (all tiers)');

@@ -55,6 +55,8 @@ export type FarmSummaryQuery = z.infer<typeof farmSummaryQuerySchema>;
 export const farmSummarySchema = z.object({
   farmId: z.number().int(),
   farmName: z.string(),
+  /** ISO 4217 code of the values below (the farm's setting) */
+  currency: z.string(),
   from: z.string(),
   to: z.string(),
   houses: z.array(

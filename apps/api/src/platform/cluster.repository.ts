@@ -136,7 +136,7 @@ export async function housesJudgingPastDays(
     SELECT DISTINCT split_part(name, ':', 2)::int AS house_id FROM leases
     WHERE name LIKE 'replay:%' AND until > now()
       AND split_part(name, ':', 2)::int = ANY(${sql.param(houseIds)}::int[])`);
-  return new Set(result.rows.map((r) => Number(r.house_id)));
+  return new Set(result.rows.map((r) => r.house_id));
 }
 
 export async function clearReplayPending(

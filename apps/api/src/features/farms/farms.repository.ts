@@ -12,6 +12,7 @@ export async function listFarmsOfUser(db: Queryable, userId: number) {
     .select({
       id: farms.id,
       name: farms.name,
+      currency: farms.currency,
       createdAt: farms.createdAt,
       role: memberships.role,
       houseCount: sql<number>`(select count(*)::int from ${houses} where ${houses.farmId} = ${farms.id})`,
@@ -27,6 +28,7 @@ export async function findFarm(db: Queryable, id: number) {
     .select({
       id: farms.id,
       name: farms.name,
+      currency: farms.currency,
       createdAt: farms.createdAt,
       houseCount: sql<number>`(select count(*)::int from ${houses} where ${houses.farmId} = ${farms.id})`,
     })
@@ -35,14 +37,21 @@ export async function findFarm(db: Queryable, id: number) {
   return row;
 }
 
-export async function insertFarm(db: Queryable, name: string): Promise<FarmRow> {
-  const [row] = await db.insert(farms).values({ name }).returning();
+export async function insertFarm(
+  db: Queryable,
+  values: { name: string; currency: string },
+): Promise<FarmRow> {
+  const [row] = await db.insert(farms).values(values).returning();
   if (!row) throw new Error('insert into farms returned no row');
   return row;
 }
 
-export async function renameFarm(db: Queryable, id: number, name: string) {
-  const [row] = await db.update(farms).set({ name }).where(eq(farms.id, id)).returning();
+export async function updateFarm(
+  db: Queryable,
+  id: number,
+  patch: { name?: string; currency?: string },
+) {
+  const [row] = await db.update(farms).set(patch).where(eq(farms.id, id)).returning();
   return row;
 }
 

@@ -9,13 +9,13 @@ import {
   findFarm,
   insertFarm,
   listFarmsOfUser,
-  renameFarm,
+  updateFarm,
 } from './farms.repository';
 
 export interface FarmsService {
   list(ctx: RequestContext): Promise<Farm[]>;
   get(ctx: RequestContext, farmId: number): Promise<Farm>;
-  create(ctx: RequestContext, input: FarmCreate): Promise<Farm>;
+  create(ctx: RequestContext, input: Required<FarmCreate>): Promise<Farm>;
   update(ctx: RequestContext, farmId: number, input: FarmUpdate): Promise<Farm>;
 }
 
@@ -41,7 +41,7 @@ export function createFarmsService(db: Database): FarmsService {
         throw forbidden('Only administrators add farms');
       }
       const farm = await db.transaction(async (tx) => {
-        const created = await insertFarm(tx, input.name);
+        const created = await insertFarm(tx, input);
         await addMembership(tx, ctx.user.id, created.id, 'admin');
         await recordAudit(tx, {
           farmId: created.id,
@@ -56,6 +56,7 @@ export function createFarmsService(db: Database): FarmsService {
       return {
         id: farm.id,
         name: farm.name,
+        currency: farm.currency,
         role: 'admin',
         houseCount: 0,
         createdAt: farm.createdAt.toISOString(),
@@ -66,18 +67,20 @@ export function createFarmsService(db: Database): FarmsService {
       requireFarmPermission(ctx, farmId, 'farm.update');
       const before = await read(ctx, farmId);
       await db.transaction(async (tx) => {
-        await renameFarm(tx, farmId, input.name);
+        await updateFarm(tx, farmId, input);
         await recordAudit(tx, {
           farmId,
           actorUserId: ctx.user.id,
           action: 'farm.update',
           entity: 'farm',
           entityId: farmId,
-          before: { name: before.name },
-          after: { name: input.name },
+          before: Object.fromEntries(
+            Object.keys(input).map((k) => [k, before[k as keyof FarmUpdate]]),
+          ),
+          after: input,
         });
       });
-      return { ...before, name: input.name };
+      return { ...before, ...input };
     },
   };
 }

@@ -141,6 +141,8 @@ describe('GET /api/v1/reports/farm', () => {
     });
     expect(house.days.map((d: { eggs: number }) => d.eggs)).toEqual([1080, 1080, 1050]);
     expect(response.body.totals).toMatchObject({ eggs: 3210, eggsLost: 30, eggsLostValue: 7.5 });
+    // The value is in the farm's currency (a new farm's is USD until an administrator changes it).
+    expect(response.body.currency).toBe('USD');
   });
 
   it('checks the range and the farm', async () => {

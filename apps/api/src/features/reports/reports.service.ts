@@ -149,6 +149,7 @@ export function createReportsService(db: Database, evaluation: EvaluationService
       return {
         farmId: found.farm.id,
         farmName: found.farm.name,
+        currency: found.farm.currency,
         from: query.from,
         to: query.to,
         houses,

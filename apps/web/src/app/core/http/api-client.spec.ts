@@ -8,6 +8,7 @@ import { ApiClient } from './api-client';
 const farm = {
   id: 1,
   name: 'North Ridge',
+  currency: 'USD',
   role: 'manager',
   houseCount: 3,
   createdAt: '2026-11-01T06:00:00.000Z',

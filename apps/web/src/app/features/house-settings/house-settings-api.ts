@@ -7,6 +7,14 @@ import { ApiClient } from '../../core/http/api-client';
 export class HouseSettingsApi {
   private readonly api = inject(ApiClient);
 
+  /** The house's farm (its currency), nothing while the farm is not known. */
+  farm(farmId: () => number | null) {
+    return this.api.resource(endpoints.farms.get, () => {
+      const id = farmId();
+      return id === null ? undefined : { params: { farmId: id } };
+    });
+  }
+
   update(houseId: number, changes: HouseUpdate): Promise<HouseWithCounters> {
     return this.api.call(endpoints.houses.update, { params: { houseId }, body: changes });
   }

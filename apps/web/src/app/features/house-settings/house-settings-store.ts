@@ -13,6 +13,14 @@ export class HouseSettingsStore {
 
   readonly houseId = computed(() => this.houseParam()());
   readonly house = inject(HousesApi).house(this.houseId);
+  /** The currency the egg price is in: the house's farm's (null until read). */
+  readonly currency = computed(() => {
+    const farm = this.farm;
+    return farm.hasValue() ? farm.value().currency : null;
+  });
+  private readonly farm = this.api.farm(() =>
+    this.house.hasValue() ? this.house.value().farmId : null,
+  );
   readonly loadStatus = computed(() => loadStatus(this.house));
   readonly errorText = computed(() => describeApiError(this.house.error()));
   readonly isSaving = signal(false);

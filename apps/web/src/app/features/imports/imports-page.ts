@@ -46,6 +46,7 @@ import {
 } from './import-mapping-form';
 import { ImportsStore } from './imports-store';
 import { IMPORT_STATE_WORDS } from './import-state-words';
+import type { ImportState } from '@tierscope/domain';
 
 const SAMPLE_BYTES = 64 * 1024;
 
@@ -74,7 +75,9 @@ const SAMPLE_BYTES = 64 * 1024;
 })
 export class ImportsPage {
   protected readonly store = inject(ImportsStore);
-  protected readonly stateWords = IMPORT_STATE_WORDS;
+  protected stateWord(state: ImportState): string {
+    return IMPORT_STATE_WORDS[state];
+  }
   private readonly snackBar = inject(MatSnackBar);
   private readonly fb = inject(NonNullableFormBuilder);
 

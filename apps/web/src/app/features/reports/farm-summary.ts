@@ -1,4 +1,4 @@
-import { DecimalPipe } from '@angular/common';
+import { CurrencyPipe, DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -27,6 +27,7 @@ const HOUSE_COLOURS = [
   selector: 'ts-farm-summary',
   imports: [
     FarmSelect,
+    CurrencyPipe,
     DecimalPipe,
     NgxEchartsDirective,
     MatFormFieldModule,

@@ -1,0 +1,1 @@
+ALTER TABLE "farms" ADD COLUMN "currency" text DEFAULT 'USD' NOT NULL;
