@@ -1,4 +1,6 @@
 import { schema } from '@tierscope/db';
+import { DEMO_LIGHTS_ON, DEMO_TIMEZONE } from '@tierscope/db/seed';
+import { addDays, productionDayOf } from '@tierscope/domain';
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { writeDemoHistory } from '../../scripts/demo-history';
@@ -13,7 +15,8 @@ import {
 
 let harness: Harness;
 let houseId: number;
-const lastDay = new Date(Date.now() - 2 * 86_400_000).toISOString().slice(0, 10);
+/** Two production days before the demo houses' today (on their clock: the UTC date may be a day ahead). */
+const lastDay = addDays(productionDayOf(new Date(), DEMO_TIMEZONE, DEMO_LIGHTS_ON), -2);
 
 beforeAll(async () => {
   harness = await startHarness();
@@ -42,7 +45,7 @@ describe('a manager’s flock and report pages', () => {
     expect(await page.getByTestId('hen-day-yesterday').textContent()).toMatch(/\d{2}\.\d %/);
     expect(await page.getByTestId('hen-day-week').textContent()).toMatch(/\d{2}\.\d %/);
     // The history's walks end on its last day: the day after has none, and the page says so.
-    const dayAfter = new Date(Date.parse(lastDay) + 86_400_000).toISOString().slice(0, 10);
+    const dayAfter = addDays(lastDay, 1);
     expect(await page.getByTestId('missing-walks').textContent()).toContain(dayAfter);
     // The demo's history follows a lay curve, so the fit is good (R² well above the 0.8 it must reach).
     await expect
@@ -79,7 +82,7 @@ describe('a manager’s flock and report pages', () => {
   it("lets an administrator set the farm's currency, in which money is then shown", async () => {
     const page = await harness.browser.newPage({ viewport: { width: 1280, height: 900 } });
     await signIn(page, harness.baseUrl, 'admin@bramblewood.test');
-    await page.getByRole('button', { name: 'Settings of North Ridge' }).click();
+    await page.getByRole('button', { name: 'Farm settings of North Ridge' }).click();
     const dialog = await openedDialog(page);
     await dialog.getByRole('combobox', { name: 'Currency' }).click();
     await page.getByRole('option', { name: 'EUR · Euro' }).click();

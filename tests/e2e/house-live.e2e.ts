@@ -14,7 +14,8 @@ beforeAll(async () => {
   harness = await startHarness();
   dir = mkdtempSync(join(tmpdir(), 'tierscope-e2e-sim-'));
   // The simulator plants a feed-line fault in House 1, row 3, for the last two days of a week of history,
-  // and a dead belt counter in House 2, row 2, tier 1, for the last 30 hours.
+  // a dead belt counter in House 2, row 2, tier 1, for the last 30 hours, and a water problem on House 3's
+  // tier 3 that has taken a little more off every hour for three days.
   const farmFiles = await prepareSimulatorFarms({
     apiUrl: harness.baseUrl,
     dataDir: dir,
@@ -40,6 +41,8 @@ beforeAll(async () => {
       'feed:house=House 1,row=3,drop=0.2,from=-2d',
       '--fault',
       'silent:house=House 2,row=2,tier=1,from=-30h',
+      '--fault',
+      'water:house=House 3,tier=3,decline=0.004/h,from=-3d',
     ],
     { cwd: ROOT, stdio: ['ignore', 'ignore', 'inherit'] },
   );
@@ -170,6 +173,32 @@ describe('the house live page', () => {
     const missed = Number(/About ([\d,]+) eggs not counted/.exec(words)?.[1]?.replace(/,/g, ''));
     expect(missed).toBeGreaterThan(500);
     await screenshot(page, 'house-live-silent-counter');
+    await page.close();
+  });
+
+  it("shows a short tier in its cells, measured against the tier's own yardstick", async () => {
+    const page = await harness.browser.newPage({ viewport: { width: 1280, height: 1000 } });
+    await signIn(page, harness.baseUrl, 'manager@bramblewood.test');
+    await page.getByRole('link', { name: 'Live map of House 3' }).click();
+    // The engine's tier exception, outlined beside the cells.
+    await page
+      .locator('[data-line="tier-3"][data-flagged="true"]')
+      .waitFor({ state: 'attached', timeout: 90_000 });
+    // Each tier-3 cell is compared with tier-3 peers that are just as short; drawn against the tier's usual
+    // share of the house instead, every one reads well below 100 %, and no other tier's does.
+    const percentOf = async (tier: number) =>
+      page
+        .locator(`[data-testid="map-table"] tr[data-tier="${tier}"] td:nth-child(4)`)
+        .evaluateAll((cells) => cells.map((c) => Number.parseFloat(c.textContent ?? '')));
+    const tier3 = await percentOf(3);
+    expect(tier3).toHaveLength(6);
+    for (const pct of tier3) expect(pct).toBeLessThan(92);
+    const tier1 = (await percentOf(1)).sort((a, b) => a - b);
+    expect((tier1[2]! + tier1[3]!) / 2).toBeGreaterThan(94);
+    await screenshot(page, 'house-live-tier-short');
+    await page.setViewportSize({ width: 390, height: 900 });
+    await page.waitForTimeout(1000);
+    await screenshot(page, 'house-live-tier-short-phone');
     await page.close();
   });
 

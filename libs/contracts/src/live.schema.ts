@@ -31,6 +31,8 @@ export const mapCellSchema = z.object({
   expected: z.number().nullable(),
   ratio: z.number().nullable(),
   pValue: z.number().nullable(),
+  /** expected from its tier peers, or (in a short tier) from the whole tier's usual share of the house */
+  yardstick: z.enum(['peers', 'tier']),
   exceptionId: z.number().int().nullable(),
   exceptionKind: z.enum(EXCEPTION_KINDS).nullable(),
   isLearning: z.boolean(),

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import {
   CLEAR,
+  cellsAgainstShortTiers,
   judgeCollectorGap,
   judgeHouse,
   likelyChecks,
@@ -157,6 +158,49 @@ describe('judgeHouse: rows and tiers', () => {
     const j = judged(house(1, (_r, t) => (t === 3 ? 0.82 : 1)));
     expect(shorts(j).map((f) => [f.scope, f.tier])).toEqual([['tier', 3]]);
     expect(likelyChecks('shortfall', 'tier').join(' ')).toMatch(/lighting.*feed loop/);
+  });
+});
+
+describe('cellsAgainstShortTiers', () => {
+  it("shows a short tier's cells near the tier's own ratio, not near 100 %", () => {
+    const j = judged(house(1, (_r, t) => (t === 3 ? 0.89 : 1)));
+    const tier3 = j.cells.filter((c) => c.tier === 3);
+    // Compared with their own (equally short) tier peers, every cell reads about 100 %.
+    for (const cell of tier3) expect(cell.ratio).toBeGreaterThan(0.97);
+    // The tier against its usual share of the house (which it pulled down a little too): about 92 %.
+    const line = j.candidates.find((c) => c.scope === 'tier' && c.tier === 3)!;
+    expect(line.ratio).toBeGreaterThan(0.9);
+    expect(line.ratio).toBeLessThan(0.94);
+    const cells = cellsAgainstShortTiers(
+      j.cells,
+      [{ tier: 3, eggs: line.eggs, expected: line.expected }],
+      10,
+    );
+    for (const cell of cells.filter((c) => c.tier === 3)) {
+      expect(cell.yardstick).toBe('tier');
+      expect(Math.abs((cell.ratio ?? 0) - line.ratio)).toBeLessThan(0.02);
+    }
+    // The tier's cells together are expected to lay what the tier should have laid.
+    const expectedSum = cells
+      .filter((c) => c.tier === 3)
+      .reduce((n, c) => n + (c.expected ?? 0), 0);
+    const peersSum = tier3.reduce((n, c) => n + (c.expected ?? 0), 0);
+    expect(expectedSum / peersSum).toBeCloseTo(line.expected / line.eggs, 6);
+    // Other tiers keep their peers' yardstick, unchanged.
+    const tier1 = cells.filter((c) => c.tier === 1);
+    expect(tier1.every((c) => c.yardstick === 'peers')).toBe(true);
+    expect(tier1.map((c) => c.ratio)).toEqual(
+      j.cells.filter((c) => c.tier === 1).map((c) => c.ratio),
+    );
+  });
+
+  it('leaves cells alone for a tier that laid its share or more, or has no data', () => {
+    const j = judged(house());
+    const cells = cellsAgainstShortTiers(j.cells, [{ tier: 2, eggs: 1000, expected: 900 }], 10);
+    expect(cells.map((c) => c.ratio)).toEqual(j.cells.map((c) => c.ratio));
+    expect(
+      cellsAgainstShortTiers(j.cells, [{ tier: 2, eggs: 0, expected: 900 }], 10)[0]?.yardstick,
+    ).toBe('peers');
   });
 });
 

@@ -306,6 +306,48 @@ export function judgeHouse(input: HouseInput): HouseJudgement {
   return { cells, candidates };
 }
 
+/** What a cell's expected count is measured from: its tier peers, or its whole tier's usual share. */
+export type CellYardstick = 'peers' | 'tier';
+
+/** A whole tier as judged: its eggs against what its usual share of the house would be. */
+export interface TierMeasure {
+  tier: number;
+  eggs: number;
+  expected: number;
+}
+
+/**
+ * A short tier hides in its cells: each cell is compared with its own tier's peers, which are short too, so
+ * every cell of the tier reads about 100 %. The cells of the tiers given (those judged short, or under a tier
+ * exception) are measured against the tier's own yardstick instead: each cell's expected count is scaled by
+ * what the whole tier should have laid over what it did, so a tier at 89 % shows cells near 89 %. A short row
+ * needs nothing of the kind: its cells are already compared with the other rows' cells of their tier.
+ */
+export function cellsAgainstShortTiers<C extends CellResult>(
+  cells: readonly C[],
+  shortTiers: readonly TierMeasure[],
+  thresholdPct: number,
+): (C & { yardstick: CellYardstick })[] {
+  const factors = new Map(
+    shortTiers
+      .filter((t) => t.eggs > 0 && t.expected > t.eggs)
+      .map((t) => [t.tier, t.expected / t.eggs]),
+  );
+  return cells.map((cell) => {
+    const factor = factors.get(cell.tier);
+    if (factor === undefined || cell.expected === null || cell.eggs === null)
+      return { ...cell, yardstick: 'peers' as const };
+    const verdict = judge(cell.eggs, cell.expected * factor, thresholdPct);
+    return {
+      ...cell,
+      expected: verdict.expected,
+      ratio: verdict.ratio,
+      pValue: verdict.pValue,
+      yardstick: 'tier' as const,
+    };
+  });
+}
+
 /** The collector and the sum of the belts disagree by more than `pct` %, by more than chance. */
 export function judgeCollectorGap(collector: number, belts: number, pct = 3) {
   const diffPct = belts > 0 ? ((collector - belts) / belts) * 100 : 0;

@@ -3,10 +3,12 @@ import { housesJudgingPastDays } from '../../platform/cluster.repository';
 import type { Database } from '@tierscope/db';
 import {
   addDays,
+  cellsAgainstShortTiers,
   judgeHouse,
   median,
   productionWindow,
   sectionKey,
+  type HouseJudgement,
   type ProductionWindow,
   eggsLaid,
 } from '@tierscope/domain';
@@ -39,6 +41,17 @@ export interface HouseMapReader {
     window: ProductionWindow | 'today',
     now?: Date,
   ): Promise<HouseMap | undefined>;
+}
+
+/** A house's cells with those of its short tiers measured against the tier's yardstick. */
+function withTierYardstick(judged: HouseJudgement, thresholdPct: number) {
+  return cellsAgainstShortTiers(
+    judged.cells,
+    judged.candidates
+      .filter((c) => c.scope === 'tier' && c.isShort && c.tier !== null)
+      .map((c) => ({ tier: c.tier ?? 0, eggs: c.eggs, expected: c.expected })),
+    thresholdPct,
+  );
 }
 
 export function createHouseMap(db: Database, baseline: HouseBaseline): HouseMapReader {
@@ -84,7 +97,9 @@ export function createHouseMap(db: Database, baseline: HouseBaseline): HouseMapR
           current: counts(layout, totals),
           history: await baseline.history(layout, day),
         });
-        const cell = judged.cells.find((c) => c.row === row && c.tier === tier);
+        const cell = withTierYardstick(judged, house.shortfallThresholdPct).find(
+          (c) => c.row === row && c.tier === tier,
+        );
         days.push({ day, eggs: cell?.eggs ?? null, expected: cell?.expected ?? null });
       }
       return { row, tier, timezone: house.timezone, today: points, days };
@@ -123,29 +138,6 @@ export function createHouseMap(db: Database, baseline: HouseBaseline): HouseMapR
           : new Map<number, Date>();
       const newest = Math.max(0, ...[...horizons.values()].map((d) => d.getTime()));
       const sectionIdOf = new Map(layout.sections.map((s) => [sectionKey(s.row, s.tier), s.id]));
-      const cells = judged.cells.map((cell) => {
-        const horizon = horizons.get(sectionIdOf.get(sectionKey(cell.row, cell.tier)) ?? -1);
-        const covering = overlapping
-          .filter((e) => coveredSections(e, layout).includes(sectionKey(cell.row, cell.tier)))
-          .sort(
-            (a, b) =>
-              (a.status === 'closed' ? 1 : 0) - (b.status === 'closed' ? 1 : 0) ||
-              (kindRank[a.kind] ?? 2) - (kindRank[b.kind] ?? 2),
-          );
-        const top =
-          window.kind === 'today' ? covering.find((e) => e.status !== 'closed') : covering[0];
-        return {
-          ...cell,
-          exceptionId: top?.id ?? null,
-          exceptionKind: top?.kind ?? null,
-          isLearning: top?.isLearning ?? false,
-          dataUntil: horizon?.toISOString() ?? null,
-          isDataLate:
-            window.kind === 'today' &&
-            newest > 0 &&
-            newest - (horizon?.getTime() ?? 0) > DATA_LATE_MAP_MS,
-        };
-      });
       // Rows and tiers as the engine judged them, each with the exception that covers it in the window.
       const lines = (scope: 'row' | 'tier'): LineJudgement[] =>
         judged.candidates
@@ -172,6 +164,39 @@ export function createHouseMap(db: Database, baseline: HouseBaseline): HouseMapR
             };
           })
           .sort((a, b) => a.at - b.at);
+      const byRow = lines('row');
+      const byTier = lines('tier');
+      // A tier judged short, or under an open tier exception, shows its cells against the tier's yardstick.
+      const tierCells = cellsAgainstShortTiers(
+        judged.cells,
+        byTier
+          .filter((t) => t.isShort || (t.exceptionId !== null && t.exceptionStatus !== 'closed'))
+          .map((t) => ({ tier: t.at, eggs: t.eggs, expected: t.expected })),
+        house.shortfallThresholdPct,
+      );
+      const cells = tierCells.map((cell) => {
+        const horizon = horizons.get(sectionIdOf.get(sectionKey(cell.row, cell.tier)) ?? -1);
+        const covering = overlapping
+          .filter((e) => coveredSections(e, layout).includes(sectionKey(cell.row, cell.tier)))
+          .sort(
+            (a, b) =>
+              (a.status === 'closed' ? 1 : 0) - (b.status === 'closed' ? 1 : 0) ||
+              (kindRank[a.kind] ?? 2) - (kindRank[b.kind] ?? 2),
+          );
+        const top =
+          window.kind === 'today' ? covering.find((e) => e.status !== 'closed') : covering[0];
+        return {
+          ...cell,
+          exceptionId: top?.id ?? null,
+          exceptionKind: top?.kind ?? null,
+          isLearning: top?.isLearning ?? false,
+          dataUntil: horizon?.toISOString() ?? null,
+          isDataLate:
+            window.kind === 'today' &&
+            newest > 0 &&
+            newest - (horizon?.getTime() ?? 0) > DATA_LATE_MAP_MS,
+        };
+      });
       const belts = current.reduce((n, s) => n + s.eggs, 0);
       const collector = await collectorTotal(
         db,
@@ -204,8 +229,8 @@ export function createHouseMap(db: Database, baseline: HouseBaseline): HouseMapR
           isComplete: window.isComplete,
         },
         cells,
-        byRow: lines('row'),
-        byTier: lines('tier'),
+        byRow,
+        byTier,
         belts,
         collector,
         henDayPct,

@@ -164,7 +164,9 @@ export class HouseHeatMap {
             c.isDataLate && c.dataUntil
               ? `<br>Data late: counted up to ${houseTime(c.dataUntil, map.timezone)}`
               : '';
-          return `Row ${c.row}, tier ${c.tier}<br>Eggs ${c.eggs ?? '—'} · expected ${expected}<br>${c.exceptionKind ? (c.exceptionKind === 'silent_counter' ? 'Silent counter' : 'Shortfall') + (c.isLearning ? ' (learning)' : '') : 'No exception'}${late}`;
+          const from =
+            c.yardstick === 'tier' ? ` (from tier ${c.tier}'s usual share of the house)` : '';
+          return `Row ${c.row}, tier ${c.tier}<br>Eggs ${c.eggs ?? '—'} · expected ${expected}${from}<br>${c.exceptionKind ? (c.exceptionKind === 'silent_counter' ? 'Silent counter' : 'Shortfall') + (c.isLearning ? ' (learning)' : '') : 'No exception'}${late}`;
         },
       },
       xAxis: {

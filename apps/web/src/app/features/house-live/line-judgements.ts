@@ -5,9 +5,9 @@ import type { LineJudgement } from '@tierscope/contracts';
 import { ratioColor, textOn } from '../../shared/ui/ratio-colors';
 
 /**
- * Whole rows and whole tiers as the engine judged them, beside the cells: a short tier is invisible in its
- * cells (each is compared with its own tier, which is short too), so it shows here, in the map's colours, with
- * the outline and warning of its exception.
+ * Whole rows and whole tiers as the engine judged them, beside the cells, in the map's colours, with the
+ * outline and warning of their exception. (A short tier's cells are drawn against the tier's yardstick, not
+ * against each other, which would hide it: see `cellsAgainstShortTiers`.)
  */
 @Component({
   selector: 'ts-line-judgements',
