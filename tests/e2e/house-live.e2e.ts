@@ -189,7 +189,7 @@ describe('the house live page', () => {
     const percentOf = async (tier: number) =>
       page
         .locator(`[data-testid="map-table"] tr[data-tier="${tier}"] td:nth-child(4)`)
-        .evaluateAll((cells) => cells.map((c) => Number.parseFloat(c.textContent ?? '')));
+        .evaluateAll((cells) => cells.map((c) => Number.parseFloat(c.textContent)));
     const tier3 = await percentOf(3);
     expect(tier3).toHaveLength(6);
     for (const pct of tier3) expect(pct).toBeLessThan(92);
