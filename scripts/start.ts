@@ -286,6 +286,7 @@ async function waitForJudgedHistory(databaseUrl: string): Promise<void> {
   const startedAt = Date.now();
   let lastSaid = '';
   let lastSaidAt = 0;
+  let quietPolls = 0;
   try {
     for (;;) {
       const result = await database.db.execute<{ reached: string | null; judging: number }>(sql`
@@ -298,7 +299,9 @@ async function waitForJudgedHistory(databaseUrl: string): Promise<void> {
       const row = result.rows[0];
       const reached = row?.reached ? new Date(row.reached) : null;
       const isCaughtUp = reached !== null && Date.now() - reached.getTime() < 30 * 60_000;
-      if (isCaughtUp && row?.judging === 0) {
+      // Twice in a row: a replay just scheduled writes its mark a moment after its readings land.
+      quietPolls = isCaughtUp && row?.judging === 0 ? quietPolls + 1 : 0;
+      if (quietPolls >= 2) {
         log('history judged: every house is live');
         return;
       }
