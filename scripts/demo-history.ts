@@ -72,13 +72,15 @@ function ageOn(flock: { placedOn: string; ageAtPlacementWeeks: number }, day: st
 }
 
 /**
- * Writes the daily totals and morning walks of every flock from its placement up to `lastDay`, drawn from the
- * simulator that starts at `simulatorStart` (the same production days, so the same day-to-day noise).
+ * Writes the daily totals of every flock from its placement up to `lastDay`, drawn from the simulator that
+ * starts at `simulatorStart` (the same production days, so the same day-to-day noise), and its morning walks up
+ * to `walksUntil` (the crew keeps walking the house while the simulator backfills the later days' counts).
  */
 export async function writeDemoHistory(
   db: Database,
   lastDay: string,
   simulatorStart = new Date(),
+  walksUntil = lastDay,
 ): Promise<number> {
   const flocks = await db.select().from(schema.flocks);
   let days = 0;
@@ -99,7 +101,8 @@ export async function writeDemoHistory(
     // The morning walks first: the hens alive on each day decide how many eggs the model draws.
     const hensOn = new Map<string, number>();
     let hens = flock.hensHoused;
-    for (let day = flock.placedOn; day <= lastDay; day = addDays(day, 1)) {
+    const lastWalk = walksUntil > lastDay ? walksUntil : lastDay;
+    for (let day = flock.placedOn; day <= lastWalk; day = addDays(day, 1)) {
       const age = ageOn(flock, day);
       hensOn.set(day, hens);
       // About 0.05 % of hens a week, more in the first weeks after moving in.

@@ -179,8 +179,12 @@ async function main(): Promise<void> {
     );
     backfillFrom = productionDayStart(backfillDay, DEMO_TIMEZONE, DEMO_LIGHTS_ON);
     const lastDay = addDays(backfillDay, -1);
-    const days = await writeDemoHistory(database.db, lastDay);
-    log(`demo history: ${days} house-days of daily totals and morning walks up to ${lastDay}`);
+    // The morning walks go on up to yesterday: the crew recorded them while the counts came by gateway.
+    const yesterday = addDays(productionDayOf(new Date(), DEMO_TIMEZONE, DEMO_LIGHTS_ON), -1);
+    const days = await writeDemoHistory(database.db, lastDay, new Date(), yesterday);
+    log(
+      `demo history: ${days} house-days of daily totals up to ${lastDay}, morning walks up to ${yesterday}`,
+    );
   }
   const flocks = await demoFlocks(database.db);
   await database.close();

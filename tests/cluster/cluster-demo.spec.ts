@@ -107,7 +107,13 @@ describe('the demo scenario on three API processes behind the balancer', () => {
         zone,
         lightsOn,
       );
-      await writeDemoHistory(db, addDays(firstDay, -1), START);
+      // The morning walks go on to yesterday, as `npm start` writes them.
+      await writeDemoHistory(
+        db,
+        addDays(firstDay, -1),
+        START,
+        addDays(productionDayOf(START, zone, lightsOn), -1),
+      );
       const farmFiles = await prepareSimulatorFarms({
         apiUrl: `http://127.0.0.1:${balancer.port}`,
         dataDir: dir,
