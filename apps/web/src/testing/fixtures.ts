@@ -1,4 +1,4 @@
-import type { ExceptionView, WorkOrderSummary } from '@tierscope/contracts';
+import type { ExceptionView, House, WorkOrderSummary } from '@tierscope/contracts';
 
 // Answers as the API sends them, for specs: each parses with its contract schema.
 
@@ -56,5 +56,21 @@ export const workOrderSummary = (
   checklistTotal: 0,
   createdAt: '2026-12-01T00:00:00.000Z',
   doneAt: null,
+  ...over,
+});
+
+/** House 2 of the demo layout (6 rows × 3 tiers, America/Chicago); `over` changes any field. */
+export const house = (over: Partial<House> = {}): House => ({
+  id: 4,
+  farmId: 1,
+  name: 'House 2',
+  rows: 6,
+  tiers: 3,
+  timezone: 'America/Chicago',
+  lightsOn: '04:00',
+  photoperiodHours: 16,
+  shortfallThresholdPct: 10,
+  eggPricePerDozen: null,
+  createdAt: '2026-10-01T00:00:00.000Z',
   ...over,
 });

@@ -3,14 +3,13 @@ import { DecimalPipe } from '@angular/common';
 import { RouterLink } from '@angular/router';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
 import type { UnknownCounter } from '@tierscope/contracts';
 import { firstValueFrom } from 'rxjs';
 import { describeApiError } from '../../core/http/api-error';
+import { FarmSelect } from '../../shared/ui/farm-select';
 import { LoadState } from '../../shared/ui/load-state';
 import { houseTime } from '../../shared/ui/local-dates';
 import { heldWords } from './counter-words';
@@ -33,8 +32,7 @@ import {
     MatTableModule,
     MatButtonModule,
     MatIconModule,
-    MatFormFieldModule,
-    MatSelectModule,
+    FarmSelect,
     LoadState,
   ],
   templateUrl: './counters-page.html',

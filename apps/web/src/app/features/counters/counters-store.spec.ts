@@ -1,7 +1,8 @@
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestBed } from '@angular/core/testing';
-import type { CounterPlaced, House, UnknownCounter } from '@tierscope/contracts';
+import type { CounterPlaced, UnknownCounter } from '@tierscope/contracts';
+import { house as houseFixture } from '../../../testing/fixtures';
 import { signInAs } from '../../../testing/session';
 import { CountersStore } from './counters-store';
 
@@ -15,19 +16,7 @@ const unknown = (id: number, externalId: string): UnknownCounter => ({
   lastReadingAt: '2026-11-11T12:00:00.000Z',
 });
 
-const house: House = {
-  id: 4,
-  farmId: 1,
-  name: 'House 2',
-  rows: 6,
-  tiers: 3,
-  timezone: 'America/Chicago',
-  lightsOn: '04:00',
-  photoperiodHours: 16,
-  shortfallThresholdPct: 10,
-  eggPricePerDozen: null,
-  createdAt: '2026-10-01T00:00:00.000Z',
-};
+const house = houseFixture();
 
 const placed: CounterPlaced = {
   counter: { id: 9, externalId: 'SPARE-3', kind: 'belt', row: 2, tier: 3, active: true },

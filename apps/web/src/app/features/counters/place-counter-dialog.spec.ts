@@ -3,23 +3,12 @@ import { HttpTestingController, provideHttpClientTesting } from '@angular/common
 import { TestBed } from '@angular/core/testing';
 import type { FormControl, FormGroup } from '@angular/forms';
 import { MAT_DIALOG_DATA, MatDialogRef } from '@angular/material/dialog';
-import type { Counter, House } from '@tierscope/contracts';
+import type { Counter } from '@tierscope/contracts';
+import { house as houseFixture } from '../../../testing/fixtures';
 import { signInAs } from '../../../testing/session';
 import { PlaceCounterDialog, type PlaceCounterData } from './place-counter-dialog';
 
-const house: House = {
-  id: 4,
-  farmId: 1,
-  name: 'House 2',
-  rows: 6,
-  tiers: 3,
-  timezone: 'America/Chicago',
-  lightsOn: '04:00',
-  photoperiodHours: 16,
-  shortfallThresholdPct: 10,
-  eggPricePerDozen: null,
-  createdAt: '2026-10-01T00:00:00.000Z',
-};
+const house = houseFixture();
 
 const data: PlaceCounterData = {
   counter: {
