@@ -70,15 +70,29 @@ const rawAndHourly = async (externalId: string) => ({
                            JOIN counters c ON c.id = r.counter_id WHERE c.external_id = ${externalId}`),
 });
 
-const beltId = async (row: number, tier: number) => {
-  const counters = (
+/** Farm A house's counters, as its counters endpoint lists them. */
+const houseCounters = async () =>
+  (
     await request(app)
       .get(`/api/v1/houses/${fixture.houseA}/counters`)
       .set('Authorization', integrator)
       .expect(200)
-  ).body as { externalId: string; kind: string; row: number; tier: number; active: boolean }[];
-  return counters.filter((c) => c.kind === 'belt' && c.row === row && c.tier === tier);
-};
+  ).body as {
+    id: number;
+    externalId: string;
+    kind: string;
+    row: number | null;
+    tier: number | null;
+    active: boolean;
+  }[];
+
+/** The belt counters at one row and tier of farm A's house (the active one and any retired). */
+const countersAt = async (row: number, tier: number) =>
+  (await houseCounters()).filter((c) => c.kind === 'belt' && c.row === row && c.tier === tier);
+
+/** Places an unknown counter of farm A, by its id, on a belt of farm A's house. */
+const placeOnBelt = async (externalId: string, row: number, tier: number) =>
+  place(await idOf(externalId), { houseId: fixture.houseA, kind: 'belt', row, tier });
 
 beforeAll(async () => {
   database = await createTestDatabase();
@@ -131,15 +145,10 @@ describe('POST /unknown-counters/:counterId/place', () => {
       { counter: 'SPARE-3', ts: at(12, 0, 11), eggs: 50 },
     ]);
     const before = await sectionEggs(2, 3);
-    const defaultCounter = (await beltId(2, 3))[0]!.externalId;
+    const defaultCounter = (await countersAt(2, 3))[0]!.externalId;
     const heard: DomainEvents['readings.accepted'][] = [];
     const stop = events.on('readings.accepted', (e) => heard.push(e));
-    const response = await place(await idOf('SPARE-3'), {
-      houseId: fixture.houseA,
-      kind: 'belt',
-      row: 2,
-      tier: 3,
-    });
+    const response = await placeOnBelt('SPARE-3', 2, 3);
     stop();
     expect(response.status).toBe(200);
     expect(response.body).toMatchObject({
@@ -159,8 +168,8 @@ describe('POST /unknown-counters/:counterId/place', () => {
     ).toBe(50);
     // The hour rollups were written when the readings came; placing rebuilt them, not added them again.
     expect(await rawAndHourly('SPARE-3')).toEqual({ raw: 100, hourly: 100 });
-    expect((await beltId(2, 3)).map((c) => c.externalId)).toEqual(['SPARE-3']);
-    expect((await beltId(2, 3)).map((c) => c.externalId)).not.toContain(defaultCounter);
+    expect((await countersAt(2, 3)).map((c) => c.externalId)).toEqual(['SPARE-3']);
+    expect((await countersAt(2, 3)).map((c) => c.externalId)).not.toContain(defaultCounter);
     expect(heard).toEqual([
       expect.objectContaining({
         farmId: fixture.farmA,
@@ -181,37 +190,27 @@ describe('POST /unknown-counters/:counterId/place', () => {
   });
 
   it('retires the counter that counted there before, keeping its days in the section', async () => {
-    const old = (await beltId(1, 1))[0]!.externalId;
+    const old = (await countersAt(1, 1))[0]!.externalId;
     await send(keyA, [{ counter: old, ts: at(11, 0, 5), eggs: 500 }]);
     await send(keyA, [{ counter: 'REPLACEMENT-11', ts: at(11, 0, 12), eggs: 480 }]);
-    const response = await place(await idOf('REPLACEMENT-11'), {
-      houseId: fixture.houseA,
-      kind: 'belt',
-      row: 1,
-      tier: 1,
-    });
+    const response = await placeOnBelt('REPLACEMENT-11', 1, 1);
     expect(response.status).toBe(200);
     expect(response.body.replacedExternalId).toBe(old);
     expect(await sectionEggs(1, 1)).toBe(980);
-    const atPlace = await beltId(1, 1);
+    const atPlace = await countersAt(1, 1);
     expect(atPlace.find((c) => c.externalId === old)?.active).toBe(false);
     expect(atPlace.find((c) => c.externalId === 'REPLACEMENT-11')?.active).toBe(true);
   });
 
   it('refuses a place whose counter counted during the same hours, changing nothing', async () => {
-    const current = (await beltId(3, 2))[0]!.externalId;
+    const current = (await countersAt(3, 2))[0]!.externalId;
     await send(keyA, [
       { counter: current, ts: at(12, 0, 13), eggs: 90 },
       { counter: 'TWIN-32', ts: at(11, 0, 13), eggs: 80 },
       { counter: 'TWIN-32', ts: at(13, 0, 13), eggs: 85 },
     ]);
     const before = await sectionEggs(3, 2);
-    const response = await place(await idOf('TWIN-32'), {
-      houseId: fixture.houseA,
-      kind: 'belt',
-      row: 3,
-      tier: 2,
-    });
+    const response = await placeOnBelt('TWIN-32', 3, 2);
     expect(response.status).toBe(409);
     expect(response.body.error.message).toContain(`Counter ${current} at A1, row 3, tier 2`);
     expect(await sectionEggs(3, 2)).toBe(before);
@@ -264,12 +263,7 @@ describe('POST /unknown-counters/:counterId/place', () => {
   });
 
   it('refuses to place a counter twice', async () => {
-    const counters = (
-      await request(app)
-        .get(`/api/v1/houses/${fixture.houseA}/counters`)
-        .set('Authorization', integrator)
-    ).body as { id: number; externalId: string }[];
-    const placed = counters.find((c) => c.externalId === 'SPARE-3')!;
+    const placed = (await houseCounters()).find((c) => c.externalId === 'SPARE-3')!;
     const response = await place(placed.id, {
       houseId: fixture.houseA,
       kind: 'belt',
@@ -324,12 +318,7 @@ describe('DELETE /unknown-counters/:counterId', () => {
   });
 
   it('never forgets a placed counter', async () => {
-    const counters = (
-      await request(app)
-        .get(`/api/v1/houses/${fixture.houseA}/counters`)
-        .set('Authorization', integrator)
-    ).body as { id: number; externalId: string }[];
-    const placed = counters.find((c) => c.externalId === 'NEW-COLLECTOR')!;
+    const placed = (await houseCounters()).find((c) => c.externalId === 'NEW-COLLECTOR')!;
     const response = await request(app)
       .delete(`/api/v1/unknown-counters/${placed.id}`)
       .set('Authorization', integrator);
