@@ -107,7 +107,12 @@ describe('unknown counters', () => {
       key,
     );
 
-    await page.getByRole('link', { name: 'Unknown counters' }).click();
+    // The gateways page says ids are waiting, and leads to them.
+    await page.getByRole('link', { name: 'Gateways' }).click();
+    const waiting = page.getByTestId('unknown-counters');
+    await waiting.waitFor();
+    expect(await waiting.textContent()).toContain('2 counter ids sent by this farm');
+    await waiting.getByRole('link', { name: 'Place them' }).click();
     const table = page.getByRole('table', { name: 'Unknown counters' });
     const spare = table.getByRole('row').filter({ hasText: 'NR-SPARE-07' });
     await spare.waitFor();

@@ -13,6 +13,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
+import { RouterLink } from '@angular/router';
 import { gatewayCreateSchema, type Gateway } from '@tierscope/contracts';
 import { describeApiError } from '../../core/http/api-error';
 import { LoadState } from '../../shared/ui/load-state';
@@ -24,6 +25,7 @@ import { GatewaysStore } from './gateways-store';
   selector: 'ts-gateways-page',
   imports: [
     DatePipe,
+    RouterLink,
     ReactiveFormsModule,
     MatTableModule,
     MatButtonModule,

@@ -3,6 +3,7 @@ import type { Gateway, GatewayCreate, GatewayCreated } from '@tierscope/contract
 import { AuthStore } from '../../core/auth/auth-store';
 import { describeApiError } from '../../core/http/api-error';
 import { listState } from '../../shared/ui/load-state';
+import { CountersApi } from '../counters/counters-api';
 import { GatewaysApi } from './gateways-api';
 
 /** The gateways page's state: the farm chosen, its gateways, and the key just made (shown once). */
@@ -16,6 +17,11 @@ export class GatewaysStore {
   readonly farmId = linkedSignal(() => this.farms()[0]?.farmId ?? null);
   readonly gateways = this.api.list(() => this.farmId());
   readonly loadStatus = computed(() => listState(this.gateways));
+  /** How many counter ids the farm's gateways sent that no house has yet (0 until read). */
+  private readonly unknown = inject(CountersApi).unknown(() => this.farmId());
+  readonly unknownCount = computed(() =>
+    this.unknown.hasValue() ? this.unknown.value().length : 0,
+  );
   readonly errorText = computed(() => describeApiError(this.gateways.error()));
   readonly isCreating = signal(false);
   /** The key of the gateway just made: shown once, never again. */
