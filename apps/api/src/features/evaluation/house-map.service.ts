@@ -6,6 +6,7 @@ import {
   cellsAgainstShortTiers,
   judgeHouse,
   median,
+  productionDayStart,
   productionWindow,
   sectionKey,
   type HouseJudgement,
@@ -43,12 +44,20 @@ export interface HouseMapReader {
   ): Promise<HouseMap | undefined>;
 }
 
-/** A house's cells with those of its short tiers measured against the tier's yardstick. */
-function withTierYardstick(judged: HouseJudgement, thresholdPct: number) {
+/**
+ * A house's cells, those of tiers under a tier exception measured against the tier's yardstick. Only the
+ * engine's verdict counts: a tier that merely reads short (a silent counter in it, a partial day) keeps its
+ * cells against their peers, or its healthy cells would look short.
+ */
+function withTierYardstick(
+  judged: HouseJudgement,
+  thresholdPct: number,
+  tiersUnderException: ReadonlySet<number>,
+) {
   return cellsAgainstShortTiers(
     judged.cells,
     judged.candidates
-      .filter((c) => c.scope === 'tier' && c.isShort && c.tier !== null)
+      .filter((c) => c.scope === 'tier' && c.tier !== null && tiersUnderException.has(c.tier))
       .map((c) => ({ tier: c.tier ?? 0, eggs: c.eggs, expected: c.expected })),
     thresholdPct,
   );
@@ -81,8 +90,24 @@ export function createHouseMap(db: Database, baseline: HouseBaseline): HouseMapR
         });
       }
       const days: CellDetail['days'] = [];
+      const firstDay = addDays(today.firstDay, -14);
+      const tierFaults = (
+        await exceptionsOverlapping(
+          db,
+          house.id,
+          productionDayStart(firstDay, house.timezone, house.lightsOn),
+          today.from,
+        )
+      ).filter((e) => e.kind === 'shortfall' && e.scope === 'tier' && e.tier !== null);
       for (let back = 14; back >= 1; back--) {
         const day = addDays(today.firstDay, -back);
+        const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
+        const dayEnd = productionDayStart(addDays(day, 1), house.timezone, house.lightsOn);
+        const tiersUnderException = new Set(
+          tierFaults
+            .filter((e) => e.openedAt < dayEnd && (e.closedAt === null || e.closedAt > dayStart))
+            .map((e) => e.tier ?? 0),
+        );
         const totals = await sectionTotals(
           db,
           house.farmId,
@@ -97,7 +122,11 @@ export function createHouseMap(db: Database, baseline: HouseBaseline): HouseMapR
           current: counts(layout, totals),
           history: await baseline.history(layout, day),
         });
-        const cell = withTierYardstick(judged, house.shortfallThresholdPct).find(
+        const cell = withTierYardstick(
+          judged,
+          house.shortfallThresholdPct,
+          tiersUnderException,
+        ).find(
           (c) => c.row === row && c.tier === tier,
         );
         days.push({ day, eggs: cell?.eggs ?? null, expected: cell?.expected ?? null });
@@ -166,13 +195,11 @@ export function createHouseMap(db: Database, baseline: HouseBaseline): HouseMapR
           .sort((a, b) => a.at - b.at);
       const byRow = lines('row');
       const byTier = lines('tier');
-      // A tier judged short, or under an open tier exception, shows its cells against the tier's yardstick.
-      const tierCells = cellsAgainstShortTiers(
-        judged.cells,
-        byTier
-          .filter((t) => t.isShort || (t.exceptionId !== null && t.exceptionStatus !== 'closed'))
-          .map((t) => ({ tier: t.at, eggs: t.eggs, expected: t.expected })),
+      // A tier under a tier exception in the window shows its cells against the tier's yardstick.
+      const tierCells = withTierYardstick(
+        judged,
         house.shortfallThresholdPct,
+        new Set(byTier.filter((t) => t.exceptionId !== null).map((t) => t.at)),
       );
       const cells = tierCells.map((cell) => {
         const horizon = horizons.get(sectionIdOf.get(sectionKey(cell.row, cell.tier)) ?? -1);
