@@ -126,9 +126,7 @@ export function createHouseMap(db: Database, baseline: HouseBaseline): HouseMapR
           judged,
           house.shortfallThresholdPct,
           tiersUnderException,
-        ).find(
-          (c) => c.row === row && c.tier === tier,
-        );
+        ).find((c) => c.row === row && c.tier === tier);
         days.push({ day, eggs: cell?.eggs ?? null, expected: cell?.expected ?? null });
       }
       return { row, tier, timezone: house.timezone, today: points, days };
