@@ -66,11 +66,8 @@ export async function findCounter(db: Queryable, id: number): Promise<CounterRow
  * or after it, when the counter has its house and the batch is rolled up as usual.
  */
 export async function lockCounter(db: Queryable, id: number): Promise<CounterRow | undefined> {
-  const result = await db.execute<{ id: number }>(
-    sql`SELECT id FROM counters WHERE id = ${id} FOR UPDATE`,
-  );
-  if (result.rows.length === 0) return undefined;
-  return findCounter(db, id);
+  const [row] = await db.select().from(counters).where(eq(counters.id, id)).for('update');
+  return row;
 }
 
 /** One belt section of a house by its row and tier. */

@@ -1,4 +1,9 @@
-import { currencyChoices, formatMoney } from './currencies';
+import { CurrencyPipe } from '@angular/common';
+import { currencyChoices } from './currencies';
+
+/** Money as the farm summary shows it: Angular's currency pipe, in the app's locale. */
+const formatMoney = (value: number, currency: string) =>
+  new CurrencyPipe('en-US').transform(value, currency);
 
 describe('currencies', () => {
   it('offers the usual currencies first, then every other ISO 4217 code, named in words', () => {

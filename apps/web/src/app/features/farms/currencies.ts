@@ -18,8 +18,3 @@ export function currencyChoices(current: string): CurrencyChoice[] {
   if (!codes.includes(current)) codes.unshift(current);
   return codes.map((code) => ({ code, name: names.of(code) ?? code }));
 }
-
-/** A sum of money in a currency, e.g. "$1,234.50" or "€12.00". */
-export function formatMoney(value: number, currency: string): string {
-  return new Intl.NumberFormat('en-US', { style: 'currency', currency }).format(value);
-}
