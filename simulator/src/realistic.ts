@@ -280,11 +280,15 @@ export class RealisticHouse {
           laid[j] = kept;
           remaining -= draw;
         }
-        const counted = new Int32Array(SLOTS_PER_DAY);
-        for (let j = 0; j < SLOTS_PER_DAY; j++) {
+        // A counter fault acts when the eggs pass the counter: as they are laid on running belts, at the run
+        // that carries them on scheduled ones (below).
+        const countAt = (j: number, eggs: number) => {
           const factor = this.countFactor(row, tier, dayStart + j);
-          counted[j] = factor === 1 ? (laid[j] ?? 0) : Math.round((laid[j] ?? 0) * factor);
-        }
+          return factor === 1 ? eggs : Math.round(eggs * factor);
+        };
+        const counted = new Int32Array(SLOTS_PER_DAY);
+        for (let j = 0; j < SLOTS_PER_DAY; j++)
+          counted[j] = runSlots ? (laid[j] ?? 0) : countAt(j, laid[j] ?? 0);
         // A glitch: a slot's count is dropped and caught up in the next one, or counted twice.
         if (random() < o.glitchesPerCounterDay) {
           const j = Math.floor(random() * (lightSlots - 1));
@@ -300,7 +304,7 @@ export class RealisticHouse {
             held += counted[j] ?? 0;
             counted[j] = 0;
             if (runSlots.has(j) || j === SLOTS_PER_DAY - 1) {
-              counted[j] = held;
+              counted[j] = countAt(j, held);
               held = 0;
             }
           }

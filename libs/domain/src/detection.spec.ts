@@ -3,12 +3,10 @@ import {
   measuredWords,
   cusumStep,
   CUSUM_START,
-  isSilent,
   judgeHouseDay,
   judgeSpot,
   learnNorm,
   robustSd,
-  silentStep,
   type CusumState,
 } from './detection';
 
@@ -113,26 +111,6 @@ describe('judgeSpot', () => {
     const verdict = judgeSpot({ own: 880, yardstick: 1000 }, norm, 0.02, 10, Math.log(0.88));
     expect(verdict.ratio).toBeCloseTo(1, 6);
     expect(verdict.isShort).toBe(false);
-  });
-});
-
-describe('silent counters', () => {
-  it('are silent after 30 minutes in which their peers say ≥ 14 eggs were due, not in the first hours', () => {
-    let run = { zeroSlots: 0, expectedEggs: 0 };
-    // 3 h after lights-on, peers count 10 a slot: two slots of nothing is 20 eggs due.
-    run = silentStep(run, 0, 10, 0, 3);
-    expect(isSilent(run)).toBe(false);
-    run = silentStep(run, 0, 10, 0, 3.25);
-    expect(isSilent(run)).toBe(true);
-    // In the first hours of light a zero adds nothing due.
-    let early = { zeroSlots: 0, expectedEggs: 0 };
-    for (let slot = 0; slot < 6; slot++) early = silentStep(early, 0, 10, 0, slot / 4);
-    expect(isSilent(early)).toBe(false);
-    // Peers that counted nothing (belts not running) make a zero no evidence.
-    let idle = { zeroSlots: 0, expectedEggs: 0 };
-    for (let slot = 0; slot < 8; slot++) idle = silentStep(idle, 0, 0, 0, 4);
-    expect(isSilent(idle)).toBe(false);
-    expect(silentStep(run, 3, 10, 0, 4)).toEqual({ zeroSlots: 0, expectedEggs: 0 });
   });
 });
 

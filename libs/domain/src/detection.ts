@@ -298,41 +298,6 @@ export function cusumStep(
 }
 
 /**
- * A silent belt counter: nothing counted for at least 30 minutes (two 15-minute slots) in which, from what its
- * tier peers counted and its own usual ratio to them, it should have counted at least `expectedEggs` ≥ 14
- * (Poisson P(0 | 14) ≈ 8·10⁻⁷: not chance). Peers that counted nothing (belts not running, lights off, data not
- * in yet) make the expected count small, so a counter is never called silent for that.
- */
-export const SILENT_MIN_SLOTS = 2;
-export const SILENT_MIN_EXPECTED = 14;
-export function isSilent(run: { zeroSlots: number; expectedEggs: number }): boolean {
-  return run.zeroSlots >= SILENT_MIN_SLOTS && run.expectedEggs >= SILENT_MIN_EXPECTED;
-}
-
-/**
- * The first hours of light, when sections start laying up to half an hour apart (each its own lay-time
- * offset): a zero then is weak evidence, so those slots lengthen a silent run but add nothing to what it
- * should have counted.
- */
-export const SILENT_GRACE_HOURS = 2;
-
-/** One 15-minute slot into a section's silent run: eggs reset it; zero adds what it would have counted. */
-export function silentStep(
-  run: { zeroSlots: number; expectedEggs: number },
-  counted: number,
-  peerMedianInSlot: number,
-  baselineLogRatio: number,
-  hoursSinceLightsOn: number,
-): { zeroSlots: number; expectedEggs: number } {
-  if (counted > 0) return { zeroSlots: 0, expectedEggs: 0 };
-  const weight = hoursSinceLightsOn < SILENT_GRACE_HOURS ? 0 : 1;
-  return {
-    zeroSlots: run.zeroSlots + 1,
-    expectedEggs: run.expectedEggs + weight * peerMedianInSlot * Math.exp(baselineLogRatio),
-  };
-}
-
-/**
  * The collector against the sum of the belts over complete days (the last two summed, so eggs still on their
  * way at a day's end do not matter): a gap of more than `pct` % that its usual wobble cannot explain.
  */

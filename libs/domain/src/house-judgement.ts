@@ -10,7 +10,6 @@ import {
   logRatio,
   measureSpots,
   MIN_CLEAN_DAYS,
-  SILENT_MIN_EXPECTED,
   spotKeyOf,
   STAGES,
   judgeSpot,
@@ -20,6 +19,7 @@ import {
   type SpotScope,
   type SpotVerdict,
 } from './detection';
+import { SILENT_MIN_EXPECTED } from './silent-counter';
 
 /** One complete past day of a house, reduced to what judging needs: each spot's log ratio at each stage. */
 export interface PastDay {
@@ -28,6 +28,8 @@ export interface PastDay {
   logRatios: readonly ReadonlyMap<string, number>[];
   /** spot keys that had an exception that day: not learned as normal */
   excluded: ReadonlySet<string>;
+  /** section spot key → its count by each of LAY_GRID_HOURS over its peers' (see dayHourRatios) */
+  hourRatios?: ReadonlyMap<string, readonly (number | null)[]>;
 }
 
 /** A complete day's spot log ratios at every stage, to keep as a PastDay. */
@@ -36,6 +38,7 @@ export function pastDayOf(
   sections: readonly SectionCounts[],
   excluded: ReadonlySet<string>,
   filled: ReadonlyMap<string, number> = new Map(),
+  hourRatios?: ReadonlyMap<string, readonly (number | null)[]>,
 ): PastDay {
   const logRatios: Map<string, number>[] = [];
   for (let stage = 0; stage < STAGES; stage++) {
@@ -46,7 +49,7 @@ export function pastDayOf(
     }
     logRatios.push(map);
   }
-  return { day, logRatios, excluded };
+  return hourRatios ? { day, logRatios, excluded, hourRatios } : { day, logRatios, excluded };
 }
 
 export interface SpotJudgement extends SpotVerdict {

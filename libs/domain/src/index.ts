@@ -15,3 +15,4 @@ export * from './house-judgement';
 export * from './baseline';
 export * from './exception-plan';
 export * from './silence';
+export * from './silent-counter';

@@ -118,6 +118,49 @@ export async function lastCountedAt(
   return last === null ? null : new Date(last);
 }
 
+/**
+ * For the silent-counter check: when each of `counterIds` last counted an egg at or before `until` (looking
+ * back to `since`; null when not since then), and every belt counter's eggs by minute from the earliest of
+ * those (or `alsoFrom`) to `until` (raw readings), so the caller can sum any peer's eggs after any of them.
+ */
+export async function quietCounters(
+  db: Queryable,
+  farmId: number,
+  counterIds: number[],
+  beltIds: number[],
+  since: Date,
+  until: Date,
+  alsoFrom: Date,
+) {
+  const last = new Map<number, Date | null>();
+  if (counterIds.length === 0) return { last, byMinute: [] };
+  // One backward walk down the readings key (farm, counter, ts) per quiet counter.
+  const lasts = await db.execute<{ id: number; last_ts: string | null }>(sql`
+    SELECT c.id, (SELECT max(r.ts) FROM readings r
+                  WHERE r.farm_id = ${farmId} AND r.counter_id = c.id AND r.eggs > 0
+                    AND r.ts > ${since.toISOString()}::timestamptz
+                    AND r.ts <= ${until.toISOString()}::timestamptz) AS last_ts
+    FROM unnest(${sql.param(counterIds)}::int[]) AS c(id)`);
+  for (const row of lasts.rows)
+    last.set(row.id, row.last_ts === null ? null : new Date(row.last_ts));
+  const from = new Date(
+    Math.min(...[...last.values()].map((d) => (d ?? since).getTime()), alsoFrom.getTime()),
+  );
+  const minutes = await db.execute<{ counter_id: number; minute: string; eggs: number }>(sql`
+    SELECT counter_id, date_trunc('minute', ts) AS minute, sum(eggs)::int AS eggs FROM readings
+    WHERE farm_id = ${farmId} AND counter_id = ANY(${sql.param(beltIds)}::int[]) AND eggs > 0
+      AND ts > ${from.toISOString()}::timestamptz AND ts <= ${until.toISOString()}::timestamptz
+    GROUP BY 1, 2`);
+  return {
+    last,
+    byMinute: minutes.rows.map((r) => ({
+      counterId: r.counter_id,
+      minute: new Date(r.minute),
+      eggs: r.eggs,
+    })),
+  };
+}
+
 export async function collectorTotal(
   db: Queryable,
   farmId: number,

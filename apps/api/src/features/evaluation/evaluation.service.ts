@@ -20,9 +20,9 @@ import {
   type StageJudgement,
   daysOf,
   findingKey,
-  isSilent,
-  SILENT_GRACE_HOURS,
-  SILENT_MIN_SLOTS,
+  judgeSilence,
+  usualHourRatios,
+  usualRatioAt,
   spotKeyOf,
   judgeCollectorGap,
   judgeHouseDay,
@@ -42,6 +42,7 @@ import {
   counterEggsInHours,
   sectionStageCounts,
   counterEggsSince,
+  quietCounters,
   hensAlive,
   houseLayout,
   sectionDays,
@@ -364,37 +365,76 @@ export function createEvaluationService(
           );
       const hoursIntoDay = minutesSinceLightsOn(at, house.timezone, house.lightsOn) / 60;
       const isLight = hoursIntoDay <= house.photoperiodHours;
-      // Each section's usual ratio to its tier peers, from its clean complete days.
-      const past = await pastDays(layout, day);
       const sectionOf = new Map(layout.sections.map((sec) => [sec.id, sec]));
+      // Counters that sent zeros for the last 30 minutes in light are looked at closer: since when they are
+      // quiet, and what their peers counted since then. No reading at all in the window is a late gateway
+      // (its data horizon is older), not a silent counter: a dead counter still sends its zeros.
+      const quiet = isLight
+        ? belts.filter((b) => recent.has(b.id) && (recent.get(b.id) ?? 0) === 0)
+        : [];
+      const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
+      const lookBack = productionDayStart(addDays(day, -1), house.timezone, house.lightsOn);
+      const { last, byMinute } = await quietCounters(
+        db,
+        house.farmId,
+        quiet.map((b) => b.id),
+        beltIds,
+        lookBack,
+        at,
+        dayStart,
+      );
+      const eggsAfter = (counterId: number, after: Date) =>
+        byMinute
+          .filter((m) => m.counterId === counterId && m.minute > after)
+          .reduce((sum, m) => sum + m.eggs, 0);
+      const past = quiet.length > 0 ? await pastDays(layout, day) : [];
+      // Each section's last complete day, for when its peers are past their first eggs of today.
+      const lastDay = quiet.length > 0 ? (await baseline.history(layout, day)).at(-1) : undefined;
+      const lastDayEggs = new Map(
+        (lastDay?.sections ?? []).map((sec) => [sectionKey(sec.row, sec.tier), sec.eggs]),
+      );
       for (const belt of belts) {
         const section = sectionOf.get(belt.sectionId ?? -1);
-        if (!section) continue;
-        // No reading at all in the window is a late gateway (its data horizon is older), not a silent
-        // counter: a dead counter still sends its zeros. Neither silent nor recovered until data comes.
-        if (!recent.has(belt.id)) continue;
+        if (!section || !recent.has(belt.id)) continue;
+        const key = spotKeyOf('section', section.row, section.tier);
         const own = recent.get(belt.id) ?? 0;
-        const peers = belts
-          .filter(
+        let due = 0;
+        let isSilentNow = false;
+        if (quiet.includes(belt)) {
+          const peers = belts.filter(
             (b) =>
               b.id !== belt.id &&
               recent.has(b.id) &&
               sectionOf.get(b.sectionId ?? -1)?.tier === section.tier,
-          )
-          .map((b) => recent.get(b.id) ?? 0);
-        const key = spotKeyOf('section', section.row, section.tier);
-        const ratios = past
-          .filter((d) => !d.excluded.has(key))
-          .map((d) => d.logRatios[COMPLETE_DAY]?.get(key))
-          .filter((v): v is number => v !== undefined);
-        // What it should have counted in the window, from what its peers counted: zero is silent only when
-        // that is too many eggs for zero to be chance (and not in the first hours of light, when sections
-        // start laying up to half an hour apart).
-        const due = peers.length ? median(peers) * Math.exp(ratios.length ? median(ratios) : 0) : 0;
-        const isSilentNow =
-          isLight &&
-          hoursIntoDay >= SILENT_GRACE_HOURS &&
-          isSilent({ zeroSlots: own === 0 ? SILENT_MIN_SLOTS : 0, expectedEggs: due });
+          );
+          const quietSince = last.get(belt.id) ?? lookBack;
+          const peersDayOf = (of: typeof peers) => {
+            const eggs = of.flatMap((p) => {
+              const sec = sectionOf.get(p.sectionId ?? -1);
+              const value = sec ? lastDayEggs.get(sectionKey(sec.row, sec.tier)) : undefined;
+              return value === undefined ? [] : [value];
+            });
+            return eggs.length ? median(eggs) : null;
+          };
+          // Each section's usual ratio to its tier peers, from its clean complete days.
+          const ratios = past
+            .filter((d) => !d.excluded.has(key))
+            .map((d) => d.logRatios[COMPLETE_DAY]?.get(key))
+            .filter((v): v is number => v !== undefined);
+          const verdict = judgeSilence({
+            quietMinutes: (at.getTime() - quietSince.getTime()) / 60_000,
+            peersEggs: peers.map((p) => eggsAfter(p.id, quietSince)),
+            baselineLogRatio: ratios.length ? median(ratios) : 0,
+            today: {
+              peers: peers.map((p) => eggsAfter(p.id, dayStart)),
+              own: eggsAfter(belt.id, dayStart),
+              usualRatio: usualRatioAt(usualHourRatios(past, key), hoursIntoDay),
+              peersDay: peersDayOf(peers),
+            },
+          });
+          due = verdict.due;
+          isSilentNow = verdict.isSilent;
+        }
         if (isSilentNow) silent.add(sectionKey(section.row, section.tier));
         candidates.push({
           kind: 'silent_counter',

@@ -2,7 +2,9 @@ import type { Database } from '@tierscope/db';
 import {
   addDays,
   CHECKPOINT_HOURS,
+  dayHourRatios,
   daysOf,
+  LAY_GRID_HOURS,
   findingKey,
   keepsDayOutOfBaseline,
   NORM_DAYS,
@@ -160,7 +162,9 @@ export function createHouseBaseline(db: Database, events: EventBus): HouseBaseli
     const { house } = layout;
     const firstDay = addDays(beforeDay, -NORM_DAYS);
     const lastDay = addDays(beforeDay, -1);
-    const rows = await sectionStageCounts(db, house, CHECKPOINT_HOURS, firstDay, lastDay);
+    // The checkpoints and, for the silent-counter check, each grid hour of the first hours of light.
+    const hours = [...CHECKPOINT_HOURS, ...LAY_GRID_HOURS];
+    const rows = await sectionStageCounts(db, house, hours, firstDay, lastDay);
     const overlapping = await exceptionsOverlapping(
       db,
       house.id,
@@ -176,13 +180,25 @@ export function createHouseBaseline(db: Database, events: EventBus): HouseBaseli
       for (const e of overlapping) {
         if (keepsDayOutOfBaseline(e, dayStart, dayEnd)) excluded.add(findingKey(e));
       }
-      const sections: SectionCounts[] = rows
+      const sections = rows
         .filter((r) => r.day === day)
         .flatMap((r) => {
           const sec = byId.get(r.sectionId);
-          return sec ? [{ row: sec.row, tier: sec.tier, byStage: r.byStage }] : [];
+          return sec ? [{ sec, byStage: r.byStage }] : [];
         });
-      if (sections.length > 0) days.push(pastDayOf(day, sections, excluded));
+      const counts: SectionCounts[] = sections.map(({ sec, byStage }) => ({
+        row: sec.row,
+        tier: sec.tier,
+        byStage: [...byStage.slice(0, CHECKPOINT_HOURS.length), byStage[hours.length] ?? 0],
+      }));
+      const hourRatios = dayHourRatios(
+        sections.map(({ sec, byStage }) => ({
+          row: sec.row,
+          tier: sec.tier,
+          byHour: byStage.slice(CHECKPOINT_HOURS.length, hours.length),
+        })),
+      );
+      if (counts.length > 0) days.push(pastDayOf(day, counts, excluded, new Map(), hourRatios));
     }
     return days;
   }
