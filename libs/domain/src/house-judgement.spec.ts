@@ -30,13 +30,15 @@ const SHARES = [...CHECKPOINT_HOURS.map((h) => 1 - Math.exp(-h / 4)), 1];
 function makeDay(
   random: () => number,
   factorOf: (row: number, tier: number) => number,
+  /** each section's day-to-day wobble (lognormal σ) */
+  noise = 0.025,
 ): SectionCounts[] {
   const sections: SectionCounts[] = [];
   const house = Math.exp(0.01 * normal(random));
   for (let row = 1; row <= ROWS; row++) {
     for (let tier = 1; tier <= TIERS; tier++) {
       const level = (row === 1 || row === ROWS ? 0.95 : 1) * (tier === 1 ? 0.94 : 1);
-      const mean = 775 * level * house * Math.exp(0.025 * normal(random)) * factorOf(row, tier);
+      const mean = 775 * level * house * Math.exp(noise * normal(random)) * factorOf(row, tier);
       const total = Math.max(0, Math.round(mean + Math.sqrt(mean * 0.1) * normal(random)));
       sections.push({ row, tier, byStage: SHARES.map((share) => Math.round(total * share)) });
     }
@@ -44,13 +46,13 @@ function makeDay(
   return sections;
 }
 
-function history(random: () => number, days: number): PastDay[] {
+function history(random: () => number, days: number, noise = 0.025): PastDay[] {
   const past: PastDay[] = [];
   for (let d = 0; d < days; d++)
     past.unshift(
       pastDayOf(
         `d${d}`,
-        makeDay(random, () => 1),
+        makeDay(random, () => 1, noise),
         new Set(),
       ),
     );
@@ -156,6 +158,36 @@ describe('judgeStage on noisy days', () => {
     expect(far.short.map((s) => s.key)).toEqual(
       expect.arrayContaining([expect.stringMatching(/^(section:3:2|row:3:-)$/)]),
     );
+  });
+
+  // Regression (issue 11): the confirming judgement needed 3 wobbles, so a section 15 % down seen first on a
+  // complete day waited past the next morning's checkpoint (z −2.3 there) and was found after two days.
+  it('confirms a first sighting by a next one past the threshold and 2 wobbles, not by less', () => {
+    const random = seeded(29);
+    const noise = 0.045;
+    const past = history(random, 28, noise);
+    const key = spotKeyOf('section', 4, 3);
+    const judge = (stage: number, drop: number, pending?: Map<string, number>) =>
+      judgeStage({
+        thresholdPct: 10,
+        stage,
+        sections: makeDay(random, (row, tier) => (row === 4 && tier === 3 ? 1 - drop : 1), noise),
+        past,
+        ...(pending ? { pending } : {}),
+      });
+    const first = judge(COMPLETE_DAY, 0.2);
+    expect(first.short).toEqual([]);
+    expect([...first.pending.keys()]).toEqual([key]);
+    const next = judge(0, 0.13, first.pending);
+    const seen = next.spots.get(key);
+    expect(seen?.ratio).toBeLessThan(0.925);
+    expect(seen?.z).toBeLessThanOrEqual(-2);
+    expect(seen?.z).toBeGreaterThan(-3);
+    expect(next.short.map((s) => s.key)).toEqual([key]);
+    // A next judgement less than 2 wobbles down does not confirm it.
+    const weak = judge(0, 0.03, first.pending);
+    expect(weak.spots.get(key)?.z).toBeGreaterThan(-2);
+    expect(weak.short).toEqual([]);
   });
 
   it('confirms a near sighting followed by a full one, but never two near sightings', () => {

@@ -2,6 +2,7 @@ import {
   ALARM_Z,
   COMPLETE_DAY,
   CONFIRM_AT_ONCE_Z,
+  CONFIRM_Z,
   CONFIRM_WITHIN_STAGES,
   cusumStep,
   CUSUM_START,
@@ -219,18 +220,21 @@ export function judgeStage(input: StageInput): StageJudgement {
   // One unusual judgement is not yet an alarm: a spot seen short for the first time is held until one of
   // the next CONFIRM_WITHIN_STAGES judged stages (checkpoints and complete days) says so too — unless it is
   // far outside its wobble (CONFIRM_AT_ONCE_Z), a slow slide (the CUSUM has seen days of it), or already
-  // open. The confirming judgement may be a little less far down (three quarters of the threshold and of
-  // the unusualness): a fault sitting right at the threshold still confirms, while two unusual judgements
-  // by chance stay rare. A spot back within half the threshold is no longer held.
+  // open. The confirming judgement may be less far down (three quarters of the threshold, CONFIRM_Z
+  // wobbles): a fault sitting right at the threshold, or seen first on a complete day and then at the next
+  // morning's noisier checkpoint, still confirms, while two unusual judgements by chance stay rare. A spot
+  // back within half the threshold is no longer held.
   const pendingBefore = input.pending ?? new Map<string, number>();
   const pending = new Map<string, number>();
   const confirmedNow: SpotJudgement[] = [];
   const isNear = (s: SpotJudgement) =>
     s.ratio < 1 - (0.75 * input.thresholdPct) / 100 && s.z <= -0.75 * ALARM_Z;
+  const isConfirming = (s: SpotJudgement) =>
+    s.ratio < 1 - (0.75 * input.thresholdPct) / 100 && s.z <= -CONFIRM_Z;
   for (const [key, left] of pendingBefore) {
     const s = spots.get(key);
     if (!s || s.isShort || isAbsorbed(s)) continue;
-    if (left > 0 && isNear(s)) {
+    if (left > 0 && isConfirming(s)) {
       s.isShort = true;
       confirmedNow.push(s);
     } else if (!s.isRecovered && Math.abs(left) > 1) pending.set(key, left - Math.sign(left));
