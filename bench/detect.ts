@@ -19,8 +19,7 @@ import {
   CHECKPOINT_HOURS,
   COMPLETE_DAY,
   dayHourRatios,
-  judgeSilence,
-  LAY_GRID_HOURS,
+  byGridHour,
   judgeCollector,
   judgeHouseDay,
   judgeStage,
@@ -32,7 +31,7 @@ import {
   type SectionCounts,
   type StageJudgement,
   usualHourRatios,
-  usualRatioAt,
+  SlotSilenceWatch,
 } from '@tierscope/domain';
 import {
   RealisticHouse,
@@ -376,13 +375,11 @@ function runEngine(house: RealisticHouse, planted: Planted, totalDays: number): 
   const open = new Map<string, { kind: EventKind; recovered: number }>();
   let cusum = new Map<string, CusumState>();
   let pending = new Map<string, number>();
-  // Each section's eggs counted before each absolute slot, and the slot of its last egg (-1: none yet).
-  const sectionCount = house.rows * house.tiers;
-  const prefixes = Array.from(
-    { length: sectionCount },
-    () => new Float64Array(totalDays * SLOTS_PER_DAY + 1),
-  );
-  const lastCount = new Array<number>(sectionCount).fill(-1);
+  const silence = new SlotSilenceWatch(house.dayData(0).sections, totalDays * SLOTS_PER_DAY, {
+    minutes: SLOT_MINUTES,
+    perDay: SLOTS_PER_DAY,
+    light: LIGHT_SLOTS,
+  });
   const collectorPast: number[] = [];
   const henDayPast: number[] = [];
   const naiveState = new Map<string, { shortRuns: number; isAlerting: boolean }>();
@@ -469,55 +466,23 @@ function runEngine(house: RealisticHouse, planted: Planted, totalDays: number): 
       // eggs since then say many were due (and, in the first hours, its usual count by this hour).
       for (; processed < known; processed++) {
         const k = processed;
-        const at = dayStart + k;
-        day.sections.forEach((s, i) => {
-          const sum = prefixes[i] as Float64Array;
-          sum[at + 1] = (sum[at] ?? 0) + (s.counted[k] ?? 0);
-        });
-        const eggsOf = (i: number, from: number) =>
-          (prefixes[i]?.[at + 1] ?? 0) - (prefixes[i]?.[from] ?? 0);
-        day.sections.forEach((s, i) => {
-          const key = spotKeyOf('section', s.row, s.tier);
-          if ((s.counted[k] ?? 0) > 0) {
-            lastCount[i] = at;
-            settle('silent_counter', key, true, 1);
-            return;
-          }
-          if (k >= LIGHT_SLOTS) return;
-          const since = (lastCount[i] ?? -1) + 1;
-          const peers = day.sections.flatMap((p, other) =>
-            p.tier === s.tier && other !== i ? [other] : [],
-          );
-          const verdict = judgeSilence({
-            quietMinutes: (at + 1 - since) * SLOT_MINUTES,
-            peersEggs: peers.map((p) => eggsOf(p, since)),
-            baselineLogRatio: baselines.get(key) ?? 0,
-            today: {
-              peers: peers.map((p) => eggsOf(p, dayStart)),
-              own: eggsOf(i, dayStart),
-              usualRatio: usualRatioAt(hourRatios.get(key) ?? [], ((k + 1) * SLOT_MINUTES) / 60),
-              peersDay:
-                d > 0
-                  ? median(
-                      peers.map(
-                        (p) =>
-                          (prefixes[p]?.[dayStart] ?? 0) -
-                          (prefixes[p]?.[dayStart - SLOTS_PER_DAY] ?? 0),
-                      ),
-                    )
-                  : null,
-            },
-          });
-          if (
-            verdict.isSilent &&
-            process.env['DETECT_SILENT'] &&
-            !open.has(`silent_counter|${key}`)
-          )
+        const results = silence.step(
+          dayStart + k,
+          day.sections.map((s) => s.counted[k] ?? 0),
+          {
+            baselineLogRatio: (key) => baselines.get(key) ?? 0,
+            usualRatios: (key) => hourRatios.get(key) ?? [],
+          },
+        );
+        for (const { key, counted, verdict } of results) {
+          if (counted) settle('silent_counter', key, true, 1);
+          if (!verdict?.isSilent) continue;
+          if (process.env['DETECT_SILENT'] && !open.has(`silent_counter|${key}`))
             console.log(
-              `silent ${house.rows}x${house.tiers} ${planted.kind} ${key} day ${d} slot ${k} quiet since ${since - at} due ${verdict.due.toFixed(1)}`,
+              `silent ${house.rows}x${house.tiers} ${planted.kind} ${key} day ${d} slot ${k} due ${verdict.due.toFixed(1)}`,
             );
-          if (verdict.isSilent) raise('silent_counter', key, at + 1);
-        });
+          raise('silent_counter', key, dayStart + k + 1);
+        }
       }
 
       // The yardstick rule, every 15 minutes of light after the first hour.
@@ -574,12 +539,11 @@ function runEngine(house: RealisticHouse, planted: Planted, totalDays: number): 
 
     // Slots still held back at the day's end arrive with the next day's data: counted, not judged.
     for (; processed < SLOTS_PER_DAY; processed++) {
-      const at = dayStart + processed;
-      day.sections.forEach((s, i) => {
-        const sum = prefixes[i] as Float64Array;
-        sum[at + 1] = (sum[at] ?? 0) + (s.counted[processed] ?? 0);
-        if ((s.counted[processed] ?? 0) > 0) lastCount[i] = at;
-      });
+      const k = processed;
+      silence.step(
+        dayStart + k,
+        day.sections.map((s) => s.counted[k] ?? 0),
+      );
     }
 
     // The complete day (its data is in by the day's end in every planted case).
@@ -653,9 +617,7 @@ function runEngine(house: RealisticHouse, planted: Planted, totalDays: number): 
       day.sections.map((s) => ({
         row: s.row,
         tier: s.tier,
-        byHour: LAY_GRID_HOURS.map((h) =>
-          s.counted.slice(0, (h * 60) / SLOT_MINUTES).reduce((a, b) => a + b, 0),
-        ),
+        byHour: byGridHour(s.counted, SLOT_MINUTES),
       })),
     );
     past.unshift(pastDayOf(`d${d}`, sections, excluded, new Map(), ratiosToday));

@@ -6,14 +6,14 @@ import {
   SLOTS_PER_DAY,
   type PlantedFault,
 } from '../../../simulator/src/realistic';
-import { spotKeyOf } from './detection';
-import { median } from './statistics';
 import type { PastDay } from './house-judgement';
 import {
   dayHourRatios,
   judgeSilence,
+  byGridHour,
   LAY_GRID_HOURS,
   SILENT_MIN_EXPECTED,
+  SlotSilenceWatch,
   usualHourRatios,
   usualRatioAt,
 } from './silent-counter';
@@ -106,6 +106,15 @@ describe('judgeSilence', () => {
   });
 });
 
+describe('byGridHour', () => {
+  it('sums 15-minute slots from lights-on into eggs by each grid hour, as hourly rollups hold them', () => {
+    const slots = Array.from({ length: 32 }, (_, k) => (k < 4 ? 1 : 2));
+    expect(byGridHour(slots, 15)).toEqual([4, 12, 20, 28, 36, 44]);
+    // A day cut short counts what there is.
+    expect(byGridHour([5, 5], 15)).toEqual([10, 10, 10, 10, 10, 10]);
+  });
+});
+
 describe('usualHourRatios', () => {
   const day = (ratio: number | null, excluded: string[] = []): PastDay => ({
     day: 'd',
@@ -125,76 +134,46 @@ describe('usualHourRatios', () => {
 });
 
 /**
- * The silent check run as the server runs it, slot by slot, over realistic simulated houses (binomial counts,
- * day-to-day noise, each section's own laying-time offset): the per-minute sums the server reads are the
- * simulator's 15-minute slots here. Returns the slots at which each section was first called silent.
+ * The silent check slot by slot (SlotSilenceWatch, as bench:detect runs it) over realistic simulated houses
+ * (binomial counts, day-to-day noise, each section's own laying-time offset). Returns the slots at which each
+ * section was first called silent.
  */
 function silentAlarms(
   house: RealisticHouse,
   days: number,
   from: number,
 ): { key: string; slot: number }[] {
-  const sections = house.dayData(0).sections.map((s) => spotKeyOf('section', s.row, s.tier));
-  const prefix = sections.map(() => new Float64Array(days * SLOTS_PER_DAY + 1));
-  const last = sections.map(() => -1);
+  const watch = new SlotSilenceWatch(house.dayData(0).sections, days * SLOTS_PER_DAY, {
+    minutes: SLOT_MINUTES,
+    perDay: SLOTS_PER_DAY,
+    light: (house.photoperiodHours * 60) / SLOT_MINUTES,
+  });
   const past: PastDay[] = [];
   const alarms: { key: string; slot: number }[] = [];
   const open = new Set<string>();
   for (let d = 0; d < days; d++) {
     const day = house.dayData(d);
-    const dayStart = d * SLOTS_PER_DAY;
-    const usual = sections.map((key) => usualHourRatios(past, key));
+    const usual = new Map(watch.keys.map((key) => [key, usualHourRatios(past, key)]));
     for (let k = 0; k < SLOTS_PER_DAY; k++) {
-      const at = dayStart + k;
-      day.sections.forEach((s, i) => {
-        const sum = prefix[i] as Float64Array;
-        sum[at + 1] = (sum[at] ?? 0) + (s.counted[k] ?? 0);
-      });
-      const eggs = (i: number, since: number) =>
-        (prefix[i]?.[at + 1] ?? 0) - (prefix[i]?.[since] ?? 0);
-      day.sections.forEach((s, i) => {
-        const key = sections[i] ?? '';
-        if ((s.counted[k] ?? 0) > 0) {
-          last[i] = at;
-          open.delete(key);
-          return;
-        }
-        if (k >= (house.photoperiodHours * 60) / SLOT_MINUTES) return;
-        const since = (last[i] ?? -1) + 1;
-        const peers = day.sections.flatMap((p, j) => (p.tier === s.tier && j !== i ? [j] : []));
-        const usualRatio = usualRatioAt(usual[i] ?? [], ((k + 1) * SLOT_MINUTES) / 60);
-        const verdict = judgeSilence({
-          quietMinutes: (at + 1 - since) * SLOT_MINUTES,
-          peersEggs: peers.map((j) => eggs(j, since)),
-          baselineLogRatio: 0,
-          today: {
-            peers: peers.map((j) => eggs(j, dayStart)),
-            own: eggs(i, dayStart),
-            usualRatio,
-            peersDay:
-              d > 0
-                ? median(
-                    peers.map(
-                      (j) =>
-                        (prefix[j]?.[dayStart] ?? 0) - (prefix[j]?.[dayStart - SLOTS_PER_DAY] ?? 0),
-                    ),
-                  )
-                : null,
-          },
-        });
-        if (verdict.isSilent && !open.has(key)) {
+      const at = d * SLOTS_PER_DAY + k;
+      const results = watch.step(
+        at,
+        day.sections.map((s) => s.counted[k] ?? 0),
+        { baselineLogRatio: () => 0, usualRatios: (key) => usual.get(key) ?? [] },
+      );
+      for (const { key, counted, verdict } of results) {
+        if (counted) open.delete(key);
+        if (verdict?.isSilent && !open.has(key)) {
           open.add(key);
           if (at >= from) alarms.push({ key, slot: at + 1 });
         }
-      });
+      }
     }
     const ratios = dayHourRatios(
       day.sections.map((s) => ({
         row: s.row,
         tier: s.tier,
-        byHour: LAY_GRID_HOURS.map((h) =>
-          s.counted.slice(0, (h * 60) / SLOT_MINUTES).reduce((a, b) => a + b, 0),
-        ),
+        byHour: byGridHour(s.counted, SLOT_MINUTES),
       })),
     );
     past.unshift({ day: `d${d}`, logRatios: [], excluded: new Set(), hourRatios: ratios });

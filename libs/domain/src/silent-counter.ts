@@ -51,6 +51,15 @@ export function dayHourRatios(
   return ratios;
 }
 
+/** Eggs by each of LAY_GRID_HOURS from a day's counts in fixed slots from lights-on (what hourly rollups hold). */
+export function byGridHour(counted: ArrayLike<number>, slotMinutes: number): number[] {
+  return LAY_GRID_HOURS.map((h) => {
+    let sum = 0;
+    for (let k = 0; k < (h * 60) / slotMinutes && k < counted.length; k++) sum += counted[k] ?? 0;
+    return sum;
+  });
+}
+
 /** A section's usual ratio by each grid hour: the median over its clean past days, null while learning. */
 export function usualHourRatios(past: readonly PastDay[], key: string): (number | null)[] {
   const byHour: number[][] = LAY_GRID_HOURS.map(() => []);
@@ -131,4 +140,79 @@ export function judgeSilence(input: SilenceInput): { due: number; isSilent: bool
     due,
     isSilent: input.quietMinutes >= SILENT_MIN_MINUTES && due >= SILENT_MIN_EXPECTED,
   };
+}
+
+/**
+ * The silent check over counts that arrive in fixed slots (15 minutes in bench:detect and its tests), the way
+ * the server runs it on raw readings: each slot's counts are added, and every section that counted nothing
+ * is judged against what its tier peers counted since its last egg. Slots are absolute (day × slotsPerDay +
+ * slot of the day) and fed in order; `dayOf` is a production day's first slot.
+ */
+export class SlotSilenceWatch {
+  private readonly prefixes: Float64Array[];
+  private readonly lastCount: number[];
+  private readonly peersOf: number[][];
+  readonly keys: string[];
+
+  constructor(
+    sections: readonly { row: number; tier: number }[],
+    totalSlots: number,
+    private readonly slot: { minutes: number; perDay: number; light: number },
+  ) {
+    this.keys = sections.map((s) => spotKeyOf('section', s.row, s.tier));
+    this.prefixes = sections.map(() => new Float64Array(totalSlots + 1));
+    this.lastCount = sections.map(() => -1);
+    this.peersOf = sections.map((s, i) =>
+      sections.flatMap((p, j) => (p.tier === s.tier && j !== i ? [j] : [])),
+    );
+  }
+
+  /**
+   * Adds one slot's counts (in the sections' order) and judges it when `judge` is given (within the hours
+   * of light): returns each section with its verdict (null when it counted) — or adds it only, for data
+   * that arrives after its day.
+   */
+  step(
+    at: number,
+    counted: readonly number[],
+    judge?: {
+      baselineLogRatio(key: string): number;
+      usualRatios(key: string): readonly (number | null)[];
+    },
+  ): { key: string; counted: boolean; verdict: { due: number; isSilent: boolean } | null }[] {
+    const dayStart = at - (at % this.slot.perDay);
+    counted.forEach((eggs, i) => {
+      const sum = this.prefixes[i];
+      if (sum) sum[at + 1] = (sum[at] ?? 0) + eggs;
+      if (eggs > 0) this.lastCount[i] = at;
+    });
+    const eggsOf = (i: number, from: number, to = at + 1) =>
+      from < 0 || to <= from ? 0 : (this.prefixes[i]?.[to] ?? 0) - (this.prefixes[i]?.[from] ?? 0);
+    const isLight = at - dayStart < this.slot.light;
+    return this.keys.map((key, i) => {
+      if ((counted[i] ?? 0) > 0 || !judge || !isLight)
+        return { key, counted: (counted[i] ?? 0) > 0, verdict: null };
+      const since = (this.lastCount[i] ?? -1) + 1;
+      const peers = this.peersOf[i] ?? [];
+      const yesterday = dayStart - this.slot.perDay;
+      const verdict = judgeSilence({
+        quietMinutes: (at + 1 - since) * this.slot.minutes,
+        peersEggs: peers.map((p) => eggsOf(p, since)),
+        baselineLogRatio: judge.baselineLogRatio(key),
+        today: {
+          peers: peers.map((p) => eggsOf(p, dayStart)),
+          own: eggsOf(i, dayStart),
+          usualRatio: usualRatioAt(
+            judge.usualRatios(key),
+            ((at - dayStart + 1) * this.slot.minutes) / 60,
+          ),
+          peersDay:
+            yesterday >= 0 && peers.length
+              ? median(peers.map((p) => eggsOf(p, yesterday, dayStart)))
+              : null,
+        },
+      });
+      return { key, counted: false, verdict };
+    });
+  }
 }
