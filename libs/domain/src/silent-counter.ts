@@ -16,8 +16,17 @@ import { median } from './statistics';
 export const SILENT_MIN_MINUTES = 30;
 export const SILENT_MIN_EXPECTED = 14;
 
+/**
+ * What is due is counted over at most the last 3 hours of a quiet spell: plenty to tell a dead counter (its
+ * peers lay hundreds in that time, and belts run at set times run more often), and it keeps the raw readings
+ * read for a counter dead for days small.
+ */
+export const SILENT_LOOK_BACK_HOURS = 3;
+
 /** Hours after lights-on at which a section's count is compared with its peers' for its usual laying time. */
 export const LAY_GRID_HOURS = [1, 2, 3, 4, 5, 6] as const;
+/** The first hours of light, in which a section's usual laying time caps what is due from it. */
+export const LAST_GRID_HOUR = LAY_GRID_HOURS[5];
 /** Peers with fewer eggs than this by a grid hour say nothing about a section's count by then. */
 const MIN_PEER_EGGS = 5;
 
@@ -103,13 +112,14 @@ export const FIRST_EGGS_SHARE = 0.05;
 export interface SilenceInput {
   /** minutes since the section's belt last counted an egg */
   quietMinutes: number;
-  /** eggs each tier peer counted after that last egg, up to now */
+  /** eggs each tier peer counted after that last egg (at most SILENT_LOOK_BACK_HOURS back), up to now */
   peersEggs: readonly number[];
   /** the section's usual log ratio to its peers (complete days) */
   baselineLogRatio: number;
   /**
-   * In the first hours of light: what each tier peer and the section itself have counted since lights-on,
-   * and the section's usual ratio to its peers by now (usualRatioAt; null while not learned).
+   * In the first hours of light (up to the last of LAY_GRID_HOURS): what each tier peer and the section itself
+   * have counted since lights-on, and the section's usual ratio to its peers by now (usualRatioAt; null while
+   * not learned).
    */
   today?: {
     peers: readonly number[];
@@ -193,24 +203,26 @@ export class SlotSilenceWatch {
       if ((counted[i] ?? 0) > 0 || !judge || !isLight)
         return { key, counted: (counted[i] ?? 0) > 0, verdict: null };
       const since = (this.lastCount[i] ?? -1) + 1;
+      const window = Math.max(since, at + 1 - (SILENT_LOOK_BACK_HOURS * 60) / this.slot.minutes);
       const peers = this.peersOf[i] ?? [];
       const yesterday = dayStart - this.slot.perDay;
+      const hours = ((at - dayStart + 1) * this.slot.minutes) / 60;
       const verdict = judgeSilence({
         quietMinutes: (at + 1 - since) * this.slot.minutes,
-        peersEggs: peers.map((p) => eggsOf(p, since)),
+        peersEggs: peers.map((p) => eggsOf(p, window)),
         baselineLogRatio: judge.baselineLogRatio(key),
-        today: {
-          peers: peers.map((p) => eggsOf(p, dayStart)),
-          own: eggsOf(i, dayStart),
-          usualRatio: usualRatioAt(
-            judge.usualRatios(key),
-            ((at - dayStart + 1) * this.slot.minutes) / 60,
-          ),
-          peersDay:
-            yesterday >= 0 && peers.length
-              ? median(peers.map((p) => eggsOf(p, yesterday, dayStart)))
-              : null,
-        },
+        today:
+          hours > LAST_GRID_HOUR
+            ? undefined
+            : {
+                peers: peers.map((p) => eggsOf(p, dayStart)),
+                own: eggsOf(i, dayStart),
+                usualRatio: usualRatioAt(judge.usualRatios(key), hours),
+                peersDay:
+                  yesterday >= 0 && peers.length
+                    ? median(peers.map((p) => eggsOf(p, yesterday, dayStart)))
+                    : null,
+              },
       });
       return { key, counted: false, verdict };
     });

@@ -121,7 +121,8 @@ export async function lastCountedAt(
 /**
  * For the silent-counter check: when each of `counterIds` last counted an egg at or before `until` (looking
  * back to `since`; null when not since then), and every belt counter's eggs by minute from the earliest of
- * those (or `alsoFrom`) to `until` (raw readings), so the caller can sum any peer's eggs after any of them.
+ * those — but not before `notBefore` — or `alsoFrom`, to `until` (raw readings), so the caller can sum any
+ * peer's eggs after any of them.
  */
 export async function quietCounters(
   db: Queryable,
@@ -131,6 +132,7 @@ export async function quietCounters(
   since: Date,
   until: Date,
   alsoFrom: Date,
+  notBefore: Date,
 ) {
   const last = new Map<number, Date | null>();
   if (counterIds.length === 0) return { last, byMinute: [] };
@@ -144,7 +146,10 @@ export async function quietCounters(
   for (const row of lasts.rows)
     last.set(row.id, row.last_ts === null ? null : new Date(row.last_ts));
   const from = new Date(
-    Math.min(...[...last.values()].map((d) => (d ?? since).getTime()), alsoFrom.getTime()),
+    Math.min(
+      ...[...last.values()].map((d) => Math.max((d ?? since).getTime(), notBefore.getTime())),
+      alsoFrom.getTime(),
+    ),
   );
   const minutes = await db.execute<{ counter_id: number; minute: string; eggs: number }>(sql`
     SELECT counter_id, date_trunc('minute', ts) AS minute, sum(eggs)::int AS eggs FROM readings

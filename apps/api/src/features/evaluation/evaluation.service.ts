@@ -23,6 +23,8 @@ import {
   judgeSilence,
   usualHourRatios,
   usualRatioAt,
+  LAST_GRID_HOUR,
+  SILENT_LOOK_BACK_HOURS,
   spotKeyOf,
   judgeCollectorGap,
   judgeHouseDay,
@@ -367,13 +369,15 @@ export function createEvaluationService(
       const isLight = hoursIntoDay <= house.photoperiodHours;
       const sectionOf = new Map(layout.sections.map((sec) => [sec.id, sec]));
       // Counters that sent zeros for the last 30 minutes in light are looked at closer: since when they are
-      // quiet, and what their peers counted since then. No reading at all in the window is a late gateway
+      // quiet, and what their peers counted since then (at most SILENT_LOOK_BACK_HOURS back). No reading at all in the window is a late gateway
       // (its data horizon is older), not a silent counter: a dead counter still sends its zeros.
       const quiet = isLight
         ? belts.filter((b) => recent.has(b.id) && (recent.get(b.id) ?? 0) === 0)
         : [];
       const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
       const lookBack = productionDayStart(addDays(day, -1), house.timezone, house.lightsOn);
+      const windowStart = new Date(at.getTime() - SILENT_LOOK_BACK_HOURS * 3_600_000);
+      const isMorning = hoursIntoDay <= LAST_GRID_HOUR;
       const { last, byMinute } = await quietCounters(
         db,
         house.farmId,
@@ -381,7 +385,8 @@ export function createEvaluationService(
         beltIds,
         lookBack,
         at,
-        dayStart,
+        isMorning ? dayStart : at,
+        windowStart,
       );
       const eggsAfter = (counterId: number, after: Date) =>
         byMinute
@@ -408,14 +413,12 @@ export function createEvaluationService(
               sectionOf.get(b.sectionId ?? -1)?.tier === section.tier,
           );
           const quietSince = last.get(belt.id) ?? lookBack;
-          const peersDayOf = (of: typeof peers) => {
-            const eggs = of.flatMap((p) => {
-              const sec = sectionOf.get(p.sectionId ?? -1);
-              const value = sec ? lastDayEggs.get(sectionKey(sec.row, sec.tier)) : undefined;
-              return value === undefined ? [] : [value];
-            });
-            return eggs.length ? median(eggs) : null;
-          };
+          const from = quietSince > windowStart ? quietSince : windowStart;
+          const peersLastDay = peers.flatMap((p) => {
+            const sec = sectionOf.get(p.sectionId ?? -1);
+            const value = sec ? lastDayEggs.get(sectionKey(sec.row, sec.tier)) : undefined;
+            return value === undefined ? [] : [value];
+          });
           // Each section's usual ratio to its tier peers, from its clean complete days.
           const ratios = past
             .filter((d) => !d.excluded.has(key))
@@ -423,14 +426,16 @@ export function createEvaluationService(
             .filter((v): v is number => v !== undefined);
           const verdict = judgeSilence({
             quietMinutes: (at.getTime() - quietSince.getTime()) / 60_000,
-            peersEggs: peers.map((p) => eggsAfter(p.id, quietSince)),
+            peersEggs: peers.map((p) => eggsAfter(p.id, from)),
             baselineLogRatio: ratios.length ? median(ratios) : 0,
-            today: {
-              peers: peers.map((p) => eggsAfter(p.id, dayStart)),
-              own: eggsAfter(belt.id, dayStart),
-              usualRatio: usualRatioAt(usualHourRatios(past, key), hoursIntoDay),
-              peersDay: peersDayOf(peers),
-            },
+            today: isMorning
+              ? {
+                  peers: peers.map((p) => eggsAfter(p.id, dayStart)),
+                  own: eggsAfter(belt.id, dayStart),
+                  usualRatio: usualRatioAt(usualHourRatios(past, key), hoursIntoDay),
+                  peersDay: peersLastDay.length ? median(peersLastDay) : null,
+                }
+              : undefined,
           });
           due = verdict.due;
           isSilentNow = verdict.isSilent;
