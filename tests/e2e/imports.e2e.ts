@@ -48,6 +48,11 @@ describe('an integrator imports a counter export', () => {
     await signIn(page, harness.baseUrl, 'integrator@bramblewood.test');
     await page.waitForURL('**/farms');
     await page.getByRole('link', { name: 'Imports' }).click();
+    // A select opens only once it has options: wait for the farm's houses (the first is chosen by itself).
+    await page
+      .getByRole('combobox', { name: 'House' })
+      .getByText(/House 1/)
+      .waitFor();
     await page.getByRole('combobox', { name: 'House' }).click();
     await page.getByRole('option', { name: /House 1/ }).click();
     await page.getByTestId('import-file').setInputFiles(file);

@@ -122,7 +122,8 @@ describe('unknown counters', () => {
     await spare.getByRole('button', { name: 'Place NR-SPARE-07' }).click();
     const dialog = await openedDialog(page);
     await dialog.getByText('12 held readings (480 eggs)').waitFor();
-    // House 1 is the first house; choose row 2, tier 3.
+    // House 1 is the first house; choose row 2, tier 3 (a select opens only once its options are loaded).
+    await dialog.getByRole('combobox', { name: 'House' }).getByText('House 1').waitFor();
     await dialog.getByRole('combobox', { name: 'Row' }).click();
     await page.getByRole('option', { name: 'Row 2', exact: true }).click();
     await dialog.getByRole('combobox', { name: 'Tier' }).click();
