@@ -8,10 +8,11 @@ import { median } from './statistics';
  * (belts not running, dark, data not in) make nothing due.
  *
  * Sections do not start laying at one moment: some lay a quarter or half an hour behind their peers every
- * day, and on belts that run at set times their first eggs come a run later. So in the first hours of light
- * what is due is also capped by the section's own usual count by that hour against its peers', learned from
- * its past days' hourly counts: a section that always starts late is never called silent for it, and a dead
- * counter is found as soon as its peers' eggs say so — no blanket grace after lights-on.
+ * day, and on belts that run at set times their first eggs come a run later. So nothing is due while the
+ * peers are still on their first 5 % of a day (FIRST_EGGS_SHARE), and in the first hours of light what is due
+ * is also capped by the section's own usual count by that hour against its peers', learned from its past
+ * days' hourly counts: a section that always starts late is never called silent for it, and a dead counter
+ * is found as soon as its peers' eggs say so — no blanket grace after lights-on.
  */
 export const SILENT_MIN_MINUTES = 30;
 export const SILENT_MIN_EXPECTED = 14;
