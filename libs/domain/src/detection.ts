@@ -34,14 +34,13 @@ export const ALARM_Z = 4;
  */
 export const CONFIRM_AT_ONCE_Z = 6;
 /**
- * How unusual a judgement after a first sighting must be to confirm it: 3 wobbles (three quarters of
- * ALARM_Z). Tried at 2 (the run rule "two of three points beyond 2σ", NIST/SEMATECH e-Handbook §6.3.2): in
- * bench:detect section −15 % within 2 days went 93.3 % → 100 % (false exceptions 0.020 → 0.035 per
- * house-week), but on the demo a row fault coming on then confirmed first as one of its sections, and the row
- * opened beside it: two alarms for one cause. Kept at 3 until an open row or tier closes the section
- * exceptions it absorbs.
+ * How unusual a judgement after a first sighting must be to confirm it: 2 wobbles, after one of 4 (the run
+ * rule "two of three points beyond 2σ" — NIST/SEMATECH e-Handbook §6.3.2). Measured in bench:detect (5 seeds
+ * a kind): 3 wobbles left a section 15 % down that was seen first on a complete day and then at the next
+ * morning's 5-hour checkpoint (z −2.3) unconfirmed till the 10-hour one — section −15 % within 2 days 93.3 %
+ * → 100 %, false exceptions 0.020 → 0.035 per house-week.
  */
-export const CONFIRM_Z = 3;
+export const CONFIRM_Z = 2;
 /** How many judged stages after a first sighting may confirm it (about one production day). */
 export const CONFIRM_WITHIN_STAGES = 3;
 /** CUSUM reference value k and decision interval h, in standard deviations (see cusumStep). */

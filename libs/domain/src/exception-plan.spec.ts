@@ -97,6 +97,30 @@ describe('planExceptionChanges', () => {
     expect(plan([short({ isFinal: true })], {}, [], [older]).opens).toHaveLength(1);
   });
 
+  // Regression (issue 11, seen on the demo): a row fault coming on was confirmed first in one of its sections;
+  // when the row opened, the section's exception stayed open beside it — two alarms for one cause.
+  it('closes the open section shortfalls a row or tier opening now covers, as absorbed', () => {
+    const section = stored({ id: 3, scope: 'section', row: 4, tier: 2 });
+    const elsewhere = stored({ id: 4, scope: 'section', row: 5, tier: 2 });
+    const handled = stored({ id: 5, scope: 'section', row: 4, tier: 1, status: 'acknowledged' });
+    const sectionFinding = short({ scope: 'section', row: 4, tier: 2 });
+    const result = plan([short({ isFinal: true }), sectionFinding], {}, [
+      section,
+      elsewhere,
+      handled,
+    ]);
+    expect(result.opens.map((o) => `${o.scope} ${o.row}`)).toEqual(['row 4']);
+    // The row's own section is absorbed; another row's stays, and so does one a person has in hand.
+    expect(result.absorbs).toEqual([section]);
+    expect(result.updates.map((u) => u.existing.id)).not.toContain(3);
+    expect(result.streaks[streakKey(section)]).toEqual(CLEAR);
+    // A tier already open absorbs a section of its tier the same way.
+    const tier = stored({ id: 9, scope: 'tier', row: null, tier: 2 });
+    expect(plan([], {}, [tier, elsewhere]).absorbs).toEqual([elsewhere]);
+    // A row that is not open absorbs nothing.
+    expect(plan([], {}, [section]).absorbs).toEqual([]);
+  });
+
   it('closes an open exception after two recovered evaluations', () => {
     const existing = stored();
     const first = plan([recovered()], {}, [existing]);

@@ -60,6 +60,11 @@ export interface ExceptionPlan {
     })[];
   /** open exceptions that recovered (closed as "recovered") */
   closes: KnownException[];
+  /**
+   * open section shortfalls now covered by an open shortfall of their row or tier (closed as "absorbed"):
+   * one cause, one alarm, even when a section showed it first. Acknowledged ones stay: a person has them.
+   */
+  absorbs: KnownException[];
   /** open exceptions brought up to date; `isVisible` when a person would see a different count */
   updates: { existing: KnownException; figures: ExceptionFigures; isVisible: boolean }[];
 }
@@ -99,7 +104,13 @@ export function planExceptionChanges(input: {
       )
       .map(streakKey),
   );
-  const plan: ExceptionPlan = { streaks: { ...input.streaks }, opens: [], closes: [], updates: [] };
+  const plan: ExceptionPlan = {
+    streaks: { ...input.streaks },
+    opens: [],
+    closes: [],
+    absorbs: [],
+    updates: [],
+  };
   for (const finding of input.findings) {
     const key = streakKey(finding);
     const existing = live.get(key);
@@ -158,6 +169,20 @@ export function planExceptionChanges(input: {
         isVisible: eggs !== existing.eggs,
       });
     }
+  }
+  // Rows and tiers short after this evaluation absorb the open section shortfalls under them.
+  const closed = new Set(plan.closes.map((e) => e.id));
+  const wide = [...input.open.filter((e) => !closed.has(e.id)), ...plan.opens].filter(
+    (e) => e.kind === 'shortfall' && (e.scope === 'row' || e.scope === 'tier'),
+  );
+  for (const e of input.open) {
+    if (e.kind !== 'shortfall' || e.scope !== 'section' || e.status !== 'open' || closed.has(e.id))
+      continue;
+    const isCovered = wide.some((w) => (w.scope === 'row' ? w.row === e.row : w.tier === e.tier));
+    if (!isCovered) continue;
+    plan.absorbs.push(e);
+    plan.streaks[streakKey(e)] = CLEAR;
+    plan.updates = plan.updates.filter((u) => u.existing.id !== e.id);
   }
   return plan;
 }

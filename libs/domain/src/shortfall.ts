@@ -30,8 +30,11 @@ export const EXCEPTION_STATUSES = ['open', 'acknowledged', 'closed'] as const;
 export type ExceptionStatus = (typeof EXCEPTION_STATUSES)[number];
 /** Reasons a person may close an exception with. */
 export const PERSON_CLOSE_REASONS = ['normal_for_spot', 'fixed', 'false_alarm', 'other'] as const;
-/** Every way an exception ends: a person's reasons, and `recovered`, the engine's own. */
-export const CLOSE_REASONS = ['recovered', ...PERSON_CLOSE_REASONS] as const;
+/**
+ * Every way an exception ends: a person's reasons, and the engine's own — `recovered`, and `absorbed` (a
+ * section's exception taken over by its row's or tier's).
+ */
+export const CLOSE_REASONS = ['recovered', 'absorbed', ...PERSON_CLOSE_REASONS] as const;
 export type CloseReason = (typeof CLOSE_REASONS)[number];
 
 /** A status in words, the same on every screen. */
@@ -44,6 +47,7 @@ export const EXCEPTION_STATUS_LABELS: Record<ExceptionStatus, string> = {
 /** Why it closed, in words. */
 export const CLOSE_REASON_WORDS: Record<CloseReason, string> = {
   recovered: 'recovered by itself',
+  absorbed: 'part of its row or tier exception',
   fixed: 'fixed',
   normal_for_spot: 'normal for this spot',
   false_alarm: 'false alarm',

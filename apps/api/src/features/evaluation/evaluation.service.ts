@@ -583,7 +583,12 @@ export function createEvaluationService(
     const changed: ExceptionRow[] = [];
     // Most evaluations change no exception: then the streaks are the one write, and need no transaction
     // (this runs every few seconds per house, and at every checkpoint of a replay).
-    if (plan.opens.length === 0 && plan.closes.length === 0 && plan.updates.length === 0) {
+    if (
+      plan.opens.length === 0 &&
+      plan.closes.length === 0 &&
+      plan.absorbs.length === 0 &&
+      plan.updates.length === 0
+    ) {
       await saveState(db, plan.streaks);
       Object.assign(streaks, plan.streaks);
       return changed;
@@ -609,11 +614,15 @@ export function createEvaluationService(
         });
         changed.push(row);
       }
-      for (const existing of plan.closes) {
+      const closing = [
+        ...plan.closes.map((existing) => ({ existing, closeReason: 'recovered' as const })),
+        ...plan.absorbs.map((existing) => ({ existing, closeReason: 'absorbed' as const })),
+      ];
+      for (const { existing, closeReason } of closing) {
         const row = await updateException(tx, house.farmId, existing.id, {
           status: 'closed',
           closedAt: at,
-          closeReason: 'recovered',
+          closeReason,
           lastEvaluatedAt: at,
         });
         if (!row) continue;
@@ -624,7 +633,7 @@ export function createEvaluationService(
           entity: 'exception',
           entityId: row.id,
           before: { status: existing.status },
-          after: { status: 'closed', closeReason: 'recovered' },
+          after: { status: 'closed', closeReason },
         });
         changed.push(row);
       }
