@@ -1,0 +1,1 @@
+ALTER TYPE "public"."close_reason" ADD VALUE 'absorbed' BEFORE 'normal_for_spot';
