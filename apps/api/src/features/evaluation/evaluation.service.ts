@@ -374,6 +374,7 @@ export function createEvaluationService(
       const quiet = isLight
         ? belts.filter((b) => recent.has(b.id) && (recent.get(b.id) ?? 0) === 0)
         : [];
+      const quietIds = new Set(quiet.map((b) => b.id));
       const dayStart = productionDayStart(day, house.timezone, house.lightsOn);
       const lookBack = productionDayStart(addDays(day, -1), house.timezone, house.lightsOn);
       const windowStart = new Date(at.getTime() - SILENT_LOOK_BACK_HOURS * 3_600_000);
@@ -388,9 +389,17 @@ export function createEvaluationService(
         isMorning ? dayStart : at,
         windowStart,
       );
+      // Each counter's minutes once, so summing a peer after an instant reads that peer's rows only (every
+      // counter is quiet in the first hour of a morning: a house's belts times their peers).
+      const minutesOf = new Map<number, typeof byMinute>();
+      for (const m of byMinute) {
+        const list = minutesOf.get(m.counterId) ?? [];
+        list.push(m);
+        minutesOf.set(m.counterId, list);
+      }
       const eggsAfter = (counterId: number, after: Date) =>
-        byMinute
-          .filter((m) => m.counterId === counterId && m.minute > after)
+        (minutesOf.get(counterId) ?? [])
+          .filter((m) => m.minute > after)
           .reduce((sum, m) => sum + m.eggs, 0);
       const past = quiet.length > 0 ? await pastDays(layout, day) : [];
       // Each section's last complete day, for when its peers are past their first eggs of today.
@@ -405,7 +414,7 @@ export function createEvaluationService(
         const own = recent.get(belt.id) ?? 0;
         let due = 0;
         let isSilentNow = false;
-        if (quiet.includes(belt)) {
+        if (quietIds.has(belt.id)) {
           const peers = belts.filter(
             (b) =>
               b.id !== belt.id &&
